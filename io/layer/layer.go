@@ -1,0 +1,111 @@
+// Package layer holds the in-memory table that every reader produces and every
+// later stage consumes: one row per area, with an id, a polygon geometry and
+// attribute columns. Nothing in this package parses files.
+package layer
+
+import (
+	"fmt"
+	"sort"
+
+	"github.com/paulmach/orb"
+)
+
+// Kind says how a column's values are stored.
+type Kind int
+
+const (
+	// Number columns hold float64 values with a missing mask.
+	Number Kind = iota
+	// Text columns hold strings with a missing mask.
+	Text
+)
+
+func (k Kind) String() string {
+	if k == Number {
+		return "number"
+	}
+	return "text"
+}
+
+// Column is one attribute across all areas of a layer. Exactly one of Num or
+// Str is filled, according to Kind; Missing[i] marks a value that is absent,
+// null, empty or a missing-value word, in which case Num[i] (or Str[i]) is
+// meaningless.
+type Column struct {
+	Name    string
+	Kind    Kind
+	Num     []float64
+	Str     []string
+	Missing []bool
+}
+
+// MissingCount returns how many areas lack a value in the column.
+func (c *Column) MissingCount() int {
+	n := 0
+	for _, m := range c.Missing {
+		if m {
+			n++
+		}
+	}
+	return n
+}
+
+// Label returns the value of row i as text, whatever the column kind, and
+// "" for a missing value. Numbers are written in their shortest exact form.
+func (c *Column) Label(i int) string {
+	if c.Missing[i] {
+		return ""
+	}
+	if c.Kind == Text {
+		return c.Str[i]
+	}
+	return formatNumber(c.Num[i])
+}
+
+func formatNumber(v float64) string {
+	return fmt.Sprintf("%v", v)
+}
+
+// Layer is a table of areas. IDs are unique. Geoms[i] is the geometry of area
+// i (possibly with holes and several parts).
+type Layer struct {
+	// Source names where the layer came from (a path, or "-" for stdin), for
+	// error messages and reports.
+	Source  string
+	IDs     []string
+	Geoms   []orb.MultiPolygon
+	Columns []*Column
+	// IDColumn is the attribute the ids came from; "" when they came from the
+	// feature ids, "#" when they are feature positions.
+	IDColumn string
+}
+
+// Len returns the number of areas.
+func (l *Layer) Len() int { return len(l.IDs) }
+
+// Column returns the named column, or an error naming the layer and listing
+// the columns it has.
+func (l *Layer) Column(name string) (*Column, error) {
+	for _, c := range l.Columns {
+		if c.Name == name {
+			return c, nil
+		}
+	}
+	names := make([]string, len(l.Columns))
+	for i, c := range l.Columns {
+		names[i] = c.Name
+	}
+	sort.Strings(names)
+	return nil, fmt.Errorf("%s: no column %q (columns: %s)", l.Source, name, joinOrNone(names))
+}
+
+func joinOrNone(names []string) string {
+	if len(names) == 0 {
+		return "none"
+	}
+	s := names[0]
+	for _, n := range names[1:] {
+		s += ", " + n
+	}
+	return s
+}
