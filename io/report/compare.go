@@ -1,0 +1,145 @@
+package report
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/areatest/areatest/spatial/compare"
+)
+
+const width = 88
+
+// CompareText writes the plain text report of a comparison.
+func CompareText(w io.Writer, r *compare.Result) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "areatest %s: does %s differ between groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
+	fmt.Fprintf(&b, "  input      %s, %s areas, %s tested\n", r.Input.File, Count(r.Input.Areas), Count(r.Input.Tested))
+	fmt.Fprintf(&b, "  outcome    %s\n", r.Input.Outcome)
+	fmt.Fprintf(&b, "  groups     %s\n", r.Input.Group)
+	if r.Input.Strata != "" {
+		fmt.Fprintf(&b, "  strata     %s\n", r.Input.Strata)
+	}
+	for i, e := range r.Excluded {
+		head := "  left out  "
+		if i > 0 {
+			head = "           "
+		}
+		fmt.Fprintf(&b, "%s %s: %s\n", head, Count(e.Areas), e.Reason+idList(e.IDs, 6))
+	}
+	b.WriteString("\n")
+
+	fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", r.Input.Group, "areas", "median", "mean", "sd")
+	for _, g := range r.Groups {
+		fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
+	}
+	b.WriteString("\n")
+
+	s := r.Statistic
+	switch {
+	case len(s.Contrast) == 2 && s.InOutcomeUnits:
+		fmt.Fprintf(&b, "  %s, %s − %s: %s (units of %s)\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed), r.Input.Outcome)
+	case len(s.Contrast) == 2:
+		fmt.Fprintf(&b, "  %s, %s against %s: %s\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
+	default:
+		fmt.Fprintf(&b, "  %s across %d groups: %s\n", capitalise(s.Label), len(r.Groups), Number(s.Observed))
+	}
+	b.WriteString("\n")
+
+	fmt.Fprintf(&b, "  %-24s %10s   %-21s %12s\n", "shuffle", "p-value", "95% interval", "arrangements")
+	for _, t := range r.Tests {
+		interval := "exact"
+		count := Count(t.Permutations)
+		if !t.Exact {
+			interval = PValue(t.Interval[0]) + " to " + PValue(t.Interval[1])
+		} else {
+			count += " (all)"
+		}
+		fmt.Fprintf(&b, "  %-24s %10s   %-21s %12s\n", truncate(t.Scheme, 24), PValue(t.PValue), interval, count)
+	}
+	if len(r.Tests) > 0 {
+		b.WriteString(Wrap(testFootnote(r), width, "  ", "  "))
+	}
+	b.WriteString("\n")
+
+	a := r.Autocorrelation
+	fmt.Fprintf(&b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
+	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", Count(r.Weights.Areas), Count(r.Weights.Links),
+		Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
+	if a.Outcome.Variable != "" {
+		fmt.Fprintf(&b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
+		for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {
+			fmt.Fprintf(&b, "  %-24s %10.3f %10.3f %10s\n", truncate(m.Variable, 24), m.MoransI, m.Expected, PValue(m.PValue))
+		}
+	}
+	b.WriteString("\n")
+
+	if len(r.Warnings) > 0 {
+		b.WriteString("Warnings\n")
+		for _, wn := range r.Warnings {
+			b.WriteString(Wrap(wn, width, "  ! ", "    "))
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString("Keep in mind\n")
+	for _, c := range r.Cautions {
+		b.WriteString(Wrap(c, width, "  - ", "    "))
+	}
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per scheme · areatest %s\n", r.Seed, Count(permutationsAsked(r)), r.Version)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func testFootnote(r *compare.Result) string {
+	t := r.Tests[0]
+	side := map[string]string{
+		"two-sided": "Two-sided: twice the smaller one-sided p-value.",
+		"greater":   "One-sided: shuffles with a statistic at least as large as observed.",
+		"less":      "One-sided: shuffles with a statistic at most as large as observed.",
+	}[t.Alternative]
+	if len(r.Statistic.Contrast) == 0 {
+		side = "One-sided by nature: only large values of " + r.Statistic.Label + " are evidence."
+	}
+	note := side + " Monte Carlo p = (1 + shuffles as extreme) / (1 + shuffles), with a 95% Clopper–Pearson interval for the p-value all arrangements would give; \"exact\" means every distinct arrangement was counted."
+	return note
+}
+
+func permutationsAsked(r *compare.Result) int {
+	for _, t := range r.Tests {
+		if !t.Exact {
+			return t.Permutations
+		}
+	}
+	if r.Autocorrelation.Outcome.Permutations > 0 && !r.Autocorrelation.Outcome.Exact {
+		return r.Autocorrelation.Outcome.Permutations
+	}
+	if len(r.Tests) > 0 {
+		return r.Tests[0].Permutations
+	}
+	return 0
+}
+
+func idList(ids []string, max int) string {
+	if len(ids) == 0 {
+		return ""
+	}
+	if len(ids) <= max {
+		return " (" + strings.Join(ids, ", ") + ")"
+	}
+	return fmt.Sprintf(" (%s and %d more)", strings.Join(ids[:max], ", "), len(ids)-max)
+}
+
+func truncate(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return string(r[:n-1]) + "…"
+}
+
+func capitalise(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}

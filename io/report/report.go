@@ -1,0 +1,102 @@
+// Package report renders result structs for people and programs: a plain
+// text report for the terminal and a JSON document. Both are views of the
+// same struct; neither computes anything.
+package report
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// JSON writes v as one indented JSON document followed by a newline.
+func JSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
+}
+
+// Wrap breaks text into lines of at most width characters, each starting with
+// indent (the first with first instead).
+func Wrap(text string, width int, first, indent string) string {
+	var b strings.Builder
+	line := first
+	empty := true
+	for _, word := range strings.Fields(text) {
+		if !empty && len([]rune(line))+1+len([]rune(word)) > width {
+			b.WriteString(line)
+			b.WriteByte('\n')
+			line = indent
+			empty = true
+		}
+		if !empty {
+			line += " "
+		}
+		line += word
+		empty = false
+	}
+	b.WriteString(line)
+	b.WriteByte('\n')
+	return b.String()
+}
+
+// PValue formats a p-value for reading: four decimals, or two significant
+// digits in scientific form below 0.0001.
+func PValue(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "–"
+	case p == 0:
+		return "0"
+	case p < 0.0001:
+		return strconv.FormatFloat(p, 'e', 1, 64)
+	}
+	return strconv.FormatFloat(p, 'f', 4, 64)
+}
+
+// Number formats a statistic with about four significant digits, without
+// exponent for ordinary magnitudes.
+func Number(v float64) string {
+	a := math.Abs(v)
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return fmt.Sprint(v)
+	case v == 0:
+		return "0"
+	case a >= 1e7 || a < 1e-4:
+		return strconv.FormatFloat(v, 'e', 3, 64)
+	}
+	decimals := 3 - int(math.Floor(math.Log10(a)))
+	if decimals < 0 {
+		decimals = 0
+	}
+	s := strconv.FormatFloat(v, 'f', decimals, 64)
+	if strings.Contains(s, ".") {
+		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	}
+	return s
+}
+
+// Count writes an integer with thousands separators (9,999).
+func Count(n int) string {
+	s := strconv.Itoa(n)
+	neg := strings.HasPrefix(s, "-")
+	if neg {
+		s = s[1:]
+	}
+	var out []byte
+	for i := range s {
+		if i > 0 && (len(s)-i)%3 == 0 {
+			out = append(out, ',')
+		}
+		out = append(out, s[i])
+	}
+	if neg {
+		return "-" + string(out)
+	}
+	return string(out)
+}

@@ -1,0 +1,493 @@
+// Package compare runs the tool's main job: does an outcome differ between
+// groups of areas beyond chance? It takes plain columns and a neighbour
+// graph, runs the group statistic under every shuffle scheme asked for, and
+// checks whether the outcome and the grouping cluster in space, which is
+// when an ordinary shuffle overstates significance.
+package compare
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
+)
+
+// Input is what one comparison needs. All slices have one entry per area of
+// the layer, in layer order.
+type Input struct {
+	IDs []string
+	// Outcome values, with OutcomeMissing marking areas without one.
+	OutcomeName    string
+	Outcome        []float64
+	OutcomeMissing []bool
+	// Group labels as text, with GroupMissing marking areas without one.
+	GroupName    string
+	Group        []string
+	GroupMissing []bool
+	// Strata labels, optional (nil when no strata were asked for).
+	StrataName    string
+	Strata        []string
+	StrataMissing []bool
+	// Graph is the binary neighbour graph of all areas of the layer.
+	Graph *weights.Graph
+}
+
+// Options tune the comparison.
+type Options struct {
+	// Statistic, when nil, is chosen from the number of groups: difference
+	// in medians for two, Kruskal–Wallis H for more.
+	Statistic *groups.Statistic
+	// Contrast names the two levels A and B of a two-group contrast, A − B.
+	// With more than two levels in the data it restricts the test to them.
+	Contrast    []string
+	Alternative shuffle.Alternative
+	// Permutations is the number of Monte Carlo shuffles B per scheme.
+	Permutations int
+	// ExactLimit as in shuffle.Plan.
+	ExactLimit int
+	Seed       uint64
+	Workers    int
+	// Alpha is the level at which the spatial check calls clustering
+	// significant.
+	Alpha float64
+}
+
+// Result is everything a report shows. The text report, the JSON document
+// and any later view render this one struct.
+type Result struct {
+	Version string        `json:"version"`
+	Seed    uint64        `json:"seed"`
+	Input   InputInfo     `json:"input"`
+	Weights WeightsInfo   `json:"weights"`
+	Groups  []GroupResult `json:"groups"`
+	// Statistic describes the group statistic and its observed value.
+	Statistic StatisticInfo `json:"statistic"`
+	// Tests holds one entry per shuffle scheme, the free shuffle first.
+	Tests           []shuffle.Result `json:"tests"`
+	Autocorrelation Autocorrelation  `json:"autocorrelation"`
+	Excluded        []Exclusion      `json:"excluded"`
+	Warnings        []string         `json:"warnings"`
+	Cautions        []string         `json:"cautions"`
+	// Later schemes (spatially constrained nulls, effective sample size, a
+	// measured false-positive rate) add their own fields here.
+}
+
+// InputInfo says what was read and which columns were used.
+type InputInfo struct {
+	File    string `json:"file"`
+	Areas   int    `json:"areas"`
+	Tested  int    `json:"tested"`
+	Outcome string `json:"outcome"`
+	Group   string `json:"group"`
+	Strata  string `json:"strata,omitempty"`
+}
+
+// WeightsInfo summarises the neighbour graph the spatial check used.
+type WeightsInfo struct {
+	Kind      string `json:"kind"`
+	Transform string `json:"transform"`
+	// Areas and Links count the graph among the tested areas; Links counts
+	// each neighbour pair once.
+	Areas     int      `json:"areas"`
+	Links     int      `json:"links"`
+	Islands   int      `json:"islands"`
+	IslandIDs []string `json:"island_ids"`
+}
+
+// GroupResult is one group's size and outcome summary.
+type GroupResult struct {
+	Level string `json:"level"`
+	groups.Summary
+}
+
+// StatisticInfo names the group statistic and gives its observed value.
+type StatisticInfo struct {
+	Name     string  `json:"name"`
+	Label    string  `json:"label"`
+	Observed float64 `json:"observed"`
+	// Contrast is [A, B] for a two-group statistic, read as A − B.
+	Contrast []string `json:"contrast,omitempty"`
+	// Units says whether Observed is in the outcome's units.
+	InOutcomeUnits bool `json:"in_outcome_units"`
+}
+
+// Autocorrelation is the spatial check: Moran's I of the outcome and of each
+// group indicator, with permutation p-values.
+type Autocorrelation struct {
+	Outcome VariableMoran   `json:"outcome"`
+	Group   []VariableMoran `json:"group"`
+	// Clustered is true when both the outcome and some group indicator show
+	// significant positive autocorrelation at Alpha.
+	Clustered bool    `json:"clustered"`
+	Alpha     float64 `json:"alpha"`
+}
+
+// VariableMoran is Moran's I of one variable.
+type VariableMoran struct {
+	Variable     string  `json:"variable"`
+	MoransI      float64 `json:"morans_i"`
+	Expected     float64 `json:"expected"`
+	PValue       float64 `json:"p_value"`
+	Permutations int     `json:"permutations"`
+	Exact        bool    `json:"exact"`
+}
+
+// Exclusion counts the areas left out for one reason.
+type Exclusion struct {
+	Reason string   `json:"reason"`
+	Areas  int      `json:"areas"`
+	IDs    []string `json:"ids"`
+}
+
+// Cautions are printed with every result.
+var Cautions = []string{
+	"An association between areas is not evidence that one thing causes the other.",
+	"Results for areas do not carry over to the individuals living in them (the ecological fallacy).",
+	"Rates from areas with small populations are unstable and can dominate a comparison.",
+	"This tool supports, and does not replace, the judgement of trained epidemiologists and local rules of practice.",
+}
+
+// Error is a problem with the data that the user must fix; it names the
+// column concerned.
+type Error struct{ Msg string }
+
+func (e *Error) Error() string { return e.Msg }
+
+func dataErr(format string, a ...any) error { return &Error{Msg: fmt.Sprintf(format, a...)} }
+
+// Run carries out the comparison.
+func Run(in Input, opt Options) (*Result, error) {
+	n := len(in.IDs)
+	if len(in.Outcome) != n || len(in.Group) != n || in.Graph == nil || in.Graph.Len() != n {
+		return nil, errors.New("compare: input columns and graph disagree in length")
+	}
+	res := &Result{Seed: opt.Seed, Cautions: Cautions, Warnings: []string{}, Excluded: []Exclusion{}}
+	res.Input = InputInfo{Areas: n, Outcome: in.OutcomeName, Group: in.GroupName, Strata: in.StrataName}
+
+	// Decide which areas take part, recording why the others do not.
+	keep := make([]int, 0, n)
+	reasons := map[string]*Exclusion{}
+	var order []string
+	exclude := func(i int, why string) {
+		e, ok := reasons[why]
+		if !ok {
+			e = &Exclusion{Reason: why}
+			reasons[why] = e
+			order = append(order, why)
+		}
+		e.Areas++
+		e.IDs = append(e.IDs, in.IDs[i])
+	}
+	var contrast map[string]bool
+	if len(opt.Contrast) > 0 {
+		if len(opt.Contrast) != 2 || opt.Contrast[0] == opt.Contrast[1] {
+			return nil, dataErr("--contrast needs two different levels of %s, as A,B", in.GroupName)
+		}
+		contrast = map[string]bool{opt.Contrast[0]: true, opt.Contrast[1]: true}
+	}
+	for i := 0; i < n; i++ {
+		switch {
+		case in.OutcomeMissing[i]:
+			exclude(i, "missing "+in.OutcomeName)
+		case in.GroupMissing[i]:
+			exclude(i, "missing "+in.GroupName)
+		case in.Strata != nil && in.StrataMissing[i]:
+			exclude(i, "missing "+in.StrataName)
+		case contrast != nil && !contrast[in.Group[i]]:
+			exclude(i, fmt.Sprintf("%s not in the contrast", in.GroupName))
+		default:
+			keep = append(keep, i)
+		}
+	}
+	for _, r := range order {
+		res.Excluded = append(res.Excluded, *reasons[r])
+	}
+
+	// Levels, in the order of the contrast when one is given.
+	present := map[string]int{}
+	for _, i := range keep {
+		present[in.Group[i]]++
+	}
+	levels, err := orderLevels(present, opt.Contrast, in.GroupName)
+	if err != nil {
+		return nil, err
+	}
+	if len(levels) < 2 {
+		return nil, dataErr("%s has only one level (%q) among the %d areas with data; a comparison needs at least two groups", in.GroupName, levels[0], len(keep))
+	}
+	for _, l := range levels {
+		if present[l] < 2 {
+			return nil, dataErr("group %s=%q has %d area with data; every group needs at least 2", in.GroupName, l, present[l])
+		}
+	}
+	code := map[string]int32{}
+	for k, l := range levels {
+		code[l] = int32(k)
+	}
+	y := make([]float64, len(keep))
+	lab := make([]int32, len(keep))
+	for k, i := range keep {
+		y[k] = in.Outcome[i]
+		lab[k] = code[in.Group[i]]
+	}
+	res.Input.Tested = len(keep)
+
+	stat := groups.KruskalWallis
+	if len(levels) == 2 {
+		stat = groups.DiffMedians
+	}
+	if opt.Statistic != nil {
+		stat = *opt.Statistic
+		if stat.TwoGroupsOnly() && len(levels) != 2 {
+			return nil, dataErr("the %s compares two groups, but %s has %d levels (%s); use kruskal-wallis or anova-f, or pick two with --contrast",
+				stat, in.GroupName, len(levels), strings.Join(quoteAll(levels), ", "))
+		}
+	}
+	data, err := groups.Prepare(y, lab, len(levels))
+	if err != nil {
+		return nil, err
+	}
+	for g, s := range data.Summaries() {
+		res.Groups = append(res.Groups, GroupResult{Level: levels[g], Summary: s})
+	}
+	res.Statistic = StatisticInfo{Name: stat.Flag(), Label: stat.String(), Observed: data.Observed(stat),
+		InOutcomeUnits: stat.InOutcomeUnits()}
+	if stat.TwoGroupsOnly() {
+		res.Statistic.Contrast = []string{levels[0], levels[1]}
+	}
+	if math.IsNaN(res.Statistic.Observed) || math.IsInf(res.Statistic.Observed, 0) {
+		return nil, dataErr("the %s of %s is undefined for these data (is %s constant within each group?)", stat, in.OutcomeName, in.OutcomeName)
+	}
+	alt := opt.Alternative
+	if !stat.Directional() && alt != shuffle.Greater {
+		// H and F grow with any separation of the groups; only their upper
+		// tail is evidence.
+		alt = shuffle.Greater
+	}
+	scale := 1.0
+	if stat.InOutcomeUnits() {
+		scale = data.Y[len(data.Y)-1] - data.Y[0]
+	}
+	factory := data.Factory(stat)
+	plan := shuffle.Plan{Scheme: "free", Labels: data.Labels, Permutations: opt.Permutations,
+		ExactLimit: opt.ExactLimit, Seed: opt.Seed, Purpose: 1, Workers: opt.Workers, Alternative: alt, Scale: scale}
+	free, err := shuffle.Run(plan, factory)
+	if err != nil {
+		return nil, err
+	}
+	res.Tests = append(res.Tests, free)
+
+	if in.Strata != nil {
+		strataCode := map[string]int32{}
+		strata := make([]int32, len(keep))
+		for pos, o := range data.Order {
+			s := in.Strata[keep[o]]
+			c, ok := strataCode[s]
+			if !ok {
+				c = int32(len(strataCode))
+				strataCode[s] = c
+			}
+			strata[pos] = c
+		}
+		if len(strataCode) < 2 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%s has a single level among the tested areas, so the within-%s shuffle is the free shuffle.", in.StrataName, in.StrataName))
+		}
+		sp := plan
+		sp.Scheme = "within " + in.StrataName
+		sp.Strata = strata
+		sp.Purpose = 2
+		within, err := shuffle.Run(sp, factory)
+		if err != nil {
+			return nil, err
+		}
+		res.Tests = append(res.Tests, within)
+		if mixed := mixedStrata(strata, data.Labels); mixed == 0 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("No level of %s holds areas of more than one group, so shuffling within %s cannot move a label: its p-value is 1 by construction.", in.StrataName, in.StrataName))
+		}
+	}
+
+	if err := spatialCheck(in, opt, keep, levels, y, lab, res); err != nil {
+		return nil, err
+	}
+	return res, nil
+}
+
+// mixedStrata counts strata that hold more than one group.
+func mixedStrata(strata, labels []int32) int {
+	first := map[int32]int32{}
+	mixed := map[int32]bool{}
+	for i, s := range strata {
+		if l, ok := first[s]; !ok {
+			first[s] = labels[i]
+		} else if l != labels[i] {
+			mixed[s] = true
+		}
+	}
+	return len(mixed)
+}
+
+// spatialCheck computes Moran's I of the outcome and of each group
+// indicator on the row-standardised graph among the tested areas, leaving
+// out areas with no neighbour there (their spatial lag is undefined).
+func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float64, lab []int32, res *Result) error {
+	sub := in.Graph.Subset(keep)
+	var linked []int
+	info := WeightsInfo{Kind: in.Graph.Kind, Transform: "row-standardised", IslandIDs: []string{}}
+	for k := 0; k < sub.Len(); k++ {
+		if sub.Degree(k) == 0 {
+			info.Islands++
+			info.IslandIDs = append(info.IslandIDs, in.IDs[keep[k]])
+		} else {
+			linked = append(linked, k)
+		}
+	}
+	info.Areas = len(keep)
+	info.Links = sub.Links() / 2
+	res.Weights = info
+	res.Autocorrelation.Alpha = opt.Alpha
+	if len(linked) < 3 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", len(linked)))
+		return nil
+	}
+	g := sub.Subset(linked).RowStandardised()
+	plan := shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
+		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided}
+	ys := make([]float64, len(linked))
+	for k, i := range linked {
+		ys[k] = y[i]
+	}
+	plan.Purpose = 10
+	outcome, err := moranOf(in.OutcomeName, ys, g, plan)
+	if err != nil {
+		return dataErr("Moran's I of %s: %v", in.OutcomeName, err)
+	}
+	res.Autocorrelation.Outcome = outcome
+	// With two groups one indicator carries all the information (the other
+	// is its complement, with the same I).
+	indicators := levels
+	if len(levels) == 2 {
+		indicators = levels[:1]
+	}
+	for k, level := range indicators {
+		x := make([]float64, len(linked))
+		for t, i := range linked {
+			if lab[i] == int32(k) {
+				x[t] = 1
+			}
+		}
+		plan.Purpose = 11 + uint64(k)
+		name := in.GroupName + "=" + level
+		m, err := moranOf(name, x, g, plan)
+		if errors.Is(err, autocorr.ErrConstant) {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("Every area with a neighbour has the same value of %s, so its clustering cannot be measured.", name))
+			continue
+		}
+		if err != nil {
+			return dataErr("Moran's I of %s: %v", name, err)
+		}
+		res.Autocorrelation.Group = append(res.Autocorrelation.Group, m)
+	}
+	if info.Islands > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d tested area(s) have no neighbour (%s) and are left out of the spatial check; they still count in the group test.",
+			info.Islands, listIDs(info.IslandIDs, 5)))
+	}
+	significant := func(m VariableMoran) bool { return m.MoransI > m.Expected && m.PValue <= opt.Alpha }
+	if significant(res.Autocorrelation.Outcome) {
+		for _, m := range res.Autocorrelation.Group {
+			if significant(m) {
+				res.Autocorrelation.Clustered = true
+				res.Warnings = append(res.Warnings, clusterWarning(res, m))
+				break
+			}
+		}
+	}
+	return nil
+}
+
+func clusterWarning(res *Result, m VariableMoran) string {
+	return fmt.Sprintf("Both the outcome %s (Moran's I %.2f) and the grouping %s (Moran's I %.2f) cluster in space. "+
+		"Neighbouring areas resemble each other and tend to share a group, but the free shuffle treats all %d areas as independent pieces of evidence, "+
+		"so its p-value is likely too small. Treat it as a lower bound, not as the strength of the evidence.",
+		res.Autocorrelation.Outcome.Variable, res.Autocorrelation.Outcome.MoransI, m.Variable, m.MoransI, res.Input.Tested)
+}
+
+func moranOf(name string, x []float64, g *weights.Graph, plan shuffle.Plan) (VariableMoran, error) {
+	t, err := autocorr.RunTest(x, g, plan)
+	if err != nil {
+		return VariableMoran{}, err
+	}
+	return VariableMoran{Variable: name, MoransI: t.MoransI, Expected: t.Expected, PValue: t.Permutation.PValue,
+		Permutations: t.Permutation.Permutations, Exact: t.Permutation.Exact}, nil
+}
+
+func listIDs(ids []string, max int) string {
+	if len(ids) <= max {
+		return strings.Join(ids, ", ")
+	}
+	return strings.Join(ids[:max], ", ") + fmt.Sprintf(" and %d more", len(ids)-max)
+}
+
+func quoteAll(s []string) []string {
+	out := make([]string, len(s))
+	for i, v := range s {
+		out[i] = strconv.Quote(v)
+	}
+	return out
+}
+
+// positive lists level names that usually mean "has it"; with two such
+// levels, that one becomes group A so that the contrast reads
+// "with − without" by default.
+var positive = map[string]bool{"1": true, "yes": true, "true": true, "y": true, "t": true}
+
+// orderLevels puts the group levels in report order. With a contrast, its
+// order; with two levels one of which reads as "yes", that one first;
+// otherwise natural order (numbers by value, then text).
+func orderLevels(present map[string]int, contrast []string, column string) ([]string, error) {
+	if len(contrast) == 2 {
+		for _, c := range contrast {
+			if present[c] == 0 {
+				var have []string
+				for l := range present {
+					have = append(have, l)
+				}
+				sort.Strings(have)
+				return nil, dataErr("--contrast level %q is not a level of %s among the areas with data (levels: %s)", c, column, strings.Join(quoteAll(have), ", "))
+			}
+		}
+		return []string{contrast[0], contrast[1]}, nil
+	}
+	levels := make([]string, 0, len(present))
+	for l := range present {
+		levels = append(levels, l)
+	}
+	sort.Slice(levels, func(a, b int) bool { return naturalLess(levels[a], levels[b]) })
+	if len(levels) == 2 {
+		p0, p1 := positive[strings.ToLower(levels[0])], positive[strings.ToLower(levels[1])]
+		if p1 && !p0 {
+			levels[0], levels[1] = levels[1], levels[0]
+		}
+	}
+	return levels, nil
+}
+
+func naturalLess(a, b string) bool {
+	x, errA := strconv.ParseFloat(a, 64)
+	y, errB := strconv.ParseFloat(b, 64)
+	switch {
+	case errA == nil && errB == nil:
+		return x < y
+	case errA == nil:
+		return true
+	case errB == nil:
+		return false
+	}
+	return a < b
+}

@@ -1,0 +1,339 @@
+// Package groups holds the statistics that compare an outcome across groups
+// of areas: for two groups the difference in medians or means, Welch's t and
+// the rank sum; for two or more, the Kruskal–Wallis H and the one-way F.
+//
+// The outcome is sorted once (Prepare); an arrangement is then only a vector
+// of group labels in that sorted order, which is what the shuffle machinery
+// permutes. Evaluating a statistic for an arrangement walks the vector once
+// and allocates nothing.
+package groups
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/areatest/areatest/spatial/shuffle"
+)
+
+// Statistic names a group statistic.
+type Statistic int
+
+const (
+	// DiffMedians is median(A) − median(B), in the outcome's units.
+	DiffMedians Statistic = iota
+	// DiffMeans is mean(A) − mean(B), in the outcome's units.
+	DiffMeans
+	// WelchT is Welch's t for mean(A) − mean(B) with unequal variances.
+	WelchT
+	// RankSum is the Mann–Whitney U of group A: the number of pairs (a, b)
+	// with a > b, ties counting one half.
+	RankSum
+	// KruskalWallis is the Kruskal–Wallis H with the correction for ties.
+	KruskalWallis
+	// OneWayF is the one-way analysis-of-variance F ratio.
+	OneWayF
+)
+
+var statNames = []struct {
+	flag, label string
+	twoOnly     bool
+	unitful     bool
+}{
+	{"median-diff", "difference in medians", true, true},
+	{"mean-diff", "difference in means", true, true},
+	{"welch-t", "Welch t", true, false},
+	{"rank-sum", "rank sum (Mann–Whitney U)", true, false},
+	{"kruskal-wallis", "Kruskal–Wallis H", false, false},
+	{"anova-f", "one-way F", false, false},
+}
+
+// Flag returns the name used on the command line.
+func (s Statistic) Flag() string { return statNames[s].flag }
+
+// String returns the name used in reports.
+func (s Statistic) String() string { return statNames[s].label }
+
+// TwoGroupsOnly reports whether the statistic is defined for exactly two
+// groups.
+func (s Statistic) TwoGroupsOnly() bool { return statNames[s].twoOnly }
+
+// InOutcomeUnits reports whether the statistic is measured in the outcome's
+// units (a difference) rather than being unitless.
+func (s Statistic) InOutcomeUnits() bool { return statNames[s].unitful }
+
+// Directional reports whether the statistic has a sign that says which group
+// is higher; H and F only grow with separation, so their tests are one-sided
+// by nature.
+func (s Statistic) Directional() bool { return s.TwoGroupsOnly() }
+
+// ParseStatistic reads a statistic's command-line name.
+func ParseStatistic(name string) (Statistic, error) {
+	var all []string
+	for i, s := range statNames {
+		if s.flag == name {
+			return Statistic(i), nil
+		}
+		all = append(all, s.flag)
+	}
+	return 0, fmt.Errorf("unknown statistic %q (choose one of %v)", name, all)
+}
+
+// Data is an outcome prepared for group tests: values sorted ascending with
+// their mid-ranks, and the group label of each sorted position.
+type Data struct {
+	// Sorted outcome values.
+	Y []float64
+	// Ranks are mid-ranks (1-based, ties averaged) of Y.
+	Ranks []float64
+	// Labels[i] is the group of the area at sorted position i (0..K−1).
+	Labels []int32
+	// Order[i] is the original index of the area at sorted position i.
+	Order []int
+	// K is the number of groups; Sizes their areas.
+	K     int
+	Sizes []int
+	// tieTerm is Σ(t³ − t) over tied runs, for the Kruskal–Wallis correction.
+	tieTerm float64
+	// centred values and their total sum of squares, for mean-based
+	// statistics (centring keeps the sums well conditioned).
+	centred []float64
+	ssTotal float64
+	mean    float64
+}
+
+// Prepare sorts the outcome once. labels[i] in 0..k−1 is the group of area i.
+// Every group needs at least two areas.
+func Prepare(y []float64, labels []int32, k int) (*Data, error) {
+	n := len(y)
+	if len(labels) != n {
+		return nil, fmt.Errorf("groups: %d labels for %d values", len(labels), n)
+	}
+	if k < 2 {
+		return nil, fmt.Errorf("groups: need at least two groups, have %d", k)
+	}
+	d := &Data{Y: make([]float64, n), Ranks: make([]float64, n), Labels: make([]int32, n),
+		Order: make([]int, n), K: k, Sizes: make([]int, k), centred: make([]float64, n)}
+	for i := range d.Order {
+		d.Order[i] = i
+		v := y[i]
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("groups: value %d is %v", i, v)
+		}
+		if labels[i] < 0 || int(labels[i]) >= k {
+			return nil, fmt.Errorf("groups: label %d out of range", labels[i])
+		}
+		d.Sizes[labels[i]]++
+	}
+	for g, s := range d.Sizes {
+		if s < 2 {
+			return nil, fmt.Errorf("groups: group %d has %d area(s); each group needs at least 2", g, s)
+		}
+	}
+	sort.SliceStable(d.Order, func(a, b int) bool { return y[d.Order[a]] < y[d.Order[b]] })
+	var sum float64
+	for i, o := range d.Order {
+		d.Y[i] = y[o]
+		d.Labels[i] = labels[o]
+		sum += y[o]
+	}
+	d.mean = sum / float64(n)
+	for i, v := range d.Y {
+		d.centred[i] = v - d.mean
+		d.ssTotal += d.centred[i] * d.centred[i]
+	}
+	for i := 0; i < n; {
+		j := i + 1
+		for j < n && d.Y[j] == d.Y[i] {
+			j++
+		}
+		r := float64(i+j+1) / 2 // mean of 1-based ranks i+1..j
+		for t := i; t < j; t++ {
+			d.Ranks[t] = r
+		}
+		t := float64(j - i)
+		d.tieTerm += t*t*t - t
+		i = j
+	}
+	return d, nil
+}
+
+// Value computes the statistic for an arrangement of labels (in sorted
+// order); it allocates, so use Factory in loops.
+func (d *Data) Value(s Statistic, labels []int32) float64 {
+	return d.Factory(s)()(labels)
+}
+
+// Observed computes the statistic for the observed labels.
+func (d *Data) Observed(s Statistic) float64 { return d.Value(s, d.Labels) }
+
+// Factory returns evaluators of s for the shuffle machinery. For two-group
+// statistics group 0 is A and group 1 is B, so differences read A − B.
+func (d *Data) Factory(s Statistic) shuffle.Factory {
+	n := len(d.Y)
+	switch s {
+	case DiffMedians:
+		nA, nB := d.Sizes[0], d.Sizes[1]
+		a1, a2 := (nA-1)/2, nA/2
+		b1, b2 := (nB-1)/2, nB/2
+		return func() shuffle.Evaluator {
+			return func(lab []int32) float64 {
+				// Walk the sorted values, counting each group, until both
+				// middle elements of both groups have been passed.
+				var ca, cb int
+				var sa, sb float64
+				left := 4
+				for i := 0; i < n && left > 0; i++ {
+					if lab[i] == 0 {
+						if ca == a1 {
+							sa += d.Y[i]
+							left--
+						}
+						if ca == a2 {
+							sa += d.Y[i]
+							left--
+						}
+						ca++
+					} else {
+						if cb == b1 {
+							sb += d.Y[i]
+							left--
+						}
+						if cb == b2 {
+							sb += d.Y[i]
+							left--
+						}
+						cb++
+					}
+				}
+				return (sa - sb) / 2
+			}
+		}
+	case DiffMeans:
+		nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
+		return func() shuffle.Evaluator {
+			return func(lab []int32) float64 {
+				var sa float64
+				for i, l := range lab {
+					if l == 0 {
+						sa += d.centred[i]
+					}
+				}
+				// The centred values sum to zero, so group B's sum is −sa.
+				return sa/nA + sa/nB
+			}
+		}
+	case WelchT:
+		nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
+		return func() shuffle.Evaluator {
+			return func(lab []int32) float64 {
+				var sa, qa float64
+				for i, l := range lab {
+					if l == 0 {
+						c := d.centred[i]
+						sa += c
+						qa += c * c
+					}
+				}
+				sb, qb := -sa, d.ssTotal-qa
+				ma, mb := sa/nA, sb/nB
+				va := (qa - nA*ma*ma) / (nA - 1)
+				vb := (qb - nB*mb*mb) / (nB - 1)
+				return (ma - mb) / math.Sqrt(va/nA+vb/nB)
+			}
+		}
+	case RankSum:
+		nA := float64(d.Sizes[0])
+		return func() shuffle.Evaluator {
+			return func(lab []int32) float64 {
+				var r float64
+				for i, l := range lab {
+					if l == 0 {
+						r += d.Ranks[i]
+					}
+				}
+				return r - nA*(nA+1)/2
+			}
+		}
+	case KruskalWallis:
+		N := float64(n)
+		correction := 1 - d.tieTerm/(N*N*N-N)
+		return func() shuffle.Evaluator {
+			sums := make([]float64, d.K)
+			return func(lab []int32) float64 {
+				for g := range sums {
+					sums[g] = 0
+				}
+				for i, l := range lab {
+					sums[l] += d.Ranks[i]
+				}
+				var h float64
+				for g, s := range sums {
+					h += s * s / float64(d.Sizes[g])
+				}
+				h = 12/(N*(N+1))*h - 3*(N+1)
+				if correction <= 0 { // every value tied: no information
+					return 0
+				}
+				return h / correction
+			}
+		}
+	case OneWayF:
+		N, K := float64(n), float64(d.K)
+		return func() shuffle.Evaluator {
+			sums := make([]float64, d.K)
+			return func(lab []int32) float64 {
+				for g := range sums {
+					sums[g] = 0
+				}
+				for i, l := range lab {
+					sums[l] += d.centred[i]
+				}
+				var between float64
+				for g, s := range sums {
+					between += s * s / float64(d.Sizes[g])
+				}
+				within := d.ssTotal - between
+				if within <= 0 {
+					return math.Inf(1)
+				}
+				return (between / (K - 1)) / (within / (N - K))
+			}
+		}
+	}
+	panic(fmt.Sprintf("groups: unknown statistic %d", s))
+}
+
+// Summary describes one group's outcome values.
+type Summary struct {
+	Areas  int     `json:"areas"`
+	Mean   float64 `json:"mean"`
+	Median float64 `json:"median"`
+	SD     float64 `json:"sd"`
+	Min    float64 `json:"min"`
+	Max    float64 `json:"max"`
+}
+
+// Summaries returns one Summary per group for the observed labels.
+func (d *Data) Summaries() []Summary {
+	out := make([]Summary, d.K)
+	vals := make([][]float64, d.K)
+	for i, l := range d.Labels {
+		vals[l] = append(vals[l], d.Y[i]) // already ascending
+	}
+	for g, v := range vals {
+		m := len(v)
+		var s float64
+		for _, x := range v {
+			s += x
+		}
+		mean := s / float64(m)
+		var q float64
+		for _, x := range v {
+			q += (x - mean) * (x - mean)
+		}
+		out[g] = Summary{Areas: m, Mean: mean, Median: (v[(m-1)/2] + v[m/2]) / 2,
+			SD: math.Sqrt(q / float64(m-1)), Min: v[0], Max: v[m-1]}
+	}
+	return out
+}

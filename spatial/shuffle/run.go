@@ -1,0 +1,417 @@
+package shuffle
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/big"
+	"runtime"
+	"sort"
+	"sync"
+)
+
+// Evaluator computes a statistic for one arrangement of labels. It may keep
+// scratch space between calls but must not keep or modify labels.
+type Evaluator func(labels []int32) float64
+
+// Factory makes one Evaluator per worker goroutine, so evaluators can own
+// scratch space without locks.
+type Factory func() Evaluator
+
+// DefaultExactLimit is the largest number of distinct arrangements that Run
+// enumerates in full instead of sampling.
+const DefaultExactLimit = 1_000_000
+
+// BlockSize is the number of Monte Carlo draws in one block of work. It is
+// part of the definition of a seeded result: changing it changes the draws.
+const BlockSize = 500
+
+// Plan describes one permutation test.
+type Plan struct {
+	// Scheme names the null model in reports, e.g. "free" or "within province".
+	Scheme string
+	// Labels is the observed arrangement: one label per unit. The null model
+	// permutes these labels among units (within strata when Strata is set).
+	Labels []int32
+	// Strata, when not nil, gives each unit a stratum; labels are exchanged
+	// only between units of the same stratum.
+	Strata []int32
+	// Permutations is the number of Monte Carlo arrangements B.
+	Permutations int
+	// ExactLimit: enumerate every distinct arrangement when there are at
+	// most this many. 0 means DefaultExactLimit; negative never enumerates.
+	ExactLimit int
+	// Seed fixes the random streams; Purpose separates streams of different
+	// tests that share a seed.
+	Seed, Purpose uint64
+	// Workers is the number of goroutines; 0 means all cores.
+	Workers int
+	// Alternative is the direction of the test.
+	Alternative Alternative
+	// Scale is the size of a typical value of the statistic (e.g. the range
+	// of the outcome for a difference in its units; 1 for unitless
+	// statistics). Null values within 1e-9·max(|observed|, Scale) of the
+	// observed value count as ties, so that rounding in a sum does not
+	// decide an exact p-value.
+	Scale float64
+	// KeepNull asks for every null value, in draw order, in Result.Null.
+	KeepNull bool
+}
+
+// Result is the outcome of a permutation test.
+type Result struct {
+	Scheme      string  `json:"scheme"`
+	Alternative string  `json:"alternative"`
+	Observed    float64 `json:"observed"`
+	PValue      float64 `json:"p_value"`
+	// Permutations is the number of arrangements the null distribution
+	// holds: B for Monte Carlo, every distinct arrangement when exact.
+	Permutations int  `json:"permutations"`
+	Exact        bool `json:"exact"`
+	// Interval is the 95% Clopper–Pearson interval for the p-value that full
+	// enumeration would give, from the Monte Carlo count; for an exact test
+	// both ends equal the p-value.
+	Interval [2]float64 `json:"interval"`
+	// AtLeast and AtMost count null values ≥ and ≤ the observed one (ties
+	// included).
+	AtLeast  int     `json:"at_least"`
+	AtMost   int     `json:"at_most"`
+	NullMean float64 `json:"null_mean"`
+	NullSD   float64 `json:"null_sd"`
+	// Null holds every null value when Plan.KeepNull was set.
+	Null []float64 `json:"-"`
+}
+
+// Run carries out the test planned in p on the statistic made by f.
+func Run(p Plan, f Factory) (Result, error) {
+	n := len(p.Labels)
+	if n < 2 {
+		return Result{}, errors.New("shuffle: need at least two units")
+	}
+	if p.Strata != nil && len(p.Strata) != n {
+		return Result{}, fmt.Errorf("shuffle: %d strata for %d units", len(p.Strata), n)
+	}
+	groups := strataMembers(n, p.Strata)
+	scale := p.Scale
+	if !(scale > 0) {
+		scale = 1
+	}
+	observed := f()(p.Labels)
+	if math.IsNaN(observed) || math.IsInf(observed, 0) {
+		return Result{}, fmt.Errorf("shuffle: the observed statistic is %v", observed)
+	}
+	tol := 1e-9 * math.Max(math.Abs(observed), scale)
+	res := Result{Scheme: p.Scheme, Alternative: p.Alternative.String(), Observed: observed}
+
+	limit := p.ExactLimit
+	if limit == 0 {
+		limit = DefaultExactLimit
+	}
+	if limit > 0 {
+		if count, ok := arrangements(p.Labels, groups, limit); ok {
+			enumerate(p, groups, f, observed, tol, count, &res)
+			return res, nil
+		}
+	}
+	if p.Permutations < 1 {
+		return Result{}, errors.New("shuffle: the number of permutations must be at least 1")
+	}
+	sample(p, groups, f, observed, tol, &res)
+	return res, nil
+}
+
+// strataMembers lists the units of each stratum, in unit order; with no
+// strata all units form one group. Strata with one unit cannot move and are
+// left out.
+func strataMembers(n int, strata []int32) [][]int32 {
+	if strata == nil {
+		all := make([]int32, n)
+		for i := range all {
+			all[i] = int32(i)
+		}
+		return [][]int32{all}
+	}
+	byStratum := map[int32][]int32{}
+	var keys []int32
+	for i, s := range strata {
+		if _, ok := byStratum[s]; !ok {
+			keys = append(keys, s)
+		}
+		byStratum[s] = append(byStratum[s], int32(i))
+	}
+	sort.Slice(keys, func(a, b int) bool { return keys[a] < keys[b] })
+	var out [][]int32
+	for _, k := range keys {
+		if len(byStratum[k]) > 1 {
+			out = append(out, byStratum[k])
+		}
+	}
+	return out
+}
+
+// Arrangements returns the number of distinct arrangements of labels that the
+// strata allow (the product over strata of multinomial coefficients), as an
+// exact integer.
+func Arrangements(labels []int32, strata []int32) *big.Int {
+	total, _ := countArrangements(labels, strataMembers(len(labels), strata), nil)
+	return total
+}
+
+// countArrangements multiplies the multinomial coefficients of the groups,
+// stopping early (ok false) once the count exceeds limit, when given: the
+// full count for a large layer has thousands of digits and is never needed.
+func countArrangements(labels []int32, groups [][]int32, limit *big.Int) (total *big.Int, ok bool) {
+	total = big.NewInt(1)
+	for _, g := range groups {
+		counts := map[int32]int64{}
+		for _, u := range g {
+			counts[labels[u]]++
+		}
+		// m!/(c1!·c2!·…) as a product of binomials C(c1+…+cj, cj).
+		var seen int64
+		for _, c := range sortedCounts(counts) {
+			seen += c
+			total.Mul(total, new(big.Int).Binomial(seen, c))
+			if limit != nil && total.Cmp(limit) > 0 {
+				return total, false
+			}
+		}
+	}
+	return total, true
+}
+
+func sortedCounts(m map[int32]int64) []int64 {
+	keys := make([]int32, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Slice(keys, func(a, b int) bool { return keys[a] < keys[b] })
+	out := make([]int64, len(keys))
+	for i, k := range keys {
+		out[i] = m[k]
+	}
+	return out
+}
+
+func arrangements(labels []int32, groups [][]int32, limit int) (int, bool) {
+	total, ok := countArrangements(labels, groups, big.NewInt(int64(limit)))
+	if !ok {
+		return 0, false
+	}
+	return int(total.Int64()), true
+}
+
+// tally accumulates the comparison counts and moments of null values.
+type tally struct {
+	atLeast, atMost int
+	sum, sumSq      float64
+}
+
+func (t *tally) add(v, observed, tol float64) {
+	if v >= observed-tol {
+		t.atLeast++
+	}
+	if v <= observed+tol {
+		t.atMost++
+	}
+	t.sum += v
+	t.sumSq += v * v
+}
+
+func (t *tally) merge(o tally) {
+	t.atLeast += o.atLeast
+	t.atMost += o.atMost
+	t.sum += o.sum
+	t.sumSq += o.sumSq
+}
+
+func finishMoments(res *Result, t tally, count int) {
+	mean := t.sum / float64(count)
+	res.NullMean = mean
+	if count > 1 {
+		v := (t.sumSq - float64(count)*mean*mean) / float64(count-1)
+		res.NullSD = math.Sqrt(math.Max(v, 0))
+	}
+	res.AtLeast, res.AtMost = t.atLeast, t.atMost
+}
+
+// enumerate evaluates every distinct arrangement once, stepping each
+// stratum through the lexicographic permutations of its labels like the
+// wheels of an odometer.
+func enumerate(p Plan, groups [][]int32, f Factory, observed, tol float64, count int, res *Result) {
+	labels := append([]int32(nil), p.Labels...)
+	subs := make([][]int32, len(groups))
+	for g, members := range groups {
+		sub := make([]int32, len(members))
+		for k, u := range members {
+			sub[k] = labels[u]
+		}
+		sort.Slice(sub, func(a, b int) bool { return sub[a] < sub[b] })
+		subs[g] = sub
+		for k, u := range members {
+			labels[u] = sub[k]
+		}
+	}
+	eval := f()
+	var t tally
+	var null []float64
+	if p.KeepNull {
+		null = make([]float64, 0, count)
+	}
+	for {
+		v := eval(labels)
+		t.add(v, observed, tol)
+		if p.KeepNull {
+			null = append(null, v)
+		}
+		g := 0
+		for ; g < len(groups); g++ {
+			more := nextPermutation(subs[g])
+			for k, u := range groups[g] {
+				labels[u] = subs[g][k]
+			}
+			if more {
+				break
+			}
+		}
+		if g == len(groups) {
+			break
+		}
+	}
+	res.Exact = true
+	res.Permutations = count
+	res.Null = null
+	finishMoments(res, t, count)
+	pg := float64(t.atLeast) / float64(count)
+	pl := float64(t.atMost) / float64(count)
+	res.PValue = combine(p.Alternative, pg, pl)
+	res.Interval = [2]float64{res.PValue, res.PValue}
+}
+
+// nextPermutation rearranges s into the next lexicographic permutation and
+// reports whether there was one; after the last it leaves s sorted ascending.
+func nextPermutation(s []int32) bool {
+	i := len(s) - 2
+	for i >= 0 && s[i] >= s[i+1] {
+		i--
+	}
+	if i < 0 {
+		reverse(s)
+		return false
+	}
+	j := len(s) - 1
+	for s[j] <= s[i] {
+		j--
+	}
+	s[i], s[j] = s[j], s[i]
+	reverse(s[i+1:])
+	return true
+}
+
+func reverse(s []int32) {
+	for a, b := 0, len(s)-1; a < b; a, b = a+1, b-1 {
+		s[a], s[b] = s[b], s[a]
+	}
+}
+
+// sample draws p.Permutations random arrangements in fixed blocks, each block
+// with its own stream, spread over the workers.
+func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Result) {
+	B := p.Permutations
+	blocks := (B + BlockSize - 1) / BlockSize
+	workers := p.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	if workers > blocks {
+		workers = blocks
+	}
+	tallies := make([]tally, blocks)
+	var null []float64
+	if p.KeepNull {
+		null = make([]float64, B)
+	}
+	next := make(chan int, blocks)
+	for b := 0; b < blocks; b++ {
+		next <- b
+	}
+	close(next)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			eval := f()
+			labels := make([]int32, len(p.Labels))
+			var rng Stream
+			for b := range next {
+				// Every block starts from the observed arrangement, so its
+				// draws depend only on (seed, block).
+				copy(labels, p.Labels)
+				rng.Reset(p.Seed, p.Purpose, b)
+				lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
+				var t tally
+				for d := lo; d < hi; d++ {
+					shuffleGroups(&rng, labels, groups)
+					v := eval(labels)
+					t.add(v, observed, tol)
+					if null != nil {
+						null[d] = v
+					}
+				}
+				tallies[b] = t
+			}
+		}()
+	}
+	wg.Wait()
+	var t tally
+	for _, bt := range tallies { // block order, so float sums do not depend on scheduling
+		t.merge(bt)
+	}
+	res.Permutations = B
+	res.Null = null
+	finishMoments(res, t, B)
+	pg := float64(1+t.atLeast) / float64(1+B)
+	pl := float64(1+t.atMost) / float64(1+B)
+	res.PValue = combine(p.Alternative, pg, pl)
+	loG, hiG := ClopperPearson(t.atLeast, B, 0.95)
+	loL, hiL := ClopperPearson(t.atMost, B, 0.95)
+	switch p.Alternative {
+	case Greater:
+		res.Interval = [2]float64{loG, hiG}
+	case Less:
+		res.Interval = [2]float64{loL, hiL}
+	default:
+		if pg <= pl {
+			res.Interval = [2]float64{math.Min(1, 2*loG), math.Min(1, 2*hiG)}
+		} else {
+			res.Interval = [2]float64{math.Min(1, 2*loL), math.Min(1, 2*hiL)}
+		}
+	}
+}
+
+// shuffleGroups applies a Fisher–Yates shuffle to the labels of each group of
+// units. Shuffling the previous arrangement again gives a fresh uniform
+// arrangement, so the labels need no reset between draws.
+func shuffleGroups(rng *Stream, labels []int32, groups [][]int32) {
+	for _, m := range groups {
+		for i := len(m) - 1; i > 0; i-- {
+			j := rng.IntN(i + 1)
+			a, b := m[i], m[j]
+			labels[a], labels[b] = labels[b], labels[a]
+		}
+	}
+}
+
+// combine turns the two one-sided p-values into the p-value of the chosen
+// alternative. Two-sided doubles the smaller one-sided value (capped at 1),
+// which needs no assumption that the null distribution is symmetric.
+func combine(alt Alternative, pGreater, pLess float64) float64 {
+	switch alt {
+	case Greater:
+		return pGreater
+	case Less:
+		return pLess
+	}
+	return math.Min(1, 2*math.Min(pGreater, pLess))
+}
