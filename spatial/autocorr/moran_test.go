@@ -191,3 +191,11 @@ func TestPermutationOfGradient(t *testing.T) {
 		t.Fatalf("permutation sd %v vs analytic %v", res.Permutation.NullSD, sd)
 	}
 }
+
+func mustGraph(tb testing.TB, n int, pairs [][2]int32) *weights.Graph {
+	g, err := weights.FromLinks(n, pairs, "test")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return g
+}

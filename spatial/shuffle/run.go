@@ -394,9 +394,18 @@ func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Res
 // units. Shuffling the previous arrangement again gives a fresh uniform
 // arrangement, so the labels need no reset between draws.
 func shuffleGroups(rng *Stream, labels []int32, groups [][]int32) {
+	if len(groups) == 1 && len(groups[0]) == len(labels) {
+		// Free shuffle: the one group is every unit in order, so the
+		// indirection through its member list can go.
+		for i := len(labels) - 1; i > 0; i-- {
+			j := rng.intN32(uint32(i + 1))
+			labels[i], labels[j] = labels[j], labels[i]
+		}
+		return
+	}
 	for _, m := range groups {
 		for i := len(m) - 1; i > 0; i-- {
-			j := rng.IntN(i + 1)
+			j := rng.intN32(uint32(i + 1))
 			a, b := m[i], m[j]
 			labels[a], labels[b] = labels[b], labels[a]
 		}

@@ -19,6 +19,10 @@ import (
 // holds no pointers, so a worker can keep one in its scratch space.
 type Stream struct {
 	pcg rand.PCG
+	// spare holds the unused low half of the last 64-bit draw, so that
+	// small bounded draws cost half a generator step.
+	spare    uint32
+	hasSpare bool
 }
 
 // splitmix64 scrambles a counter into a well-mixed 64-bit value (Steele,
@@ -44,6 +48,29 @@ func (s *Stream) Reset(seed uint64, purpose uint64, block int) {
 	hi := splitmix64(seed ^ splitmix64(purpose))
 	lo := splitmix64(hi ^ splitmix64(uint64(block)+0x632be59bd9b4e019))
 	s.pcg.Seed(hi, lo)
+	s.hasSpare = false
+}
+
+func (s *Stream) uint32() uint32 {
+	if s.hasSpare {
+		s.hasSpare = false
+		return s.spare
+	}
+	v := s.pcg.Uint64()
+	s.spare, s.hasSpare = uint32(v), true
+	return uint32(v >> 32)
+}
+
+// intN32 is IntN for 0 < n < 2³², by the 32-bit form of the same method.
+func (s *Stream) intN32(n uint32) uint32 {
+	m := uint64(s.uint32()) * uint64(n)
+	if uint32(m) < n {
+		thresh := -n % n
+		for uint32(m) < thresh {
+			m = uint64(s.uint32()) * uint64(n)
+		}
+	}
+	return uint32(m >> 32)
 }
 
 // Uint64 returns 64 random bits.
