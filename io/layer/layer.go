@@ -5,7 +5,9 @@ package layer
 
 import (
 	"fmt"
+	"math"
 	"sort"
+	"strconv"
 
 	"github.com/paulmach/orb"
 )
@@ -20,6 +22,7 @@ const (
 	Text
 )
 
+// String returns "number" or "text".
 func (k Kind) String() string {
 	if k == Number {
 		return "number"
@@ -30,7 +33,7 @@ func (k Kind) String() string {
 // Column is one attribute across all areas of a layer. Exactly one of Num or
 // Str is filled, according to Kind; Missing[i] marks a value that is absent,
 // null, empty or a missing-value word, in which case Num[i] (or Str[i]) is
-// meaningless.
+// meaningless (missing numbers are stored as NaN).
 type Column struct {
 	Name    string
 	Kind    Kind
@@ -59,11 +62,16 @@ func (c *Column) Label(i int) string {
 	if c.Kind == Text {
 		return c.Str[i]
 	}
-	return formatNumber(c.Num[i])
+	return FormatNumber(c.Num[i])
 }
 
-func formatNumber(v float64) string {
-	return fmt.Sprintf("%v", v)
+// FormatNumber writes v as JSON would: plain notation for magnitudes from
+// 1e-6 to 1e21 (so 1234567 stays 1234567), exponent notation outside.
+func FormatNumber(v float64) string {
+	if a := math.Abs(v); a == 0 || (a >= 1e-6 && a < 1e21) {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
 }
 
 // Layer is a table of areas. IDs are unique. Geoms[i] is the geometry of area

@@ -13,7 +13,7 @@ const width = 88
 // CompareText writes the plain text report of a comparison.
 func CompareText(w io.Writer, r *compare.Result) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "areatest %s: does %s differ between groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
+	fmt.Fprintf(&b, "areatest %s: does %s differ between the groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
 	fmt.Fprintf(&b, "  input      %s, %s areas, %s tested\n", r.Input.File, Count(r.Input.Areas), Count(r.Input.Tested))
 	fmt.Fprintf(&b, "  outcome    %s\n", r.Input.Outcome)
 	fmt.Fprintf(&b, "  groups     %s\n", r.Input.Group)
@@ -23,9 +23,9 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	for i, e := range r.Excluded {
 		head := "  left out  "
 		if i > 0 {
-			head = "           "
+			head = "             "
 		}
-		fmt.Fprintf(&b, "%s %s: %s\n", head, Count(e.Areas), e.Reason+idList(e.IDs, 6))
+		fmt.Fprintf(&b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idList(e.IDs, 6))
 	}
 	b.WriteString("\n")
 
@@ -117,6 +117,14 @@ func permutationsAsked(r *compare.Result) int {
 		return r.Tests[0].Permutations
 	}
 	return 0
+}
+
+// areas writes "1 area" or "12 areas".
+func areas(n int) string {
+	if n == 1 {
+		return "1 area"
+	}
+	return Count(n) + " areas"
 }
 
 func idList(ids []string, max int) string {

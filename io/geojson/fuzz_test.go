@@ -1,0 +1,42 @@
+package geojson
+
+import (
+	"bytes"
+	"errors"
+	"strings"
+	"testing"
+)
+
+func FuzzRead(f *testing.F) {
+	f.Add([]byte(fc(sq(`"a"`), sq(`2`))), false)
+	f.Add([]byte(fc(feat(``, poly(`[[[0,0],[4,0],[4,4],[0,4]],[[1,1],[1,2],[2,2],[1,1]]]`), `{"GEOID":"01","v":"1.5","w":null,"x":{"k":[1]}}`))), true)
+	f.Add([]byte(`{"features":[{"type":"Feature","geometry":{"type":"MultiPolygon","coordinates":[[[[0,0],[1,0],[1,1],[0,0]]]]},"properties":{"GEOID":7}}],"crs":{"type":"name","properties":{"name":"EPSG:2263"}},"type":"FeatureCollection"}`), false)
+	f.Add([]byte(fc(feat(`"a"`, `{"type":"Point","coordinates":[0,0]}`, `{}`), sq(`"b"`))), true)
+	f.Add([]byte(fc(feat(`"a"`, poly(`[[[500000,0],[1,0],[1,1],[0,0]]]`), `{}`))), false)
+	f.Add([]byte(`{"type":"Feature"}`), false)
+	f.Add([]byte(`[1,2`), false)
+	f.Fuzz(func(t *testing.T, data []byte, idColumn bool) {
+		opt := Options{SkipBadGeometry: len(data)%2 == 0}
+		if idColumn {
+			opt.IDColumn = "GEOID"
+		}
+		lay, _, err := Read(bytes.NewReader(data), "fuzz.geojson", opt)
+		if err != nil {
+			if lay != nil {
+				t.Fatalf("layer along with error %v", err)
+			}
+			var ge *Error
+			if !errors.As(err, &ge) {
+				t.Fatalf("error %T is not an *Error: %v", err, err)
+			}
+			if msg := err.Error(); strings.ContainsAny(msg, "\n\r") || !strings.HasPrefix(msg, "fuzz.geojson: ") {
+				t.Fatalf("bad message %q", msg)
+			}
+			return
+		}
+		if lay == nil {
+			t.Fatal("nil layer without error")
+		}
+		checkShape(t, lay)
+	})
+}
