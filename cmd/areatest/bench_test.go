@@ -1,0 +1,77 @@
+package main
+
+import (
+	"bytes"
+	"testing"
+
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/samples/region"
+	"github.com/areatest/areatest/weights"
+)
+
+// benchLayer is an invented region of n districts written as GeoJSON, for
+// timing only.
+func benchLayer(b *testing.B, n int) []byte {
+	cfg := region.DefaultConfig()
+	cfg.Areas = n
+	r, err := region.Build(cfg)
+	if err != nil {
+		b.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := r.WriteGeoJSON(&buf); err != nil {
+		b.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+// Target (issue 2): the whole compare run on 3,000 areas — read the GeoJSON,
+// build queen contiguity, the free shuffle of the difference in medians and
+// the Moran's I nulls of outcome and grouping, 9,999 shuffles each — ≤ 1.5 s.
+func BenchmarkCompareWhole3000(b *testing.B) {
+	benchCompare(b, "")
+}
+
+// The same with a second, within-province shuffle scheme.
+func BenchmarkCompareWhole3000Strata(b *testing.B) {
+	benchCompare(b, "province")
+}
+
+func benchCompare(b *testing.B, strata string) {
+	data := benchLayer(b, 3000)
+	c := compareFlags{outcome: "rate", group: "policy", strata: strata, contiguity: "queen", alternative: "two-sided",
+		permutations: 9999, seed: 1, workers: 2, alpha: 0.05, format: "text"}
+	opt, rule, err := c.options()
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(int64(len(data)))
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		lay, _, err := geojson.Read(bytes.NewReader(data), "bench.geojson", geojson.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := compareLayer(lay, &c, opt, rule); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// Reading and contiguity alone, for the breakdown of the whole run.
+func BenchmarkReadAndQueen3000(b *testing.B) {
+	data := benchLayer(b, 3000)
+	b.SetBytes(int64(len(data)))
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		lay, _, err := geojson.Read(bytes.NewReader(data), "bench.geojson", geojson.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := weights.ContiguityGraph(lay.Geoms, weights.Queen); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -1,0 +1,226 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"runtime"
+
+	"github.com/spf13/pflag"
+
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/report"
+	"github.com/areatest/areatest/spatial/compare"
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
+)
+
+const compareUsage = `areatest compare: does an outcome differ between groups of areas beyond chance?
+
+Reads a layer of areas, shuffles the group labels across areas (freely, and
+within strata when asked) to see where the observed difference falls, and
+checks with Moran's I whether the outcome and the grouping cluster in space,
+which is when a free shuffle overstates significance.
+
+Usage:
+  areatest compare --input FILE --outcome COLUMN --group COLUMN [flags]
+
+Examples:
+  areatest compare --input counties.geojson --outcome rate --group policy
+  areatest compare -i counties.geojson -y rate -g policy --strata state
+  areatest compare -i districts.geojson -y income -g zone --statistic anova-f
+  areatest compare -i counties.geojson -y rate -g region --contrast north,south --alternative greater
+  cat counties.geojson | areatest compare -i - -y rate -g policy --format json -o result.json
+`
+
+// compareFlags are the settings shared by compare and demo.
+type compareFlags struct {
+	input, id, outcome, group, strata  string
+	contiguity, statistic, alternative string
+	contrast                           []string
+	permutations, workers              int
+	seed                               uint64
+	alpha                              float64
+	format, output                     string
+	skipBadGeometry                    bool
+}
+
+func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
+	if withColumns {
+		fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+		fs.StringVarP(&c.outcome, "outcome", "y", "", "numeric column to compare")
+		fs.StringVarP(&c.group, "group", "g", "", "column whose values name the groups")
+		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
+		fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
+		fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning, instead of stopping")
+	}
+	fs.StringVar(&c.contiguity, "contiguity", "queen", "neighbour rule: queen (shared corner) or rook (shared edge)")
+	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
+	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
+	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (A above B) or less")
+	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per scheme")
+	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
+	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
+	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
+	fs.StringVar(&c.format, "format", "text", "text or json")
+	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+}
+
+// options checks the flag values and turns them into library options.
+func (c *compareFlags) options() (compare.Options, weights.Contiguity, error) {
+	var opt compare.Options
+	rule, err := weights.ParseContiguity(c.contiguity)
+	if err != nil {
+		return opt, rule, usagef("--contiguity: %v", err)
+	}
+	if c.statistic != "" {
+		s, err := groups.ParseStatistic(c.statistic)
+		if err != nil {
+			return opt, rule, usagef("--statistic: %v", err)
+		}
+		opt.Statistic = &s
+	}
+	if opt.Alternative, err = shuffle.ParseAlternative(c.alternative); err != nil {
+		return opt, rule, usagef("--alternative: %v", err)
+	}
+	if len(c.contrast) != 0 && len(c.contrast) != 2 {
+		return opt, rule, usagef("--contrast takes two levels, A,B (got %d)", len(c.contrast))
+	}
+	if c.permutations < 1 {
+		return opt, rule, usagef("--permutations must be at least 1")
+	}
+	if c.workers < 1 {
+		return opt, rule, usagef("--workers must be at least 1")
+	}
+	if !(c.alpha > 0 && c.alpha < 1) {
+		return opt, rule, usagef("--alpha must be between 0 and 1")
+	}
+	if c.format != "text" && c.format != "json" {
+		return opt, rule, usagef("--format must be text or json, not %q", c.format)
+	}
+	opt.Contrast = c.contrast
+	opt.Permutations = c.permutations
+	opt.Seed = c.seed
+	opt.Workers = c.workers
+	opt.Alpha = c.alpha
+	return opt, rule, nil
+}
+
+func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	var c compareFlags
+	fs := newFlags("compare", compareUsage, stderr)
+	c.register(fs, true)
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	for _, req := range []struct{ name, val string }{{"input", c.input}, {"outcome", c.outcome}, {"group", c.group}} {
+		if req.val == "" {
+			return usagef("--%s is required (see areatest compare --help)", req.name)
+		}
+	}
+	opt, rule, err := c.options()
+	if err != nil {
+		return err
+	}
+	lay, warnings, err := readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	if err != nil {
+		return err
+	}
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
+	res, err := compareLayer(lay, &c, opt, rule)
+	if err != nil {
+		return err
+	}
+	return emitCompare(res, &c, stdout, stderr, []string{c.input})
+}
+
+// readLayer reads a GeoJSON layer from a path, or from stdin for "-".
+func readLayer(path string, stdin io.Reader, opt geojson.Options) (*layer.Layer, []string, error) {
+	if path == "-" {
+		return geojson.Read(stdin, "stdin", opt)
+	}
+	return geojson.ReadFile(path, opt)
+}
+
+// compareLayer pulls the named columns out of the layer, builds the
+// neighbour graph and runs the comparison.
+func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, rule weights.Contiguity) (*compare.Result, error) {
+	outcome, err := lay.Column(c.outcome)
+	if err != nil {
+		return nil, err
+	}
+	if outcome.Kind != layer.Number {
+		return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
+			lay.Source, c.outcome, firstValue(outcome), firstID(lay, outcome))
+	}
+	group, err := lay.Column(c.group)
+	if err != nil {
+		return nil, err
+	}
+	if c.group == c.outcome {
+		return nil, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+	}
+	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
+		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
+	if c.strata != "" {
+		strata, err := lay.Column(c.strata)
+		if err != nil {
+			return nil, err
+		}
+		in.StrataName, in.Strata, in.StrataMissing = c.strata, labels(strata), strata.Missing
+	}
+	if in.Graph, err = weights.ContiguityGraph(lay.Geoms, rule); err != nil {
+		return nil, err
+	}
+	res, err := compare.Run(in, opt)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", lay.Source, err)
+	}
+	res.Version = Version
+	res.Input.File = lay.Source
+	return res, nil
+}
+
+func labels(c *layer.Column) []string {
+	out := make([]string, len(c.Missing))
+	for i := range out {
+		out[i] = c.Label(i)
+	}
+	return out
+}
+
+func firstValue(c *layer.Column) string {
+	for i, m := range c.Missing {
+		if !m {
+			return c.Label(i)
+		}
+	}
+	return ""
+}
+
+func firstID(l *layer.Layer, c *layer.Column) string {
+	for i, m := range c.Missing {
+		if !m {
+			return fmt.Sprintf("%q", l.IDs[i])
+		}
+	}
+	return "?"
+}
+
+// emitCompare writes the result in the chosen format.
+func emitCompare(res *compare.Result, c *compareFlags, stdout, stderr io.Writer, inputs []string) error {
+	if c.format == "json" {
+		for _, w := range res.Warnings {
+			warn(stderr, w)
+		}
+	}
+	return writeOutput(c.output, stdout, inputs, func(w io.Writer) error {
+		if c.format == "json" {
+			return report.JSON(w, res)
+		}
+		return report.CompareText(w, res)
+	})
+}

@@ -1,0 +1,134 @@
+// Command areatest tests spatial association on area-level data: whether an
+// outcome differs between groups of areas beyond chance, with p-values that
+// stay honest when neighbouring areas resemble each other.
+//
+// This package only parses flags and wires the library together; it holds no
+// statistics and no geometry.
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/spf13/pflag"
+	"golang.org/x/term"
+)
+
+// Version is the release of this build; it is written into every output.
+const Version = "0.1.0"
+
+// usageError marks a mistake in how the command was called (exit 2), as
+// opposed to a problem with the data (exit 1).
+type usageError struct{ msg string }
+
+func (e *usageError) Error() string { return e.msg }
+
+func usagef(format string, a ...any) error { return &usageError{fmt.Sprintf(format, a...)} }
+
+const topUsage = `areatest tests spatial association on area-level data (polygons with attributes).
+
+Usage:
+  areatest <command> [flags]
+
+Commands:
+  compare   does an outcome differ between groups of areas beyond chance?
+  demo      run compare on the built-in sample region (or write the sample out)
+
+Flags:
+  -h, --help      show help (also: areatest <command> --help)
+      --version   print the version
+
+Examples:
+  areatest demo
+  areatest compare --input counties.geojson --outcome rate --group policy
+  areatest compare -i counties.geojson -y rate -g policy --strata state --format json
+`
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// run executes one command line and returns the exit status: 0 success,
+// 1 error, 2 usage error.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, topUsage)
+		return 2
+	}
+	var err error
+	switch args[0] {
+	case "-h", "--help", "help":
+		fmt.Fprint(stdout, topUsage)
+		return 0
+	case "--version", "version":
+		fmt.Fprintf(stdout, "areatest %s\n", Version)
+		return 0
+	case "compare":
+		err = runCompare(args[1:], stdin, stdout, stderr)
+	case "demo":
+		err = runDemo(args[1:], stdout, stderr)
+	default:
+		err = usagef("unknown command %q (commands: compare, demo; see areatest --help)", args[0])
+	}
+	var ue *usageError
+	switch {
+	case err == nil:
+		return 0
+	case errors.Is(err, pflag.ErrHelp):
+		return 0
+	case errors.As(err, &ue):
+		fmt.Fprintf(stderr, "areatest: %v\n", err)
+		return 2
+	default:
+		fmt.Fprintf(stderr, "%s %v\n", paint(stderr, "areatest: error:"), err)
+		return 1
+	}
+}
+
+// paint colours a label red for a terminal, unless NO_COLOR is set
+// (no-color.org).
+func paint(w io.Writer, s string) string {
+	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) && os.Getenv("NO_COLOR") == "" {
+		return "\x1b[1;31m" + s + "\x1b[0m"
+	}
+	return s
+}
+
+// warn writes one warning line to stderr.
+func warn(w io.Writer, msg string) {
+	label := "areatest: warning:"
+	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) && os.Getenv("NO_COLOR") == "" {
+		label = "\x1b[1;33m" + label + "\x1b[0m"
+	}
+	fmt.Fprintf(w, "%s %s\n", label, msg)
+}
+
+// newFlags makes a flag set that reports errors instead of exiting, with
+// the given usage text.
+func newFlags(name, usage string, stderr io.Writer) *pflag.FlagSet {
+	fs := pflag.NewFlagSet(name, pflag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.SortFlags = false
+	fs.Usage = func() {
+		fmt.Fprint(stderr, usage)
+		fmt.Fprintln(stderr, "\nFlags:")
+		fmt.Fprint(stderr, fs.FlagUsages())
+	}
+	return fs
+}
+
+// parseFlags parses args, turning flag errors into usage errors.
+func parseFlags(fs *pflag.FlagSet, args []string) error {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, pflag.ErrHelp) {
+			return err
+		}
+		return usagef("%v (see areatest %s --help)", err, fs.Name())
+	}
+	if fs.NArg() > 0 {
+		return usagef("unexpected argument %q (see areatest %s --help)", fs.Arg(0), fs.Name())
+	}
+	return nil
+}

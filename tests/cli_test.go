@@ -1,0 +1,275 @@
+package tests
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var binary string
+
+// TestMain builds the command once; every test here runs the real binary.
+func TestMain(m *testing.M) {
+	dir, err := os.MkdirTemp("", "areatest-cli")
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(1)
+	}
+	binary = filepath.Join(dir, "areatest")
+	build := exec.Command("go", "build", "-o", binary, "../cmd/areatest")
+	build.Stderr = os.Stderr
+	if err := build.Run(); err != nil {
+		fmt.Fprintln(os.Stderr, "building areatest:", err)
+		os.Exit(1)
+	}
+	code := m.Run()
+	os.RemoveAll(dir)
+	os.Exit(code)
+}
+
+type outcome struct {
+	code           int
+	stdout, stderr string
+}
+
+func runCLI(t *testing.T, stdin string, args ...string) outcome {
+	t.Helper()
+	cmd := exec.Command(binary, args...)
+	cmd.Stdin = strings.NewReader(stdin)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	err := cmd.Run()
+	code := 0
+	if ee, ok := err.(*exec.ExitError); ok {
+		code = ee.ExitCode()
+	} else if err != nil {
+		t.Fatal(err)
+	}
+	return outcome{code, out.String(), errb.String()}
+}
+
+func TestVersionAndHelp(t *testing.T) {
+	if o := runCLI(t, "", "--version"); o.code != 0 || !strings.HasPrefix(o.stdout, "areatest ") {
+		t.Fatalf("--version: %+v", o)
+	}
+	for _, args := range [][]string{{"--help"}, {"compare", "--help"}, {"demo", "--help"}} {
+		o := runCLI(t, "", args...)
+		if o.code != 0 || !strings.Contains(o.stdout+o.stderr, "Examples:") {
+			t.Errorf("%v: code %d, no examples in help", args, o.code)
+		}
+	}
+}
+
+func TestUsageErrorsExitTwo(t *testing.T) {
+	for _, args := range [][]string{
+		{},
+		{"frobnicate"},
+		{"compare", "--outcome", "rate", "--group", "policy"},
+		{"compare", "--input", "x.geojson", "--group", "policy"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--contiguity", "bishop"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--statistic", "median"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--permutations", "0"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--alternative", "up"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--contrast", "a,b,c"},
+		{"compare", "-i", "x.geojson", "-y", "rate", "-g", "policy", "--no-such-flag"},
+		{"demo", "--format", "xml"},
+	} {
+		if o := runCLI(t, "", args...); o.code != 2 {
+			t.Errorf("%v: exit %d, want 2 (stderr %q)", args, o.code, o.stderr)
+		}
+	}
+}
+
+func TestDemoReport(t *testing.T) {
+	o := runCLI(t, "", "demo", "--permutations", "999")
+	if o.code != 0 {
+		t.Fatalf("demo failed: %s", o.stderr)
+	}
+	for _, want := range []string{"rate", "policy", "free", "within province", "Moran's I", "not evidence that one thing causes", "ecological fallacy", "seed 1"} {
+		if !strings.Contains(o.stdout, want) {
+			t.Errorf("demo report lacks %q", want)
+		}
+	}
+}
+
+// The same seed gives byte-identical JSON whatever the number of workers.
+func TestJSONIdenticalAcrossWorkers(t *testing.T) {
+	a := runCLI(t, "", "demo", "--format", "json", "--workers", "1", "--permutations", "2999", "--seed", "17")
+	b := runCLI(t, "", "demo", "--format", "json", "--workers", "8", "--permutations", "2999", "--seed", "17")
+	if a.code != 0 || b.code != 0 {
+		t.Fatalf("demo failed: %s %s", a.stderr, b.stderr)
+	}
+	if a.stdout != b.stdout {
+		t.Fatal("JSON differs between --workers 1 and --workers 8")
+	}
+	c := runCLI(t, "", "demo", "--format", "json", "--workers", "2", "--permutations", "2999", "--seed", "18")
+	if c.stdout == a.stdout {
+		t.Fatal("a different seed gave identical output")
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(a.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, key := range []string{"version", "seed", "input", "weights", "statistic", "tests", "autocorrelation", "excluded", "warnings"} {
+		if _, ok := doc[key]; !ok {
+			t.Errorf("JSON lacks %q", key)
+		}
+	}
+	w := doc["weights"].(map[string]any)
+	for _, key := range []string{"kind", "areas", "links", "islands"} {
+		if _, ok := w[key]; !ok {
+			t.Errorf("weights lacks %q", key)
+		}
+	}
+	tests := doc["tests"].([]any)
+	for _, key := range []string{"scheme", "p_value", "permutations", "exact", "interval"} {
+		if _, ok := tests[0].(map[string]any)[key]; !ok {
+			t.Errorf("tests[0] lacks %q", key)
+		}
+	}
+	if doc["seed"].(float64) != 17 {
+		t.Errorf("seed recorded as %v", doc["seed"])
+	}
+}
+
+// A small layer of four squares in a row, two per group, in lon/lat.
+func squares(props []string) string {
+	var f []string
+	for i, p := range props {
+		x := float64(i)
+		f = append(f, fmt.Sprintf(`{"type":"Feature","id":"a%d","properties":{%s},"geometry":{"type":"Polygon","coordinates":[[[%g,0],[%g,0],[%g,1],[%g,1],[%g,0]]]}}`,
+			i+1, p, x, x+1, x+1, x, x))
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
+func TestCompareFromStdin(t *testing.T) {
+	layer := squares([]string{`"y":1,"g":"a"`, `"y":2,"g":"a"`, `"y":5,"g":"b"`, `"y":7,"g":"b"`, `"y":null,"g":"b"`, `"y":3,"g":"b"`})
+	o := runCLI(t, layer, "compare", "-i", "-", "-y", "y", "-g", "g", "--format", "json", "--contrast", "b,a")
+	if o.code != 0 {
+		t.Fatalf("exit %d: %s", o.code, o.stderr)
+	}
+	var doc struct {
+		Statistic struct {
+			Observed float64
+			Contrast []string
+		}
+		Tests []struct {
+			Exact        bool
+			Permutations int
+			PValue       float64 `json:"p_value"`
+		}
+		Excluded []struct {
+			Reason string
+			Areas  int
+			IDs    []string
+		}
+	}
+	if err := json.Unmarshal([]byte(o.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// b = {5, 7, 3} has median 5, a = {1, 2} median 1.5: b − a = 3.5.
+	if doc.Statistic.Observed != 3.5 || doc.Statistic.Contrast[0] != "b" {
+		t.Errorf("statistic %+v", doc.Statistic)
+	}
+	// C(5,2) = 10 arrangements, enumerated.
+	if !doc.Tests[0].Exact || doc.Tests[0].Permutations != 10 {
+		t.Errorf("test %+v", doc.Tests[0])
+	}
+	if len(doc.Excluded) != 1 || doc.Excluded[0].Areas != 1 || doc.Excluded[0].IDs[0] != "a5" {
+		t.Errorf("excluded %+v", doc.Excluded)
+	}
+}
+
+// Each kind of bad input stops with a one-line error naming what is wrong,
+// exit 1, and leaves no output file behind.
+func TestBadInputs(t *testing.T) {
+	dir := t.TempDir()
+	good := `"y":1,"g":"a"`
+	cases := []struct {
+		name, content string
+		args          []string
+		want          []string
+	}{
+		{"not json", `{"type": "FeatureCollection", "features": [`, nil, []string{"bad.geojson"}},
+		{"not a collection", `{"type":"Feature","properties":{},"geometry":null}`, nil, []string{"bad.geojson", "FeatureCollection"}},
+		{"point geometry", strings.Replace(squares([]string{good, `"y":2,"g":"a"`, `"y":3,"g":"b"`, `"y":4,"g":"b"`}),
+			`{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1],[0,0]]]}`, `{"type":"Point","coordinates":[0,0]}`, 1), nil, []string{"bad.geojson", "Point", "a1"}},
+		{"unknown column", squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), []string{"-y", "rate"}, []string{"rate"}},
+		{"outcome not numeric", squares([]string{`"y":"low","g":"a"`, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), nil, []string{"not numeric", `"y"`}},
+		{"one group", squares([]string{good, good, good, good}), nil, []string{"one level"}},
+		{"group of one area", squares([]string{good, `"y":2,"g":"a"`, `"y":3,"g":"a"`, `"y":4,"g":"b"`}), nil, []string{`"b"`, "at least 2"}},
+		{"duplicate ids", strings.Replace(squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), `"id":"a2"`, `"id":"a1"`, 1), nil, []string{"a1", "same id", "feature 1"}},
+		{"projected", strings.Replace(squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), `[[[0,0]`, `[[[512000,0]`, 1), nil, []string{"projected"}},
+		{"empty layer", `{"type":"FeatureCollection","features":[]}`, nil, []string{"bad.geojson", "no features"}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			in := filepath.Join(dir, "bad.geojson")
+			if err := os.WriteFile(in, []byte(c.content), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			out := filepath.Join(dir, "result.json")
+			args := []string{"compare", "-i", in, "-y", "y", "-g", "g", "-o", out}
+			args = append(args, c.args...)
+			o := runCLI(t, "", args...)
+			if o.code != 1 {
+				t.Fatalf("exit %d, want 1 (stderr %q)", o.code, o.stderr)
+			}
+			msg := strings.TrimSpace(o.stderr)
+			if strings.Count(msg, "\n") > 0 {
+				t.Errorf("error is not one line: %q", msg)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(strings.ToLower(msg), strings.ToLower(w)) {
+					t.Errorf("error %q lacks %q", msg, w)
+				}
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Error("an output file was written")
+			}
+			left, _ := filepath.Glob(filepath.Join(dir, ".result.json.tmp-*"))
+			if len(left) > 0 {
+				t.Error("a temporary file was left behind")
+			}
+		})
+	}
+}
+
+func TestOutputFileAndNoOverwriteOfInput(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "layer.geojson")
+	content := squares([]string{`"y":1,"g":"a"`, `"y":2,"g":"a"`, `"y":3,"g":"b"`, `"y":4,"g":"b"`})
+	os.WriteFile(in, []byte(content), 0o644)
+	out := filepath.Join(dir, "report.txt")
+	if o := runCLI(t, "", "compare", "-i", in, "-y", "y", "-g", "g", "-o", out); o.code != 0 || o.stdout != "" {
+		t.Fatalf("exit %d stdout %q stderr %q", o.code, o.stdout, o.stderr)
+	}
+	if b, err := os.ReadFile(out); err != nil || !bytes.Contains(b, []byte("Keep in mind")) {
+		t.Fatalf("report file: %v", err)
+	}
+	o := runCLI(t, "", "compare", "-i", in, "-y", "y", "-g", "g", "-o", in)
+	if o.code != 1 || !strings.Contains(o.stderr, "overwrite") {
+		t.Fatalf("writing over the input: exit %d, %q", o.code, o.stderr)
+	}
+	if b, _ := os.ReadFile(in); string(b) != content {
+		t.Fatal("the input was changed")
+	}
+}
+
+func TestDemoWrite(t *testing.T) {
+	dir := t.TempDir()
+	if o := runCLI(t, "", "demo", "--write", dir); o.code != 0 {
+		t.Fatalf("exit %d: %s", o.code, o.stderr)
+	}
+	path := filepath.Join(dir, "region.geojson")
+	o := runCLI(t, "", "compare", "-i", path, "-y", "rate", "-g", "policy", "--strata", "province", "-n", "499")
+	if o.code != 0 || !strings.Contains(o.stdout, "within province") {
+		t.Fatalf("compare on the written sample: %d %s", o.code, o.stderr)
+	}
+}
