@@ -273,3 +273,43 @@ func TestDemoWrite(t *testing.T) {
 		t.Fatalf("compare on the written sample: %d %s", o.code, o.stderr)
 	}
 }
+
+// Under --skip-bad-geometry a Point feature is left out with a warning on
+// stderr instead of stopping the run.
+func TestSkipBadGeometry(t *testing.T) {
+	layer := strings.Replace(squares([]string{`"y":1,"g":"a"`, `"y":2,"g":"a"`, `"y":2.5,"g":"a"`, `"y":3,"g":"b"`, `"y":4,"g":"b"`}),
+		`{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1],[0,0]]]}`, `{"type":"Point","coordinates":[0,0]}`, 1)
+	o := runCLI(t, layer, "compare", "-i", "-", "-y", "y", "-g", "g", "--skip-bad-geometry", "--format", "json")
+	if o.code != 0 {
+		t.Fatalf("exit %d: %s", o.code, o.stderr)
+	}
+	if !strings.Contains(o.stderr, "warning") || !strings.Contains(o.stderr, "a1") {
+		t.Errorf("no warning naming the skipped feature: %q", o.stderr)
+	}
+	var doc struct {
+		Input struct{ Areas int }
+	}
+	json.Unmarshal([]byte(o.stdout), &doc)
+	if doc.Input.Areas != 4 {
+		t.Errorf("%d areas read, want 4", doc.Input.Areas)
+	}
+}
+
+// The demo region has two offshore districts: they are counted, named and
+// left out of the spatial check.
+func TestDemoIslandsReported(t *testing.T) {
+	o := runCLI(t, "", "demo", "--format", "json", "-n", "99")
+	var doc struct {
+		Weights struct {
+			Islands   int
+			IslandIDs []string `json:"island_ids"`
+			Kind      string
+		}
+	}
+	if err := json.Unmarshal([]byte(o.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Weights.Islands != 2 || len(doc.Weights.IslandIDs) != 2 || doc.Weights.Kind != "queen contiguity" {
+		t.Fatalf("weights %+v", doc.Weights)
+	}
+}

@@ -23,7 +23,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	for i, e := range r.Excluded {
 		head := "  left out  "
 		if i > 0 {
-			head = "             "
+			head = "            "
 		}
 		fmt.Fprintf(&b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idList(e.IDs, 6))
 	}

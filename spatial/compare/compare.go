@@ -412,7 +412,7 @@ func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float6
 }
 
 func clusterWarning(res *Result, m VariableMoran) string {
-	return fmt.Sprintf("Both the outcome %s (Moran's I %.2f) and the grouping %s (Moran's I %.2f) cluster in space. "+
+	return fmt.Sprintf("Both the outcome %s (Moran's I %.3f) and the grouping %s (Moran's I %.3f) cluster in space. "+
 		"Neighbouring areas resemble each other and tend to share a group, but the free shuffle treats all %d areas as independent pieces of evidence, "+
 		"so its p-value is likely too small. Treat it as a lower bound, not as the strength of the evidence.",
 		res.Autocorrelation.Outcome.Variable, res.Autocorrelation.Outcome.MoransI, m.Variable, m.MoransI, res.Input.Tested)

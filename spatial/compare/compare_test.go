@@ -187,3 +187,33 @@ func TestClusterWarning(t *testing.T) {
 		t.Fatalf("alternating groups flagged as clustered: %+v", res.Autocorrelation)
 	}
 }
+
+// Areas with no neighbour among the tested areas stay in the group test but
+// leave the spatial check, which names them.
+func TestIslandsLeaveOnlyTheSpatialCheck(t *testing.T) {
+	y := []float64{1, 2, 3, 4, 5, 6, 7, 8}
+	g := []string{"a", "a", "a", "a", "b", "b", "b", "b"}
+	in := input(y, g)
+	// A chain a–b–…–g; area h touches nobody.
+	var pairs [][2]int32
+	for i := 0; i+1 < 7; i++ {
+		pairs = append(pairs, [2]int32{int32(i), int32(i + 1)})
+	}
+	in.Graph, _ = weights.FromLinks(8, pairs, "path")
+	// Area b (index 1) has no outcome: a and c lose their link through it,
+	// so a becomes an island among the tested areas.
+	in.OutcomeMissing[1] = true
+	res, err := Run(in, opts())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Input.Tested != 7 || res.Groups[0].Areas+res.Groups[1].Areas != 7 {
+		t.Fatalf("tested %d, groups %+v", res.Input.Tested, res.Groups)
+	}
+	if res.Weights.Islands != 2 || res.Weights.IslandIDs[0] != "a" || res.Weights.IslandIDs[1] != "h" {
+		t.Fatalf("islands %d %v", res.Weights.Islands, res.Weights.IslandIDs)
+	}
+	if res.Weights.Links != 4 {
+		t.Fatalf("links %d, want 4 (c-d-e-f-g)", res.Weights.Links)
+	}
+}
