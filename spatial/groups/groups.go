@@ -249,16 +249,7 @@ func (d *Data) Factory(s Statistic) shuffle.Factory {
 		return func() shuffle.Evaluator {
 			sums := make([]float64, d.K)
 			return func(lab []int32) float64 {
-				for g := range sums {
-					sums[g] = 0
-				}
-				for i, l := range lab {
-					sums[l] += d.Ranks[i]
-				}
-				var h float64
-				for g, s := range sums {
-					h += s * s / float64(d.Sizes[g])
-				}
+				h := d.betweenGroups(lab, d.Ranks, sums)
 				h = 12/(N*(N+1))*h - 3*(N+1)
 				if correction <= 0 { // every value tied: no information
 					return 0
@@ -271,16 +262,7 @@ func (d *Data) Factory(s Statistic) shuffle.Factory {
 		return func() shuffle.Evaluator {
 			sums := make([]float64, d.K)
 			return func(lab []int32) float64 {
-				for g := range sums {
-					sums[g] = 0
-				}
-				for i, l := range lab {
-					sums[l] += d.centred[i]
-				}
-				var between float64
-				for g, s := range sums {
-					between += s * s / float64(d.Sizes[g])
-				}
+				between := d.betweenGroups(lab, d.centred, sums)
 				within := d.ssTotal - between
 				if within <= 0 {
 					return math.Inf(1)
@@ -290,6 +272,23 @@ func (d *Data) Factory(s Statistic) shuffle.Factory {
 		}
 	}
 	panic(fmt.Sprintf("groups: unknown statistic %d", s))
+}
+
+// betweenGroups returns Σ_g S_g²/n_g, where S_g sums v over the positions
+// labelled g; both H (on ranks) and F (on centred values) are built on it.
+// sums is scratch space of length K.
+func (d *Data) betweenGroups(lab []int32, v []float64, sums []float64) float64 {
+	for g := range sums {
+		sums[g] = 0
+	}
+	for i, l := range lab {
+		sums[l] += v[i]
+	}
+	var b float64
+	for g, s := range sums {
+		b += s * s / float64(d.Sizes[g])
+	}
+	return b
 }
 
 // b2f is 1 for true and 0 for false; the compiler turns it into a flag
