@@ -156,3 +156,56 @@ func (b byIndex) Swap(x, y int) {
 	b.j[x], b.j[y] = b.j[y], b.j[x]
 	b.w[x], b.w[y] = b.w[y], b.w[x]
 }
+
+// Link is one directed, weighted entry of a graph under construction.
+type Link struct {
+	From, To int32
+	Weight   float64
+}
+
+// FromEntries builds a graph on n areas from directed weighted links (which
+// need not be symmetric). Links may come in any order; a repeated (from, to)
+// pair, a self-link, an index out of range, or a negative or non-finite
+// weight is an error. Links of weight zero are dropped.
+func FromEntries(n int, links []Link, kind, transform string) (*Graph, error) {
+	offsets := make([]int32, n+1)
+	for _, l := range links {
+		if l.From == l.To {
+			return nil, fmt.Errorf("weights: area %d linked to itself", l.From)
+		}
+		if l.From < 0 || l.To < 0 || int(l.From) >= n || int(l.To) >= n {
+			return nil, fmt.Errorf("weights: link %d→%d out of range for %d areas", l.From, l.To, n)
+		}
+		if !(l.Weight >= 0) || l.Weight > 1e300 {
+			return nil, fmt.Errorf("weights: link %d→%d has weight %v; weights must be finite and not negative", l.From, l.To, l.Weight)
+		}
+		if l.Weight > 0 {
+			offsets[l.From+1]++
+		}
+	}
+	for i := 1; i <= n; i++ {
+		offsets[i] += offsets[i-1]
+	}
+	nb := make([]int32, offsets[n])
+	w := make([]float64, offsets[n])
+	fill := make([]int32, n)
+	copy(fill, offsets[:n])
+	for _, l := range links {
+		if l.Weight > 0 {
+			nb[fill[l.From]] = l.To
+			w[fill[l.From]] = l.Weight
+			fill[l.From]++
+		}
+	}
+	g := &Graph{Kind: kind, Transform: transform, Offsets: offsets, Neighbours: nb, Weights: w}
+	for i := 0; i < n; i++ {
+		a, b := offsets[i], offsets[i+1]
+		sort.Sort(byIndex{nb[a:b], w[a:b]})
+		for k := a + 1; k < b; k++ {
+			if nb[k] == nb[k-1] {
+				return nil, fmt.Errorf("weights: link %d→%d given twice", i, nb[k])
+			}
+		}
+	}
+	return g, nil
+}
