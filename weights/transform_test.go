@@ -1,0 +1,195 @@
+package weights
+
+import (
+	"bytes"
+	"math"
+	"strings"
+	"testing"
+)
+
+func TestTransforms(t *testing.T) {
+	g, _ := ContiguityGraph(lattice(4), Queen)
+	b, err := g.Transformed(Binary)
+	if err != nil || b.Weights[0] != 1 {
+		t.Fatal(err)
+	}
+	v, err := g.Transformed(VarianceStabilising)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// S-coding (Tiefelsdorf, Griffith & Boots 1999): equal sum of squared
+	// weights in every row, and all weights summing to n.
+	var total, first float64
+	for i := 0; i < v.Len(); i++ {
+		_, w := v.Row(i)
+		var q float64
+		for _, x := range w {
+			q += x * x
+			total += x
+		}
+		if i == 0 {
+			first = q
+		} else if math.Abs(q-first) > 1e-12 {
+			t.Fatalf("row %d: Σw² = %v, row 0: %v", i, q, first)
+		}
+	}
+	if math.Abs(total-16) > 1e-12 {
+		t.Fatalf("S-coded weights sum to %v, want n = 16", total)
+	}
+	if _, err := ParseTransform("cube"); err == nil {
+		t.Fatal("unknown transform accepted")
+	}
+}
+
+func TestSymmetrisedAndAsymmetry(t *testing.T) {
+	// 0→1 (weight 2) and 1→0 (weight 4); 1→2 only (weight 1).
+	g, err := FromEntries(3, []Link{{0, 1, 2}, {1, 0, 4}, {1, 2, 1}}, "test", "weighted")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if g.Asymmetric() != 1 {
+		t.Fatalf("asymmetric links %d, want 1", g.Asymmetric())
+	}
+	s := g.Symmetrised()
+	if s.Asymmetric() != 0 || weightOf(s, 0, 1) != 3 || weightOf(s, 1, 0) != 3 || weightOf(s, 2, 1) != 0.5 {
+		t.Fatalf("symmetrised weights %v", s.Weights)
+	}
+	if _, err := FromEntries(2, []Link{{0, 1, 1}, {0, 1, 2}}, "x", "x"); err == nil {
+		t.Fatal("a repeated link was accepted")
+	}
+	if _, err := FromEntries(2, []Link{{0, 1, -1}}, "x", "x"); err == nil {
+		t.Fatal("a negative weight was accepted")
+	}
+}
+
+// On a rook lattice the neighbours of order k of an interior cell are the
+// cells at Manhattan distance exactly k (4k of them when they all fit), and
+// the cumulative graph up to k holds 2k(k+1) (lattice geometry).
+func TestHigherOrder(t *testing.T) {
+	m := 9
+	g, _ := ContiguityGraph(lattice(m), Rook)
+	centre := 4*m + 4
+	for k := 1; k <= 3; k++ {
+		h, err := g.HigherOrder(k, false)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := h.Degree(centre); got != 4*k {
+			t.Errorf("order %d: %d neighbours, want %d", k, got, 4*k)
+		}
+		nb, _ := h.Row(centre)
+		for _, j := range nb {
+			r, c := int(j)/m, int(j)%m
+			if d := abs(r-4) + abs(c-4); d != k {
+				t.Errorf("order %d lists a cell at distance %d", k, d)
+			}
+		}
+		c, _ := g.HigherOrder(k, true)
+		if got := c.Degree(centre); got != 2*k*(k+1) {
+			t.Errorf("orders 1..%d: %d neighbours, want %d", k, got, 2*k*(k+1))
+		}
+		if c.Asymmetric() != 0 || h.Asymmetric() != 0 {
+			t.Error("higher-order graph is not symmetric")
+		}
+	}
+	if _, err := g.HigherOrder(0, false); err == nil {
+		t.Fatal("order 0 accepted")
+	}
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+func TestSummary(t *testing.T) {
+	// A 3×3 queen lattice (a..i), a separate linked pair (j, k) and an
+	// island (l).
+	g, _ := ContiguityGraph(lattice(3), Queen)
+	ids := []string{"a", "b", "c", "d", "e", "f", "g", "h", "i", "j", "k", "l"}
+	var pairs [][2]int32
+	for i := 0; i < g.Len(); i++ {
+		nb, _ := g.Row(i)
+		for _, j := range nb {
+			if int(j) > i {
+				pairs = append(pairs, [2]int32{int32(i), j})
+			}
+		}
+	}
+	pairs = append(pairs, [2]int32{9, 10})
+	h, _ := FromLinks(12, pairs, "queen contiguity")
+	s := Summarise(h, ids)
+	if s.Areas != 12 || s.Pairs != 20+1 || s.Links != 42 || s.Islands != 1 || s.IslandIDs[0] != "l" {
+		t.Fatalf("summary %+v", s)
+	}
+	if s.MaxNeighbours != 8 || s.MostIDs[0] != "e" || s.MinNeighbours != 0 || s.Histogram[3] != 4 {
+		t.Fatalf("neighbour counts %+v", s)
+	}
+	if s.Components != 3 || s.ComponentSizes[0] != 9 || s.ComponentSizes[1] != 2 {
+		t.Fatalf("components %d %v", s.Components, s.ComponentSizes)
+	}
+	joined := strings.Join(s.Warnings, " ")
+	if !strings.Contains(joined, "no neighbour (l)") || !strings.Contains(joined, "2 separate groups") {
+		t.Fatalf("warnings %q", s.Warnings)
+	}
+	empty, _ := FromLinks(3, nil, "distance band 1 km")
+	if w := Summarise(empty, ids[:3]).Warnings; len(w) == 0 || !strings.Contains(w[0], "every area is an island") {
+		t.Fatalf("all-islands warning missing: %q", w)
+	}
+}
+
+func TestEdgeListRoundTrip(t *testing.T) {
+	g, _ := ContiguityGraph(lattice(3), Queen)
+	rs := g.RowStandardised()
+	ids := []string{"a", "b", "c", "d", "e", "f", "g", "h", "i"}
+	var buf bytes.Buffer
+	if err := WriteEdgeList(&buf, rs, ids); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.HasPrefix(buf.String(), "from,to,weight\na,b,0.3333333333333333\n") {
+		t.Fatalf("edge list starts %q", buf.String()[:40])
+	}
+	back, err := ReadEdgeList(&buf, "edges.csv", ids)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range rs.Weights {
+		if back.Weights[k] != rs.Weights[k] || back.Neighbours[k] != rs.Neighbours[k] {
+			t.Fatal("round trip changed the graph")
+		}
+	}
+	var bin bytes.Buffer
+	WriteEdgeList(&bin, g, ids)
+	if b, _ := ReadEdgeList(&bin, "edges.csv", ids); b.Transform != "binary" {
+		t.Fatalf("binary file read as %q", b.Transform)
+	}
+}
+
+func TestEdgeListErrors(t *testing.T) {
+	ids := []string{"a", "b", "c"}
+	for _, c := range []struct{ name, text, want string }{
+		{"empty", "", "empty"},
+		{"no header", "a,b,1\n", "header"},
+		{"unknown id", "from,to,weight\na,z,1\n", `line 2: area "z" is not an id`},
+		{"self link", "from,to,weight\na,b,1\nc,c,1\n", `line 3: area "c" is linked to itself`},
+		{"negative", "from,to,weight\na,b,-1\n", "negative"},
+		{"not a number", "from,to,weight\na,b,heavy\n", `weight "heavy"`},
+		{"missing weight", "from,to,weight\na,b\n", "found 2 value(s)"},
+		{"repeated", "from,to,weight\na,b,1\na,b,2\n", "already given on line 2"},
+		{"nan", "from,to,weight\na,b,NaN\n", "not a number"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ReadEdgeList(strings.NewReader(c.text), "edges.csv", ids)
+			if err == nil || !strings.Contains(err.Error(), c.want) || !strings.HasPrefix(err.Error(), "edges.csv") {
+				t.Fatalf("error %v, want %q", err, c.want)
+			}
+		})
+	}
+	// Columns in another order, a byte-order mark and blank lines are fine.
+	g, err := ReadEdgeList(strings.NewReader("\ufeffweight,to,from\n2,b,a\n\n0.5,a,b\n"), "edges.csv", ids)
+	if err != nil || g.Links() != 2 || weightOf(g, 0, 1) != 2 || g.Degree(2) != 0 {
+		t.Fatalf("reordered columns: %v", err)
+	}
+}
