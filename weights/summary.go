@@ -32,8 +32,11 @@ type Summary struct {
 	ComponentSizes []int `json:"component_sizes"`
 	// Asymmetric counts links i→j without j→i (k-nearest-neighbour graphs
 	// are asymmetric unless symmetrised).
-	Asymmetric int      `json:"asymmetric"`
-	Warnings   []string `json:"warnings"`
+	Asymmetric int `json:"asymmetric"`
+	// Warnings describe problems of the graph itself (all areas islands,
+	// separate groups, an area with very many neighbours). Islands are
+	// counted above; what they mean depends on the statistic, which says so.
+	Warnings []string `json:"warnings"`
 }
 
 // listed caps the ids named in a summary per category.
@@ -82,8 +85,6 @@ func Summarise(g *Graph, ids []string) Summary {
 
 	if s.Islands == n {
 		s.Warnings = append(s.Warnings, "No area has a neighbour: every area is an island, so no spatial statistic can be computed. Widen the distance band or choose another neighbour rule.")
-	} else if s.Islands > 0 {
-		s.Warnings = append(s.Warnings, fmt.Sprintf("%d area(s) have no neighbour (%s); statistics leave them out unless --islands keep is given.", s.Islands, names(s.IslandIDs, s.Islands)))
 	}
 	if big := s.Components - s.Islands; big > 1 {
 		s.Warnings = append(s.Warnings, fmt.Sprintf("The graph falls into %d separate groups of linked areas (sizes %s); spatial patterns cannot be compared across groups that are not linked.", big, sizes(s.ComponentSizes)))
@@ -92,20 +93,6 @@ func Summarise(g *Graph, ids []string) Summary {
 		s.Warnings = append(s.Warnings, fmt.Sprintf("Area %s has %d neighbours; with so many, its spatial lag is close to the overall mean and it says little about local structure. Consider a smaller band or fewer neighbours.", s.MostIDs[0], s.MaxNeighbours))
 	}
 	return s
-}
-
-func names(ids []string, total int) string {
-	out := ""
-	for i, id := range ids {
-		if i > 0 {
-			out += ", "
-		}
-		out += id
-	}
-	if total > len(ids) {
-		out += fmt.Sprintf(" and %d more", total-len(ids))
-	}
-	return out
 }
 
 // sizes lists the component sizes above one (islands are reported apart).

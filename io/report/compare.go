@@ -64,7 +64,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 
 	a := r.Autocorrelation
 	fmt.Fprintf(&b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
-	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", Count(r.Weights.Areas), Count(r.Weights.Links),
+	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", Count(r.Weights.Areas), Count(r.Weights.Pairs),
 		Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
 	if a.Outcome.Variable != "" {
 		fmt.Fprintf(&b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")

@@ -35,8 +35,15 @@ type Input struct {
 	StrataName    string
 	Strata        []string
 	StrataMissing []bool
-	// Graph is the binary neighbour graph of all areas of the layer.
+	// Graph is the neighbour graph of all areas of the layer, before any
+	// transform.
 	Graph *weights.Graph
+	// Transform is applied to the graph among the tested areas before the
+	// spatial check; empty means row-standardised.
+	Transform weights.Transform
+	// KeepIslands keeps areas without neighbours in the spatial check, with
+	// a spatial lag of zero, instead of leaving them out.
+	KeepIslands bool
 }
 
 // Options tune the comparison.
@@ -62,11 +69,12 @@ type Options struct {
 // Result is everything a report shows. The text report, the JSON document
 // and any later view render this one struct.
 type Result struct {
-	Version string        `json:"version"`
-	Seed    uint64        `json:"seed"`
-	Input   InputInfo     `json:"input"`
-	Weights WeightsInfo   `json:"weights"`
-	Groups  []GroupResult `json:"groups"`
+	Version string    `json:"version"`
+	Seed    uint64    `json:"seed"`
+	Input   InputInfo `json:"input"`
+	// Weights summarises the neighbour graph among the tested areas.
+	Weights weights.Summary `json:"weights"`
+	Groups  []GroupResult   `json:"groups"`
 	// Statistic describes the group statistic and its observed value.
 	Statistic StatisticInfo `json:"statistic"`
 	// Tests holds one entry per shuffle scheme, the free shuffle first.
@@ -87,18 +95,6 @@ type InputInfo struct {
 	Outcome string `json:"outcome"`
 	Group   string `json:"group"`
 	Strata  string `json:"strata,omitempty"`
-}
-
-// WeightsInfo summarises the neighbour graph the spatial check used.
-type WeightsInfo struct {
-	Kind      string `json:"kind"`
-	Transform string `json:"transform"`
-	// Areas and Links count the graph among the tested areas; Links counts
-	// each neighbour pair once.
-	Areas     int      `json:"areas"`
-	Links     int      `json:"links"`
-	Islands   int      `json:"islands"`
-	IslandIDs []string `json:"island_ids"`
 }
 
 // GroupResult is one group's size and outcome summary.
@@ -334,29 +330,37 @@ func mixedStrata(strata, labels []int32) int {
 }
 
 // spatialCheck computes Moran's I of the outcome and of each group
-// indicator on the row-standardised graph among the tested areas, leaving
-// out areas with no neighbour there (their spatial lag is undefined).
+// indicator on the graph among the tested areas, with the transform asked
+// for. Areas with no neighbour there are left out (their spatial lag is
+// undefined) unless the input keeps them, with a zero lag.
 func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float64, lab []int32, res *Result) error {
 	sub := in.Graph.Subset(keep)
+	ids := make([]string, len(keep))
+	for k, i := range keep {
+		ids[k] = in.IDs[i]
+	}
+	transform := in.Transform
+	if transform == "" {
+		transform = weights.RowStandardised
+	}
+	res.Weights = weights.Summarise(sub, ids)
+	res.Weights.Transform = string(transform)
+	res.Warnings = append(res.Warnings, res.Weights.Warnings...)
+	res.Autocorrelation.Alpha = opt.Alpha
 	var linked []int
-	info := WeightsInfo{Kind: in.Graph.Kind, Transform: "row-standardised", IslandIDs: []string{}}
 	for k := 0; k < sub.Len(); k++ {
-		if sub.Degree(k) == 0 {
-			info.Islands++
-			info.IslandIDs = append(info.IslandIDs, in.IDs[keep[k]])
-		} else {
+		if sub.Degree(k) > 0 || in.KeepIslands {
 			linked = append(linked, k)
 		}
 	}
-	info.Areas = len(keep)
-	info.Links = sub.Links() / 2
-	res.Weights = info
-	res.Autocorrelation.Alpha = opt.Alpha
-	if len(linked) < 3 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", len(linked)))
+	if sub.Len()-res.Weights.Islands < 3 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", sub.Len()-res.Weights.Islands))
 		return nil
 	}
-	g := sub.Subset(linked).RowStandardised()
+	g, err := sub.Subset(linked).Transformed(transform)
+	if err != nil {
+		return err
+	}
 	plan := shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
 		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided}
 	ys := make([]float64, len(linked))
@@ -394,9 +398,13 @@ func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float6
 		}
 		res.Autocorrelation.Group = append(res.Autocorrelation.Group, m)
 	}
-	if info.Islands > 0 {
+	switch w := res.Weights; {
+	case w.Islands > 0 && in.KeepIslands:
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d tested area(s) have no neighbour (%s); they are kept in the spatial check with a spatial lag of zero.",
+			w.Islands, listIDs(w.IslandIDs, 5)))
+	case w.Islands > 0:
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d tested area(s) have no neighbour (%s) and are left out of the spatial check; they still count in the group test.",
-			info.Islands, listIDs(info.IslandIDs, 5)))
+			w.Islands, listIDs(w.IslandIDs, 5)))
 	}
 	significant := func(m VariableMoran) bool { return m.MoransI > m.Expected && m.PValue <= opt.Alpha }
 	if significant(res.Autocorrelation.Outcome) {

@@ -213,7 +213,50 @@ func TestIslandsLeaveOnlyTheSpatialCheck(t *testing.T) {
 	if res.Weights.Islands != 2 || res.Weights.IslandIDs[0] != "a" || res.Weights.IslandIDs[1] != "h" {
 		t.Fatalf("islands %d %v", res.Weights.Islands, res.Weights.IslandIDs)
 	}
-	if res.Weights.Links != 4 {
-		t.Fatalf("links %d, want 4 (c-d-e-f-g)", res.Weights.Links)
+	if res.Weights.Pairs != 4 || res.Weights.Links != 8 {
+		t.Fatalf("pairs %d links %d, want 4 pairs (c-d-e-f-g)", res.Weights.Pairs, res.Weights.Links)
+	}
+}
+
+// With KeepIslands the areas without neighbours stay in the spatial check
+// with a zero lag: Moran's I then equals the direct formula over all tested
+// areas (n/S0 · Σ z_i lag_i / Σ z², islands contributing to n and Σ z² only).
+func TestKeepIslands(t *testing.T) {
+	y := []float64{1, 2, 3, 4, 5, 6, 7, 9}
+	g := []string{"a", "a", "a", "a", "b", "b", "b", "b"}
+	in := input(y, g)
+	var pairs [][2]int32
+	for i := 0; i+1 < 7; i++ {
+		pairs = append(pairs, [2]int32{int32(i), int32(i + 1)})
+	}
+	in.Graph, _ = weights.FromLinks(8, pairs, "path")
+	in.KeepIslands = true
+	res, err := Run(in, opts())
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Row-standardised path of 7 plus an island: S0 = 7; mean of y = 37/8.
+	mean := 37.0 / 8
+	var num, den float64
+	for i := 0; i < 8; i++ {
+		z := y[i] - mean
+		den += z * z
+		var lag float64
+		switch {
+		case i == 0:
+			lag = y[1] - mean
+		case i == 6:
+			lag = y[5] - mean
+		case i < 6:
+			lag = (y[i-1] + y[i+1] - 2*mean) / 2
+		}
+		num += z * lag
+	}
+	want := 8.0 / 7 * num / den
+	if got := res.Autocorrelation.Outcome.MoransI; math.Abs(got-want) > 1e-12 {
+		t.Fatalf("I = %v, want %v", got, want)
+	}
+	if !strings.Contains(strings.Join(res.Warnings, " "), "kept in the spatial check") {
+		t.Fatalf("warnings %q", res.Warnings)
 	}
 }
