@@ -1,0 +1,100 @@
+package report
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/areatest/areatest/weights"
+)
+
+// WeightsDocument is what `areatest weights` reports: the graph's summary
+// and where it came from.
+type WeightsDocument struct {
+	Version string `json:"version"`
+	Input   string `json:"input"`
+	// Settings describes the rule in words, e.g. "snap 1e-07 degrees".
+	Settings []string        `json:"settings"`
+	Weights  weights.Summary `json:"weights"`
+	Written  string          `json:"written,omitempty"`
+}
+
+// WeightsText writes the summary of a neighbour graph for a person.
+func WeightsText(w io.Writer, d *WeightsDocument) error {
+	s := d.Weights
+	var b strings.Builder
+	fmt.Fprintf(&b, "areatest %s: neighbours in %s\n\n", d.Version, d.Input)
+	row := func(label, value string) { fmt.Fprintf(&b, "  %-13s %s\n", label, value) }
+	row("rule", s.Kind)
+	for _, set := range d.Settings {
+		row("", set)
+	}
+	row("weights", s.Transform)
+	row("areas", Count(s.Areas))
+	row("links", fmt.Sprintf("%s neighbour pairs (%s directed links)", Count(s.Pairs), Count(s.Links)))
+	if s.Areas > 0 {
+		row("neighbours", fmt.Sprintf("mean %.2f, fewest %d%s, most %d%s", s.MeanNeighbours,
+			s.MinNeighbours, idList(s.FewestIDs, 4), s.MaxNeighbours, idList(s.MostIDs, 4)))
+	}
+	islands := Count(s.Islands)
+	if s.Islands > 0 {
+		islands += idListOf(s.IslandIDs, s.Islands)
+	}
+	row("islands", islands)
+	switch {
+	case s.Components <= 1:
+		row("connected", "yes, one group of linked areas")
+	default:
+		row("connected", fmt.Sprintf("no: %d groups, sizes %s", s.Components, sizeList(s.ComponentSizes)))
+	}
+	if s.Asymmetric > 0 {
+		row("asymmetric", fmt.Sprintf("%s links have no link back", Count(s.Asymmetric)))
+	} else {
+		row("symmetric", "yes")
+	}
+	if len(s.Histogram) > 0 {
+		b.WriteString("\n  neighbours   areas\n")
+		peak := 0
+		for _, c := range s.Histogram {
+			peak = max(peak, c)
+		}
+		for k, c := range s.Histogram {
+			if c == 0 && len(s.Histogram) > 30 {
+				continue
+			}
+			bar := strings.Repeat("█", (c*40+peak-1)/max(peak, 1))
+			fmt.Fprintf(&b, "  %10d %7s  %s\n", k, Count(c), bar)
+		}
+	}
+	if len(s.Warnings) > 0 {
+		b.WriteString("\nWarnings\n")
+		for _, wn := range s.Warnings {
+			b.WriteString(Wrap(wn, width, "  ! ", "    "))
+		}
+	}
+	if d.Written != "" {
+		fmt.Fprintf(&b, "\nedge list written to %s\n", d.Written)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// idListOf lists ids, saying how many more there are beyond the listed ones.
+func idListOf(ids []string, total int) string {
+	if total > len(ids) {
+		return fmt.Sprintf(" (%s and %d more)", strings.Join(ids, ", "), total-len(ids))
+	}
+	return idList(ids, len(ids))
+}
+
+func sizeList(sizes []int) string {
+	var parts []string
+	for i, s := range sizes {
+		if i == 8 {
+			parts = append(parts, fmt.Sprintf("… (%d more)", len(sizes)-8))
+			break
+		}
+		parts = append(parts, Count(s))
+	}
+	return strings.Join(parts, ", ")
+}
