@@ -2,7 +2,7 @@ package weights
 
 import (
 	"fmt"
-	"sort"
+	"math"
 
 	"github.com/paulmach/orb"
 )
@@ -11,11 +11,11 @@ import (
 type Contiguity int
 
 const (
-	// Queen makes areas neighbours when they share at least one boundary
-	// vertex (a corner is enough).
+	// Queen makes areas neighbours when their boundaries meet at least at
+	// one point (a corner is enough).
 	Queen Contiguity = iota
-	// Rook makes areas neighbours only when they share at least one boundary
-	// segment (an edge of positive length).
+	// Rook makes areas neighbours only when their boundaries share a stretch
+	// of positive length.
 	Rook
 )
 
@@ -37,107 +37,151 @@ func ParseContiguity(s string) (Contiguity, error) {
 	return Queen, fmt.Errorf("contiguity must be queen or rook, not %q", s)
 }
 
-// ContiguityGraph builds a binary contiguity graph from polygon boundaries,
-// matching vertices by exact coordinate equality. Queen links areas that share
-// a vertex; rook links areas that share a segment, i.e. the same pair of
-// consecutive vertices (in either direction) appears in both boundaries.
+// ContiguityOptions says how BuildContiguity decides that two areas touch.
+type ContiguityOptions struct {
+	// Rule is Queen or Rook.
+	Rule Contiguity
+	// Snap is the distance, in the layer's coordinate units, below which two
+	// boundary points count as the same point. 0 means DefaultSnap(geoms).
+	Snap float64
+	// IDs, when not nil, names the areas (one per geometry) in errors and
+	// warnings; without it areas are named by their 0-based index.
+	IDs []string
+}
+
+// RookMinShared is the shortest stretch, in multiples of the snap distance,
+// that two boundaries must run together for the areas to be rook neighbours.
+// A point contact blurred by the tolerance on both sides can look like a
+// stretch of up to about 2·Snap (two corners digitised up to Snap apart), so
+// the threshold sits just above that.
+const RookMinShared = 3
+
+// Factors of DefaultSnap: the coordinate scale factor, and the cap relative
+// to the typical boundary segment.
+const (
+	contigSnapScale   = 2e-9
+	contigSnapSegment = 1e-2
+)
+
+// DefaultSnap returns the snap distance used when ContiguityOptions.Snap is
+// 0: 2·10⁻⁹ of the layer's coordinate scale, the larger of its bounding-box
+// diagonal and its largest absolute coordinate, but at most 1/100 of the
+// median boundary segment length.
 //
-// Exact matching is right for layers whose neighbours were built from one
-// topology (shared arcs give bit-identical coordinates); it misses neighbours
-// whose shared border was digitised twice.
+// The scale includes the magnitude of the coordinates, not only the extent,
+// because what puts the two copies of a shared border apart is rounding —
+// of float64 and of the decimals a file keeps — and rounding is relative to
+// the values. The result is about 1–8·10⁻⁷ degrees (1–8 cm) for longitude and
+// latitude, and 2 mm to 4 cm for projected metres. The cap keeps the
+// tolerance far below the size of the areas themselves when they are tiny
+// next to their coordinates. Non-finite coordinates are ignored; a layer
+// without any boundary segment gets 0.
+func DefaultSnap(geoms []orb.MultiPolygon) float64 {
+	var b contigBounds
+	b.reset()
+	for _, mp := range geoms {
+		for _, poly := range mp {
+			for _, ring := range poly {
+				for _, p := range ring {
+					b.add(p[0], p[1])
+				}
+			}
+		}
+	}
+	med := contigMedianSegment(geoms)
+	if !b.ok() || med == 0 {
+		return 0
+	}
+	return contigSnapFrom(b, med)
+}
+
+// contigSnapFrom is DefaultSnap from the bounds and median segment length.
+func contigSnapFrom(b contigBounds, medianSegment float64) float64 {
+	diag := math.Hypot(b.maxx-b.minx, b.maxy-b.miny)
+	scale := max(diag, math.Abs(b.minx), math.Abs(b.maxx), math.Abs(b.miny), math.Abs(b.maxy))
+	return min(contigSnapScale*scale, contigSnapSegment*medianSegment)
+}
+
+// BuildContiguity builds the binary contiguity graph of the areas geoms, with
+// boundaries compared up to the tolerance opt.Snap:
+//
+//   - Queen links two areas whose boundaries come within Snap of each other
+//     anywhere: a shared corner (the two copies up to Snap apart), a corner
+//     of one lying on a side of the other (a T-junction), or crossing sides.
+//   - Rook links two areas when a side of one and a side of the other run
+//     within Snap of each other over more than RookMinShared·Snap — a shared
+//     stretch of border, even where the two copies have their vertices in
+//     different places. The stretch is looked for one pair of sides at a
+//     time, so a border made only of sides shorter than that is missed.
+//
+// All rings count, holes included: an area filling another's hole is its
+// neighbour. Cost grows as n log n in the number of boundary segments: a
+// uniform grid over the segments, with cells about the median segment length,
+// pairs only segments that share a cell.
+//
+// Errors, naming the area: no polygon, a polygon without rings, a ring
+// without positions, a ring that is not closed (first and last positions
+// differ), a coordinate that is NaN or infinite, or a bad Snap. Warnings,
+// one per area (the first 20 listed, the rest counted), do not stop the build:
+//
+//   - A sliver ring — signed area at most Snap times half its perimeter, so
+//     a mean width of at most Snap, and no two of its sides crossing — adds
+//     nothing of its own to the search: a part without area is not land an
+//     area could touch another through. An area with only sliver rings gets
+//     no neighbour. (A ring whose sides cross, like a bow-tie, can have a
+//     signed area of zero while enclosing land; it is kept.)
+//   - A ring that crosses or touches itself (two non-consecutive sides
+//     meeting, found exactly, without tolerance) is named; its sides are
+//     still used.
+//
+// The graph depends only on the geometry and the options, not on the number
+// of cores used.
+func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []string, error) {
+	if opt.Rule != Queen && opt.Rule != Rook {
+		return nil, nil, fmt.Errorf("weights: unknown contiguity rule %d", opt.Rule)
+	}
+	if opt.IDs != nil && len(opt.IDs) != len(geoms) {
+		return nil, nil, fmt.Errorf("weights: %d ids for %d areas", len(opt.IDs), len(geoms))
+	}
+	if math.IsNaN(opt.Snap) || math.IsInf(opt.Snap, 0) || opt.Snap < 0 {
+		return nil, nil, fmt.Errorf("weights: the snap distance must be a finite number not below 0, got %v", opt.Snap)
+	}
+	if len(geoms) > math.MaxInt32 {
+		return nil, nil, fmt.Errorf("weights: %d areas are more than contiguity can index", len(geoms))
+	}
+	names := contigNamer{ids: opt.IDs}
+	b, err := contigCheck(geoms, names)
+	if err != nil {
+		return nil, nil, err
+	}
+	snap := opt.Snap
+	if snap == 0 && b.ok() {
+		if med := contigMedianSegment(geoms); med > 0 {
+			snap = contigSnapFrom(b, med)
+		}
+	}
+	lay, err := contigFlatten(geoms, snap)
+	if err != nil {
+		return nil, nil, err
+	}
+	found, err := lay.search(opt.Rule, snap)
+	if err != nil {
+		return nil, nil, err
+	}
+	crossed := lay.crossed(found.crossings)
+	pairs := found.links(crossed)
+	warns := lay.sliverWarnings(crossed, snap, names)
+	warns = append(warns, lay.crossingWarnings(found.crossings, crossed, names)...)
+	g, err := FromLinks(len(geoms), pairs, opt.Rule.String()+" contiguity")
+	if err != nil {
+		return nil, nil, err
+	}
+	return g, warns, nil
+}
+
+// ContiguityGraph builds a binary contiguity graph with the default snap
+// distance and drops the warnings; see BuildContiguity.
 func ContiguityGraph(geoms []orb.MultiPolygon, rule Contiguity) (*Graph, error) {
-	// Each key (a vertex, or a canonical segment) is mapped to the areas
-	// whose boundary holds it; every pair among those areas is a link. The
-	// occurrence list is sorted rather than hashed into nested maps so that
-	// memory stays flat and the result does not depend on map order.
-	type occ[K comparable] struct {
-		key  K
-		area int32
-	}
-	var pairs [][2]int32
-	switch rule {
-	case Queen:
-		occs := make([]occ[orb.Point], 0, 1024)
-		for a, mp := range geoms {
-			for _, poly := range mp {
-				for _, ring := range poly {
-					for k, p := range ring {
-						if k == len(ring)-1 && len(ring) > 1 && p == ring[0] {
-							continue
-						}
-						occs = append(occs, occ[orb.Point]{p, int32(a)})
-					}
-				}
-			}
-		}
-		sort.Slice(occs, func(i, j int) bool {
-			if occs[i].key != occs[j].key {
-				return lessPoint(occs[i].key, occs[j].key)
-			}
-			return occs[i].area < occs[j].area
-		})
-		pairs = pairsFromRuns(len(occs), func(i, j int) bool { return occs[i].key == occs[j].key },
-			func(i int) int32 { return occs[i].area })
-	case Rook:
-		occs := make([]occ[[2]orb.Point], 0, 1024)
-		for a, mp := range geoms {
-			for _, poly := range mp {
-				for _, ring := range poly {
-					for k := 0; k+1 < len(ring); k++ {
-						p, q := ring[k], ring[k+1]
-						if p == q {
-							continue
-						}
-						if lessPoint(q, p) {
-							p, q = q, p
-						}
-						occs = append(occs, occ[[2]orb.Point]{[2]orb.Point{p, q}, int32(a)})
-					}
-				}
-			}
-		}
-		sort.Slice(occs, func(i, j int) bool {
-			a, b := occs[i].key, occs[j].key
-			if a[0] != b[0] {
-				return lessPoint(a[0], b[0])
-			}
-			if a[1] != b[1] {
-				return lessPoint(a[1], b[1])
-			}
-			return occs[i].area < occs[j].area
-		})
-		pairs = pairsFromRuns(len(occs), func(i, j int) bool { return occs[i].key == occs[j].key },
-			func(i int) int32 { return occs[i].area })
-	default:
-		return nil, fmt.Errorf("weights: unknown contiguity rule %d", rule)
-	}
-	return FromLinks(len(geoms), pairs, rule.String()+" contiguity")
-}
-
-// pairsFromRuns walks a sorted occurrence list and emits every pair of
-// distinct areas within each run of equal keys.
-func pairsFromRuns(n int, same func(i, j int) bool, area func(i int) int32) [][2]int32 {
-	var pairs [][2]int32
-	for start := 0; start < n; {
-		end := start + 1
-		for end < n && same(start, end) {
-			end++
-		}
-		for i := start; i < end; i++ {
-			for j := i + 1; j < end; j++ {
-				if a, b := area(i), area(j); a != b {
-					pairs = append(pairs, [2]int32{a, b})
-				}
-			}
-		}
-		start = end
-	}
-	return pairs
-}
-
-func lessPoint(a, b orb.Point) bool {
-	if a[0] != b[0] {
-		return a[0] < b[0]
-	}
-	return a[1] < b[1]
+	g, _, err := BuildContiguity(geoms, ContiguityOptions{Rule: rule})
+	return g, err
 }

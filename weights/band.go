@@ -1,0 +1,158 @@
+package weights
+
+import (
+	"fmt"
+	"sort"
+	"sync/atomic"
+
+	"github.com/paulmach/orb"
+)
+
+// DistanceBand links, with weight one, every pair of areas whose
+// representative points are at most d apart under m (km for Geographic,
+// layer units for Planar). d must be positive and finite.
+//
+// Areas with no other area within d are islands of the returned graph, which
+// the graph's summary reports. A band under which no area at all has a
+// neighbour is an error, a *NoNeighboursError that says how far apart the
+// closest areas are and which band gives every area a neighbour. A band that
+// would make more than MaxLinks links is an error too.
+func DistanceBand(pts []orb.Point, d float64, m Metric) (*Graph, error) {
+	if err := ptsCheckThreshold("the distance band", d); err != nil {
+		return nil, err
+	}
+	ix, err := ptsNewIndex(pts, m)
+	if err != nil {
+		return nil, err
+	}
+	q := ptsRadiusQuery{
+		ix:     ix,
+		radius: func(int32) float64 { return d },
+		weigh:  func(_, _ int32, _ float64) float64 { return 1 },
+		kind:   "distance band " + ptsLength(d, m),
+		what:   "band",
+	}
+	return q.graph("binary", d, nil)
+}
+
+// ptsRadiusQuery describes a graph that links each area i to the other areas
+// j within radius(i) of it, with weight weigh(i, j, d_ij); links of weight
+// zero are left out.
+type ptsRadiusQuery struct {
+	ix     *ptsIndex
+	radius func(i int32) float64
+	weigh  func(i, j int32, d float64) float64
+	kind   string
+	what   string // the parameter to shrink when there are too many links
+	// none, if set, makes the error for a graph without links; by default
+	// that is a *NoNeighboursError for a fixed threshold.
+	none func() error
+}
+
+// visit calls f for each other area within radius of the area at tree
+// position q, in no particular order.
+func (r *ptsRadiusQuery) visit(q int, f func(j int32, d float64)) {
+	t := r.ix.tree
+	rad := r.radius(t.idx[q])
+	t.within(&t.c[q], r.ix.reach(rad), 0, len(t.idx), func(p int) {
+		if p == q {
+			return
+		}
+		if d := ptsExact(r.ix.geo, &t.e[q], &t.e[p]); d <= rad {
+			f(t.idx[p], d)
+		}
+	})
+}
+
+// graph builds the graph in two passes, the first only counting, so that
+// memory is allocated once at its final size and a request for too many links
+// stops before it has taken the memory. check, if given, runs between the
+// passes (builders use it to report problems weigh found). threshold is the
+// fixed distance reported if no area gets a neighbour.
+func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func() error) (*Graph, error) {
+	ix := r.ix
+	n := ix.len()
+	counts := make([]int32, n)
+	var total atomic.Int64
+	kdParallel(n, func(lo, hi int) {
+		if total.Load() > MaxLinks {
+			return
+		}
+		var sum int64
+		for p := lo; p < hi; p++ {
+			i := ix.tree.idx[p]
+			c := int32(0)
+			r.visit(p, func(j int32, d float64) {
+				if r.weigh(i, j, d) > 0 {
+					c++
+				}
+			})
+			counts[i] = c
+			sum += int64(c)
+		}
+		total.Add(sum)
+	})
+	if check != nil {
+		if err := check(); err != nil {
+			return nil, err
+		}
+	}
+	if t := total.Load(); t > MaxLinks {
+		return nil, fmt.Errorf("weights: %s makes more than %s links (over %s neighbours per area on average); choose a smaller %s",
+			r.kind, ptsCount(MaxLinks), ptsCount(int64(MaxLinks/n)), r.what)
+	} else if t == 0 {
+		if r.none != nil {
+			return nil, r.none()
+		}
+		return nil, ptsNoNeighbours(ix, r.kind, threshold)
+	}
+	offsets := make([]int32, n+1)
+	for i, c := range counts {
+		offsets[i+1] = offsets[i] + c
+	}
+	nb := make([]int32, offsets[n])
+	w := make([]float64, offsets[n])
+	kdParallel(n, func(lo, hi int) {
+		for p := lo; p < hi; p++ {
+			i := ix.tree.idx[p]
+			a, b := offsets[i], offsets[i+1]
+			t := a
+			r.visit(p, func(j int32, d float64) {
+				if v := r.weigh(i, j, d); v > 0 {
+					nb[t], w[t] = j, v
+					t++
+				}
+			})
+			ptsSortRow(nb[a:b], w[a:b])
+		}
+	})
+	return &Graph{Kind: r.kind, Transform: transform, Offsets: offsets, Neighbours: nb, Weights: w}, nil
+}
+
+// ptsSortRow orders a row by neighbour index, carrying the weights along.
+func ptsSortRow(nb []int32, w []float64) {
+	if len(nb) > 24 {
+		sort.Sort(ptsRow{nb, w})
+		return
+	}
+	for i := 1; i < len(nb); i++ {
+		j, v := nb[i], w[i]
+		k := i
+		for ; k > 0 && nb[k-1] > j; k-- {
+			nb[k], w[k] = nb[k-1], w[k-1]
+		}
+		nb[k], w[k] = j, v
+	}
+}
+
+type ptsRow struct {
+	nb []int32
+	w  []float64
+}
+
+func (r ptsRow) Len() int           { return len(r.nb) }
+func (r ptsRow) Less(a, b int) bool { return r.nb[a] < r.nb[b] }
+func (r ptsRow) Swap(a, b int) {
+	r.nb[a], r.nb[b] = r.nb[b], r.nb[a]
+	r.w[a], r.w[b] = r.w[b], r.w[a]
+}

@@ -1,0 +1,115 @@
+package weights
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/paulmach/orb"
+)
+
+// InverseDistance links areas with weight 1/d^power, d the distance between
+// their representative points under m. With band > 0 only pairs at most band
+// apart are linked (the graph then behaves like DistanceBand: islands are
+// allowed, no link at all is a *NoNeighboursError); band 0 links every pair,
+// which is refused when n(n−1) would exceed MaxLinks (above 7,071 areas) with
+// an error that suggests a band.
+//
+// power must be positive and finite. Two areas with the same representative
+// point would get an infinite weight: that is a *CoincidentError naming the
+// first such pair. A weight that overflows or underflows float64 (a large
+// power on very small or very large distances) is an error too. The graph is
+// symmetric.
+func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, error) {
+	if !(power > 0) || math.IsInf(power, 1) {
+		return nil, fmt.Errorf("weights: the inverse-distance power must be a positive number, not %v", power)
+	}
+	if band != 0 {
+		if err := ptsCheckThreshold("the inverse-distance band", band); err != nil {
+			return nil, fmt.Errorf("%w (or 0 for all pairs)", err)
+		}
+	}
+	n := len(pts)
+	if band == 0 && n >= 2 && int64(n)*int64(n-1) > MaxLinks {
+		return nil, fmt.Errorf("weights: inverse distance over all pairs of %s areas would make %s links, more than %s; give a distance band",
+			ptsCount(int64(n)), ptsCount(int64(n)*int64(n-1)), ptsCount(MaxLinks))
+	}
+	ix, err := ptsNewIndex(pts, m)
+	if err != nil {
+		return nil, err
+	}
+	// Each area's slot is written only by the query of that area, so the
+	// passes need no locks; the first problem in index order is reported.
+	coincident := make([]int32, n)
+	badWeight := make([]int32, n)
+	for i := range coincident {
+		coincident[i], badWeight[i] = -1, -1
+	}
+	weigh := func(i, j int32, d float64) float64 {
+		if d == 0 {
+			if c := coincident[i]; c < 0 || j < c {
+				coincident[i] = j
+			}
+			return 0
+		}
+		w := math.Pow(d, -power)
+		if w == 0 || math.IsInf(w, 1) {
+			if c := badWeight[i]; c < 0 || j < c {
+				badWeight[i] = j
+			}
+			return 0
+		}
+		return w
+	}
+	check := func() error {
+		for i := range n {
+			if j := coincident[i]; j >= 0 {
+				return &CoincidentError{A: i, B: int(j), Point: pts[i]}
+			}
+		}
+		for i := range n {
+			if j := badWeight[i]; j >= 0 {
+				d := ptsExact(ix.geo, ix.exact(int32(i)), ix.exact(j))
+				return fmt.Errorf("weights: inverse distance with power %v gives areas %d and %d, %s apart, the weight %v, beyond floating point; use a smaller power or other units",
+					power, i, j, ptsLength(d, m), math.Pow(d, -power))
+			}
+		}
+		return nil
+	}
+	if band > 0 {
+		q := ptsRadiusQuery{
+			ix:     ix,
+			radius: func(int32) float64 { return band },
+			weigh:  weigh,
+			kind:   fmt.Sprintf("inverse distance (power %s, band %s)", ptsNumber(power), ptsLength(band, m)),
+			what:   "band",
+		}
+		return q.graph("weighted", band, check)
+	}
+
+	// All pairs: row i holds every other area in index order.
+	offsets := make([]int32, n+1)
+	for i := range n {
+		offsets[i+1] = int32((i + 1) * (n - 1))
+	}
+	nb := make([]int32, n*(n-1))
+	w := make([]float64, n*(n-1))
+	kdParallel(n, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			ei := ix.exact(int32(i))
+			t := i * (n - 1)
+			for j := range n {
+				if j == i {
+					continue
+				}
+				nb[t] = int32(j)
+				w[t] = weigh(int32(i), int32(j), ptsExact(ix.geo, ei, ix.exact(int32(j))))
+				t++
+			}
+		}
+	})
+	if err := check(); err != nil {
+		return nil, err
+	}
+	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", ptsNumber(power))
+	return &Graph{Kind: kind, Transform: "weighted", Offsets: offsets, Neighbours: nb, Weights: w}, nil
+}
