@@ -5,6 +5,7 @@ package weights
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 )
 
@@ -81,7 +82,7 @@ func FromLinks(n int, pairs [][2]int32, kind string) (*Graph, error) {
 	offsets := make([]int32, n+1)
 	for i := 0; i < n; i++ {
 		row := nb[deg[i]:deg[i+1]]
-		sort.Slice(row, func(a, b int) bool { return row[a] < row[b] })
+		slices.Sort(row)
 		for k, j := range row {
 			if k > 0 && row[k-1] == j {
 				continue

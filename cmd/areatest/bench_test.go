@@ -39,9 +39,10 @@ func BenchmarkCompareWhole3000Strata(b *testing.B) {
 
 func benchCompare(b *testing.B, strata string) {
 	data := benchLayer(b, 3000)
-	c := compareFlags{outcome: "rate", group: "policy", strata: strata, contiguity: "queen", alternative: "two-sided",
+	c := compareFlags{outcome: "rate", group: "policy", strata: strata, alternative: "two-sided",
 		permutations: 9999, seed: 1, workers: 2, alpha: 0.05, format: "text"}
-	opt, rule, err := c.options()
+	c.weights = weightFlags{contiguity: "queen", points: "centroid", order: 1, transform: "row", islands: "drop", changed: func(string) bool { return false }}
+	opt, spec, err := c.options()
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -53,7 +54,7 @@ func benchCompare(b *testing.B, strata string) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if _, err := compareLayer(lay, &c, opt, rule); err != nil {
+		if _, _, err := compareLayer(lay, &c, opt, spec); err != nil {
 			b.Fatal(err)
 		}
 	}

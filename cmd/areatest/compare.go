@@ -36,14 +36,18 @@ Examples:
 
 // compareFlags are the settings shared by compare and demo.
 type compareFlags struct {
-	input, id, outcome, group, strata  string
-	contiguity, statistic, alternative string
-	contrast                           []string
-	permutations, workers              int
-	seed                               uint64
-	alpha                              float64
-	format, output                     string
-	skipBadGeometry                    bool
+	input, id, outcome, group, strata string
+	statistic, alternative            string
+	contrast                          []string
+	permutations, workers             int
+	seed                              uint64
+	alpha                             float64
+	format, output                    string
+	skipBadGeometry                   bool
+	weights                           weightFlags
+	// Set by options from the weight flags.
+	transform   weights.Transform
+	keepIslands bool
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
@@ -55,7 +59,6 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
 		fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning, instead of stopping")
 	}
-	fs.StringVar(&c.contiguity, "contiguity", "queen", "neighbour rule: queen (shared corner) or rook (shared edge)")
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
 	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (A above B) or less")
@@ -65,15 +68,18 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
 	fs.StringVar(&c.format, "format", "text", "text or json")
 	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+	c.weights.register(fs)
 }
 
-// options checks the flag values and turns them into library options.
-func (c *compareFlags) options() (compare.Options, weights.Contiguity, error) {
+// options checks the flag values and turns them into library options and
+// the recipe of the neighbour graph.
+func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
 	var opt compare.Options
-	rule, err := weights.ParseContiguity(c.contiguity)
+	rule, transform, keep, err := c.weights.spec()
 	if err != nil {
-		return opt, rule, usagef("--contiguity: %v", err)
+		return opt, rule, err
 	}
+	c.transform, c.keepIslands = transform, keep
 	if c.statistic != "" {
 		s, err := groups.ParseStatistic(c.statistic)
 		if err != nil {
@@ -119,7 +125,7 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return usagef("--%s is required (see areatest compare --help)", req.name)
 		}
 	}
-	opt, rule, err := c.options()
+	opt, spec, err := c.options()
 	if err != nil {
 		return err
 	}
@@ -130,11 +136,14 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
-	res, err := compareLayer(lay, &c, opt, rule)
+	res, warnings, err := compareLayer(lay, &c, opt, spec)
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
 	if err != nil {
 		return err
 	}
-	return emitCompare(res, &c, stdout, stderr, []string{c.input})
+	return emitCompare(res, &c, stdout, stderr, []string{c.input, c.weights.file})
 }
 
 // readLayer reads a GeoJSON layer from a path, or from stdin for "-".
@@ -147,41 +156,43 @@ func readLayer(path string, stdin io.Reader, opt geojson.Options) (*layer.Layer,
 
 // compareLayer pulls the named columns out of the layer, builds the
 // neighbour graph and runs the comparison.
-func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, rule weights.Contiguity) (*compare.Result, error) {
+func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec) (*compare.Result, []string, error) {
 	outcome, err := lay.Column(c.outcome)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	if outcome.Kind != layer.Number {
-		return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
+		return nil, nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
 			lay.Source, c.outcome, firstValue(outcome), firstID(lay, outcome))
 	}
 	group, err := lay.Column(c.group)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	if c.group == c.outcome {
-		return nil, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+		return nil, nil, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
 	}
 	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
 		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
 	if c.strata != "" {
 		strata, err := lay.Column(c.strata)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		in.StrataName, in.Strata, in.StrataMissing = c.strata, labels(strata), strata.Missing
 	}
-	if in.Graph, err = weights.ContiguityGraph(lay.Geoms, rule); err != nil {
-		return nil, err
+	var warnings []string
+	if in.Graph, warnings, err = c.weights.graph(lay, spec); err != nil {
+		return nil, warnings, err
 	}
+	in.Transform, in.KeepIslands = c.transform, c.keepIslands
 	res, err := compare.Run(in, opt)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %v", lay.Source, err)
+		return nil, warnings, fmt.Errorf("%s: %v", lay.Source, err)
 	}
 	res.Version = Version
 	res.Input.File = lay.Source
-	return res, nil
+	return res, warnings, nil
 }
 
 func labels(c *layer.Column) []string {

@@ -50,7 +50,7 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stderr, "wrote %s; try: areatest compare --input %s --outcome rate --group policy --strata province\n", path, path)
 		return nil
 	}
-	opt, rule, err := c.options()
+	opt, spec, err := c.options()
 	if err != nil {
 		return err
 	}
@@ -62,7 +62,10 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		warn(stderr, w)
 	}
 	c.outcome, c.group, c.strata = "rate", "policy", "province"
-	res, err := compareLayer(lay, &c, opt, rule)
+	res, warnings, err := compareLayer(lay, &c, opt, spec)
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
 	if err != nil {
 		return err
 	}

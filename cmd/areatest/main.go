@@ -34,6 +34,7 @@ Usage:
 
 Commands:
   compare   does an outcome differ between groups of areas beyond chance?
+  weights   build, inspect and export the neighbour graph of a layer
   demo      run compare on the built-in sample region (or write the sample out)
 
 Flags:
@@ -44,6 +45,7 @@ Examples:
   areatest demo
   areatest compare --input counties.geojson --outcome rate --group policy
   areatest compare -i counties.geojson -y rate -g policy --strata state --format json
+  areatest weights --input counties.geojson --contiguity rook --write edges.csv
 `
 
 func main() {
@@ -69,8 +71,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err = runCompare(args[1:], stdin, stdout, stderr)
 	case "demo":
 		err = runDemo(args[1:], stdout, stderr)
+	case "weights":
+		err = runWeights(args[1:], stdin, stdout, stderr)
 	default:
-		err = usagef("unknown command %q (commands: compare, demo; see areatest --help)", args[0])
+		err = usagef("unknown command %q (commands: compare, weights, demo; see areatest --help)", args[0])
 	}
 	var ue *usageError
 	switch {

@@ -1,0 +1,103 @@
+package weights
+
+import (
+	"errors"
+
+	"github.com/paulmach/orb"
+)
+
+// Spec says how to build a neighbour graph from a layer's geometry. Exactly
+// one rule applies: k nearest neighbours when KNN > 0, else a kernel when
+// Kernel is set, else inverse distance when IDWPower > 0 (within Band when
+// it is set), else a distance band when Band > 0, else contiguity.
+type Spec struct {
+	// Contiguity and its snapping tolerance (0: DefaultSnap).
+	Rule Contiguity
+	Snap float64
+	// KNN is the number of nearest neighbours; Symmetrise links i and j
+	// when either is among the other's nearest.
+	KNN        int
+	Symmetrise bool
+	// Band is a distance: the band of a binary distance graph, or the
+	// cut-off of inverse-distance weights.
+	Band float64
+	// IDWPower > 0 asks for weights 1/d^power.
+	IDWPower float64
+	// Kernel names a kernel ("triangular", "bisquare", "gaussian") with a
+	// fixed Bandwidth or, when AdaptiveK > 0, a bandwidth per area equal to
+	// the distance to its AdaptiveK-th nearest neighbour.
+	Kernel    string
+	Bandwidth float64
+	AdaptiveK int
+	// Points chooses the representative point of each area for the
+	// distance-based rules; Planar forces planar distances on a lon/lat
+	// layer.
+	Points PointMode
+	Planar bool
+	// Order > 1 replaces the graph by its neighbours of that order (all
+	// orders up to it when Cumulative).
+	Order      int
+	Cumulative bool
+}
+
+// PointBased reports whether the spec measures distances between points.
+func (s Spec) PointBased() bool {
+	return s.KNN > 0 || s.Kernel != "" || s.IDWPower > 0 || s.Band > 0
+}
+
+// Build makes the graph the spec describes for geoms, ids naming the areas
+// in messages. Warnings are returned for the caller to show.
+func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, error) {
+	if len(geoms) == 0 {
+		return nil, nil, errors.New("the layer has no areas")
+	}
+	var g *Graph
+	var warnings []string
+	var err error
+	if !s.PointBased() {
+		g, warnings, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids})
+		if err != nil {
+			return nil, warnings, err
+		}
+	} else {
+		pts, err := RepresentativePoints(geoms, s.Points)
+		if err != nil {
+			return nil, nil, err
+		}
+		metric := DetectMetric(geoms)
+		if s.Planar {
+			metric = Planar
+		}
+		switch {
+		case s.KNN > 0:
+			g, err = KNearest(pts, s.KNN, metric, s.Symmetrise)
+		case s.Kernel != "":
+			var kind KernelKind
+			if kind, err = ParseKernelKind(s.Kernel); err == nil {
+				g, err = Kernel(pts, kind, s.Bandwidth, s.AdaptiveK, metric)
+			}
+		case s.IDWPower > 0:
+			g, err = InverseDistance(pts, s.IDWPower, s.Band, metric)
+		default:
+			g, err = DistanceBand(pts, s.Band, metric)
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+	}
+	if s.Order > 1 {
+		if g, err = g.HigherOrder(s.Order, s.Cumulative); err != nil {
+			return nil, warnings, err
+		}
+	}
+	return g, warnings, nil
+}
+
+// Units names the distance units of the spec's rule for a layer: kilometres
+// on a lon/lat layer, the layer's own units otherwise.
+func (s Spec) Units(geoms []orb.MultiPolygon) string {
+	if !s.Planar && DetectMetric(geoms) == Geographic {
+		return "km"
+	}
+	return "layer units"
+}
