@@ -313,3 +313,75 @@ func TestDemoIslandsReported(t *testing.T) {
 		t.Fatalf("weights %+v", doc.Weights)
 	}
 }
+
+func TestWeightsCommand(t *testing.T) {
+	dir := t.TempDir()
+	if o := runCLI(t, "", "demo", "--write", dir); o.code != 0 {
+		t.Fatal(o.stderr)
+	}
+	layer := filepath.Join(dir, "region.geojson")
+	o := runCLI(t, "", "weights", "-i", layer)
+	if o.code != 0 || !strings.Contains(o.stdout, "queen contiguity") || !strings.Contains(o.stdout, "islands       2 (D047, D059)") {
+		t.Fatalf("summary: %d %s %s", o.code, o.stdout, o.stderr)
+	}
+	// Export the rook graph and read it back on compare: same result as
+	// building it there.
+	edges := filepath.Join(dir, "rook.csv")
+	if o := runCLI(t, "", "weights", "-i", layer, "--contiguity", "rook", "--write", edges, "--format", "json"); o.code != 0 {
+		t.Fatal(o.stderr)
+	}
+	built := runCLI(t, "", "compare", "-i", layer, "-y", "rate", "-g", "policy", "--contiguity", "rook", "-n", "499", "--format", "json")
+	read := runCLI(t, "", "compare", "-i", layer, "-y", "rate", "-g", "policy", "--weights", edges, "-n", "499", "--format", "json")
+	if built.code != 0 || read.code != 0 {
+		t.Fatalf("compare: %s %s", built.stderr, read.stderr)
+	}
+	type doc struct {
+		Autocorrelation struct {
+			Outcome struct {
+				MoransI float64 `json:"morans_i"`
+				PValue  float64 `json:"p_value"`
+			}
+		}
+		Weights struct{ Pairs int }
+	}
+	var a, b doc
+	json.Unmarshal([]byte(built.stdout), &a)
+	json.Unmarshal([]byte(read.stdout), &b)
+	if a.Autocorrelation != b.Autocorrelation || a.Weights.Pairs != b.Weights.Pairs || a.Weights.Pairs == 0 {
+		t.Fatalf("built %+v, read back %+v", a, b)
+	}
+	// k nearest neighbours on the command line.
+	o = runCLI(t, "", "weights", "-i", layer, "--knn", "5", "--format", "json")
+	var k struct {
+		Weights struct {
+			MinNeighbours int `json:"min_neighbours"`
+			Kind          string
+			Asymmetric    int
+		}
+	}
+	json.Unmarshal([]byte(o.stdout), &k)
+	if o.code != 0 || k.Weights.MinNeighbours != 5 || k.Weights.Kind != "5 nearest neighbours" {
+		t.Fatalf("knn: %d %+v %s", o.code, k, o.stderr)
+	}
+	// Usage errors: two rules, a kernel without bandwidth.
+	for _, args := range [][]string{
+		{"weights", "-i", layer, "--knn", "4", "--band", "10"},
+		{"weights", "-i", layer, "--kernel", "bisquare"},
+		{"weights", "-i", layer, "--islands", "maybe"},
+		{"weights", "-i", layer, "--transform", "cube"},
+	} {
+		if o := runCLI(t, "", args...); o.code != 2 {
+			t.Errorf("%v: exit %d, want 2", args[3:], o.code)
+		}
+	}
+	// Data errors: k too large, an edge list naming an unknown area.
+	if o := runCLI(t, "", "weights", "-i", layer, "--knn", "500"); o.code != 1 {
+		t.Errorf("--knn 500 on 200 areas: exit %d", o.code)
+	}
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("from,to,weight\nD001,NOWHERE,1\n"), 0o644)
+	o = runCLI(t, "", "compare", "-i", layer, "-y", "rate", "-g", "policy", "--weights", bad)
+	if o.code != 1 || !strings.Contains(o.stderr, "bad.csv: line 2") || !strings.Contains(o.stderr, "NOWHERE") {
+		t.Errorf("bad edge list: %d %q", o.code, o.stderr)
+	}
+}

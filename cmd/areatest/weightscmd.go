@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"io"
 
+	"github.com/paulmach/orb"
+
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/weights"
@@ -67,9 +69,8 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	for _, m := range warnings {
 		warn(stderr, m)
 	}
-	if w.changed("transform") || write == "" {
-		// The summary shows the weights as they will be written or used.
-	}
+	// The summary and the edge list show the weights as built, or after
+	// --transform when it is given.
 	shown := g
 	if w.changed("transform") {
 		if shown, err = g.Transformed(transform); err != nil {
@@ -77,7 +78,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		}
 	}
 	doc := &report.WeightsDocument{Version: Version, Input: lay.Source, Weights: weights.Summarise(shown, lay.IDs)}
-	doc.Settings = settings(&w, spec, lay)
+	doc.Settings = settings(&w, spec, lay.Geoms)
 	if write != "" {
 		if err := writeOutput(write, stdout, []string{input}, func(out io.Writer) error {
 			return weights.WriteEdgeList(out, shown, lay.IDs)
@@ -95,22 +96,30 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 }
 
 // settings describes the parameters of the rule in words.
-func settings(w *weightFlags, s weights.Spec, lay interface{ Len() int }) []string {
+func settings(w *weightFlags, s weights.Spec, geoms []orb.MultiPolygon) []string {
 	var out []string
 	if w.file != "" {
 		return []string{"read from " + w.file}
 	}
 	if !s.PointBased() {
-		if s.Snap > 0 {
-			out = append(out, fmt.Sprintf("snap %g (layer units)", s.Snap))
-		} else {
-			out = append(out, "snap: default for the coordinates")
+		snap, note := s.Snap, ""
+		if snap == 0 {
+			snap, note = weights.DefaultSnap(geoms), ", the default for these coordinates"
 		}
+		out = append(out, fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, unitsOf(geoms), note))
 	} else {
-		out = append(out, "distances between "+w.points+" points")
-		if s.Planar {
-			out = append(out, "planar distances (forced)")
+		metric := "great-circle distances in km"
+		if s.Planar || weights.DetectMetric(geoms) == weights.Planar {
+			metric = "planar distances in layer units"
 		}
+		out = append(out, metric+" between "+w.points+" points of the areas")
 	}
 	return out
+}
+
+func unitsOf(geoms []orb.MultiPolygon) string {
+	if weights.DetectMetric(geoms) == weights.Geographic {
+		return "degrees"
+	}
+	return "layer units"
 }

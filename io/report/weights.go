@@ -34,18 +34,22 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	row("links", fmt.Sprintf("%s neighbour pairs (%s directed links)", Count(s.Pairs), Count(s.Links)))
 	if s.Areas > 0 {
 		row("neighbours", fmt.Sprintf("mean %.2f, fewest %d%s, most %d%s", s.MeanNeighbours,
-			s.MinNeighbours, idList(s.FewestIDs, 4), s.MaxNeighbours, idList(s.MostIDs, 4)))
+			s.MinNeighbours, idListOf(first(s.FewestIDs, 4), s.Histogram[s.MinNeighbours]),
+			s.MaxNeighbours, idListOf(first(s.MostIDs, 4), s.Histogram[s.MaxNeighbours])))
 	}
 	islands := Count(s.Islands)
 	if s.Islands > 0 {
 		islands += idListOf(s.IslandIDs, s.Islands)
 	}
 	row("islands", islands)
+	linkedGroups := s.Components - s.Islands
 	switch {
-	case s.Components <= 1:
+	case linkedGroups <= 1 && s.Islands == 0:
 		row("connected", "yes, one group of linked areas")
+	case linkedGroups <= 1:
+		row("connected", "yes, apart from the islands")
 	default:
-		row("connected", fmt.Sprintf("no: %d groups, sizes %s", s.Components, sizeList(s.ComponentSizes)))
+		row("connected", fmt.Sprintf("no: %d separate groups of linked areas, sizes %s", linkedGroups, sizeList(s.ComponentSizes[:linkedGroups])))
 	}
 	if s.Asymmetric > 0 {
 		row("asymmetric", fmt.Sprintf("%s links have no link back", Count(s.Asymmetric)))
@@ -77,6 +81,13 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+func first(ids []string, n int) []string {
+	if len(ids) > n {
+		return ids[:n]
+	}
+	return ids
 }
 
 // idListOf lists ids, saying how many more there are beyond the listed ones.
