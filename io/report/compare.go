@@ -120,12 +120,7 @@ func permutationsAsked(r *compare.Result) int {
 }
 
 // areas writes "1 area" or "12 areas".
-func areas(n int) string {
-	if n == 1 {
-		return "1 area"
-	}
-	return Count(n) + " areas"
-}
+func areas(n int) string { return plural(n, "area", "areas") }
 
 func idList(ids []string, max int) string {
 	if len(ids) == 0 {

@@ -100,3 +100,11 @@ func Count(n int) string {
 	}
 	return string(out)
 }
+
+// plural writes a count with the singular or plural noun.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return Count(n) + " " + many
+}

@@ -31,7 +31,7 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	}
 	row("weights", s.Transform)
 	row("areas", Count(s.Areas))
-	row("links", fmt.Sprintf("%s neighbour pairs (%s directed links)", Count(s.Pairs), Count(s.Links)))
+	row("links", fmt.Sprintf("%s (%s directed links)", plural(s.Pairs, "neighbour pair", "neighbour pairs"), Count(s.Links)))
 	if s.Areas > 0 {
 		row("neighbours", fmt.Sprintf("mean %.2f, fewest %d%s, most %d%s", s.MeanNeighbours,
 			s.MinNeighbours, idListOf(first(s.FewestIDs, 4), s.Histogram[s.MinNeighbours]),
