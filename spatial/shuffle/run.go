@@ -84,24 +84,65 @@ type Result struct {
 
 // Run carries out the test planned in p on the statistic made by f.
 func Run(p Plan, f Factory) (Result, error) {
+	many := func() ManyEvaluator {
+		eval := f()
+		return func(labels []int32, out []float64) { out[0] = eval(labels) }
+	}
+	res, err := RunMany(p, []Statistic{{Alternative: p.Alternative, Scale: p.Scale}}, many)
+	if err != nil {
+		return Result{}, err
+	}
+	return res[0], nil
+}
+
+// ManyEvaluator computes several statistics for one arrangement, writing
+// them into out (one slot per statistic). Like Evaluator it must not keep or
+// modify labels.
+type ManyEvaluator func(labels []int32, out []float64)
+
+// ManyFactory makes one ManyEvaluator per worker goroutine.
+type ManyFactory func() ManyEvaluator
+
+// Statistic gives the direction and the scale (see Plan.Scale) of one of
+// the statistics that RunMany tests together.
+type Statistic struct {
+	Alternative Alternative
+	Scale       float64
+}
+
+// RunMany tests several statistics on the same arrangements: every
+// statistic sees every draw, so the cost of shuffling is paid once. Each
+// statistic gets its own Result, as if tested alone with these draws;
+// Plan.Alternative and Plan.Scale are ignored in favour of stats.
+func RunMany(p Plan, stats []Statistic, f ManyFactory) ([]Result, error) {
 	n := len(p.Labels)
+	k := len(stats)
 	if n < 2 {
-		return Result{}, errors.New("shuffle: need at least two units")
+		return nil, errors.New("shuffle: need at least two units")
+	}
+	if k == 0 {
+		return nil, errors.New("shuffle: no statistic to test")
 	}
 	if p.Strata != nil && len(p.Strata) != n {
-		return Result{}, fmt.Errorf("shuffle: %d strata for %d units", len(p.Strata), n)
+		return nil, fmt.Errorf("shuffle: %d strata for %d units", len(p.Strata), n)
 	}
 	groups := strataMembers(n, p.Strata)
-	scale := p.Scale
-	if !(scale > 0) {
-		scale = 1
+	observed := make([]float64, k)
+	f()(p.Labels, observed)
+	c := comparison{observed: observed, tol: make([]float64, k)}
+	res := make([]Result, k)
+	for s, st := range stats {
+		v := observed[s]
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("shuffle: the observed statistic is %v", v)
+		}
+		scale := st.Scale
+		if !(scale > 0) {
+			scale = 1
+		}
+		c.tol[s] = 1e-9 * math.Max(math.Abs(v), scale)
+		res[s] = Result{Scheme: p.Scheme, Alternative: st.Alternative.String(), Observed: v}
 	}
-	observed := f()(p.Labels)
-	if math.IsNaN(observed) || math.IsInf(observed, 0) {
-		return Result{}, fmt.Errorf("shuffle: the observed statistic is %v", observed)
-	}
-	tol := 1e-9 * math.Max(math.Abs(observed), scale)
-	res := Result{Scheme: p.Scheme, Alternative: p.Alternative.String(), Observed: observed}
 
 	limit := p.ExactLimit
 	if limit == 0 {
@@ -109,15 +150,27 @@ func Run(p Plan, f Factory) (Result, error) {
 	}
 	if limit > 0 {
 		if count, ok := arrangements(p.Labels, groups, limit); ok {
-			enumerate(p, groups, f, observed, tol, count, &res)
+			enumerate(p, groups, f, c, count, stats, res)
 			return res, nil
 		}
 	}
 	if p.Permutations < 1 {
-		return Result{}, errors.New("shuffle: the number of permutations must be at least 1")
+		return nil, errors.New("shuffle: the number of permutations must be at least 1")
 	}
-	sample(p, groups, f, observed, tol, &res)
+	sample(p, groups, f, c, stats, res)
 	return res, nil
+}
+
+// comparison holds the observed values and their tie tolerances.
+type comparison struct {
+	observed, tol []float64
+}
+
+// add counts one arrangement's values into the tallies (one per statistic).
+func (c comparison) add(ts []tally, vals []float64) {
+	for s, v := range vals {
+		ts[s].add(v, c.observed[s], c.tol[s])
+	}
 }
 
 // strataMembers lists the units of each stratum, in unit order; with no
@@ -238,37 +291,43 @@ func finishMoments(res *Result, t tally, count int) {
 // enumerate evaluates every distinct arrangement once, stepping each
 // stratum through the lexicographic permutations of its labels like the
 // wheels of an odometer.
-func enumerate(p Plan, groups [][]int32, f Factory, observed, tol float64, count int, res *Result) {
+func enumerate(p Plan, groups [][]int32, f ManyFactory, c comparison, count int, stats []Statistic, res []Result) {
+	k := len(stats)
 	labels := append([]int32(nil), p.Labels...)
 	subs := make([][]int32, len(groups))
 	for g, members := range groups {
 		sub := make([]int32, len(members))
-		for k, u := range members {
-			sub[k] = labels[u]
+		for j, u := range members {
+			sub[j] = labels[u]
 		}
 		sort.Slice(sub, func(a, b int) bool { return sub[a] < sub[b] })
 		subs[g] = sub
-		for k, u := range members {
-			labels[u] = sub[k]
+		for j, u := range members {
+			labels[u] = sub[j]
 		}
 	}
 	eval := f()
-	var t tally
-	var null []float64
+	ts := make([]tally, k)
+	vals := make([]float64, k)
+	nulls := make([][]float64, k)
 	if p.KeepNull {
-		null = make([]float64, 0, count)
+		for s := range nulls {
+			nulls[s] = make([]float64, 0, count)
+		}
 	}
 	for {
-		v := eval(labels)
-		t.add(v, observed, tol)
+		eval(labels, vals)
+		c.add(ts, vals)
 		if p.KeepNull {
-			null = append(null, v)
+			for s, v := range vals {
+				nulls[s] = append(nulls[s], v)
+			}
 		}
 		g := 0
 		for ; g < len(groups); g++ {
 			more := nextPermutation(subs[g])
-			for k, u := range groups[g] {
-				labels[u] = subs[g][k]
+			for j, u := range groups[g] {
+				labels[u] = subs[g][j]
 			}
 			if more {
 				break
@@ -278,14 +337,17 @@ func enumerate(p Plan, groups [][]int32, f Factory, observed, tol float64, count
 			break
 		}
 	}
-	res.Exact = true
-	res.Permutations = count
-	res.Null = null
-	finishMoments(res, t, count)
-	pg := float64(t.atLeast) / float64(count)
-	pl := float64(t.atMost) / float64(count)
-	res.PValue = combine(p.Alternative, pg, pl)
-	res.Interval = [2]float64{res.PValue, res.PValue}
+	for s := range res {
+		r := &res[s]
+		r.Exact = true
+		r.Permutations = count
+		r.Null = nulls[s]
+		finishMoments(r, ts[s], count)
+		pg := float64(ts[s].atLeast) / float64(count)
+		pl := float64(ts[s].atMost) / float64(count)
+		r.PValue = combine(stats[s].Alternative, pg, pl)
+		r.Interval = [2]float64{r.PValue, r.PValue}
+	}
 }
 
 // nextPermutation rearranges s into the next lexicographic permutation and
@@ -316,8 +378,9 @@ func reverse(s []int32) {
 
 // sample draws p.Permutations random arrangements in fixed blocks, each block
 // with its own stream, spread over the workers.
-func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Result) {
+func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Statistic, res []Result) {
 	B := p.Permutations
+	k := len(stats)
 	blocks := (B + BlockSize - 1) / BlockSize
 	workers := p.Workers
 	if workers <= 0 {
@@ -326,10 +389,13 @@ func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Res
 	if workers > blocks {
 		workers = blocks
 	}
-	tallies := make([]tally, blocks)
-	var null []float64
+	tallies := make([]tally, blocks*k) // block b, statistic s at b*k+s
+	var nulls [][]float64
 	if p.KeepNull {
-		null = make([]float64, B)
+		nulls = make([][]float64, k)
+		for s := range nulls {
+			nulls[s] = make([]float64, B)
+		}
 	}
 	next := make(chan int, blocks)
 	for b := 0; b < blocks; b++ {
@@ -343,6 +409,7 @@ func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Res
 			defer wg.Done()
 			eval := f()
 			labels := make([]int32, len(p.Labels))
+			vals := make([]float64, k)
 			var rng Stream
 			for b := range next {
 				// Every block starts from the observed arrangement, so its
@@ -350,42 +417,48 @@ func sample(p Plan, groups [][]int32, f Factory, observed, tol float64, res *Res
 				copy(labels, p.Labels)
 				rng.Reset(p.Seed, p.Purpose, b)
 				lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-				var t tally
+				ts := tallies[b*k : (b+1)*k]
 				for d := lo; d < hi; d++ {
 					shuffleGroups(&rng, labels, groups)
-					v := eval(labels)
-					t.add(v, observed, tol)
-					if null != nil {
-						null[d] = v
+					eval(labels, vals)
+					c.add(ts, vals)
+					if nulls != nil {
+						for s, v := range vals {
+							nulls[s][d] = v
+						}
 					}
 				}
-				tallies[b] = t
 			}
 		}()
 	}
 	wg.Wait()
-	var t tally
-	for _, bt := range tallies { // block order, so float sums do not depend on scheduling
-		t.merge(bt)
-	}
-	res.Permutations = B
-	res.Null = null
-	finishMoments(res, t, B)
-	pg := float64(1+t.atLeast) / float64(1+B)
-	pl := float64(1+t.atMost) / float64(1+B)
-	res.PValue = combine(p.Alternative, pg, pl)
-	loG, hiG := ClopperPearson(t.atLeast, B, 0.95)
-	loL, hiL := ClopperPearson(t.atMost, B, 0.95)
-	switch p.Alternative {
-	case Greater:
-		res.Interval = [2]float64{loG, hiG}
-	case Less:
-		res.Interval = [2]float64{loL, hiL}
-	default:
-		if pg <= pl {
-			res.Interval = [2]float64{math.Min(1, 2*loG), math.Min(1, 2*hiG)}
-		} else {
-			res.Interval = [2]float64{math.Min(1, 2*loL), math.Min(1, 2*hiL)}
+	for s := range res {
+		var t tally
+		for b := 0; b < blocks; b++ { // block order, so float sums do not depend on scheduling
+			t.merge(tallies[b*k+s])
+		}
+		r := &res[s]
+		r.Permutations = B
+		if nulls != nil {
+			r.Null = nulls[s]
+		}
+		finishMoments(r, t, B)
+		pg := float64(1+t.atLeast) / float64(1+B)
+		pl := float64(1+t.atMost) / float64(1+B)
+		r.PValue = combine(stats[s].Alternative, pg, pl)
+		loG, hiG := ClopperPearson(t.atLeast, B, 0.95)
+		loL, hiL := ClopperPearson(t.atMost, B, 0.95)
+		switch stats[s].Alternative {
+		case Greater:
+			r.Interval = [2]float64{loG, hiG}
+		case Less:
+			r.Interval = [2]float64{loL, hiL}
+		default:
+			if pg <= pl {
+				r.Interval = [2]float64{math.Min(1, 2*loG), math.Min(1, 2*hiG)}
+			} else {
+				r.Interval = [2]float64{math.Min(1, 2*loL), math.Min(1, 2*hiL)}
+			}
 		}
 	}
 }

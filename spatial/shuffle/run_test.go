@@ -258,3 +258,49 @@ func TestRunRejectsBadPlans(t *testing.T) {
 		t.Error("zero permutations accepted")
 	}
 }
+
+// RunMany gives each statistic exactly the result Run gives it alone with the
+// same plan: the draws are shared, not changed.
+func TestRunManyMatchesRun(t *testing.T) {
+	labels := make([]int32, 40)
+	y := make([]float64, 40)
+	for i := range labels {
+		labels[i] = int32(i % 2)
+		y[i] = math.Cos(float64(i) * 1.7)
+	}
+	sumA := func(lab []int32) float64 {
+		var s float64
+		for i, l := range lab {
+			if l == 0 {
+				s += y[i]
+			}
+		}
+		return s
+	}
+	firstHalf := func(lab []int32) float64 {
+		var s float64
+		for _, l := range lab[:20] {
+			s += float64(l)
+		}
+		return s
+	}
+	plan := Plan{Labels: labels, Permutations: 1777, ExactLimit: -1, Seed: 9, Workers: 3, KeepNull: true}
+	many, err := RunMany(plan, []Statistic{{Alternative: Greater}, {Alternative: TwoSided, Scale: 1}},
+		func() ManyEvaluator {
+			return func(lab []int32, out []float64) { out[0], out[1] = sumA(lab), firstHalf(lab) }
+		})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, f := range []func([]int32) float64{sumA, firstHalf} {
+		p := plan
+		p.Alternative = []Alternative{Greater, TwoSided}[k]
+		single, err := Run(p, func() Evaluator { return f })
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(single, many[k]) {
+			t.Errorf("statistic %d: RunMany %+v, Run %+v", k, many[k].PValue, single.PValue)
+		}
+	}
+}
