@@ -101,3 +101,44 @@ func (s Spec) Units(geoms []orb.MultiPolygon) string {
 	}
 	return "layer units"
 }
+
+// Restricted is a graph cut down to the areas a statistic uses.
+type Restricted struct {
+	// Graph links the used areas, with the transform applied.
+	Graph *Graph
+	// Binary is the same links before the transform.
+	Binary *Graph
+	// Used[k] is the index, among the areas passed to Restrict, of area k
+	// of Graph.
+	Used []int
+	// Summary describes the graph among all the areas passed (islands
+	// included), with the transform the statistic uses.
+	Summary Summary
+}
+
+// Restrict cuts g down to the areas keep (indices into g), as every
+// statistic does after leaving out areas without data. Areas that have no
+// neighbour among the kept ones are left out too (the tool-wide islands
+// policy) unless keepIslands, in which case they stay with a spatial lag of
+// zero. ids name g's areas.
+func Restrict(g *Graph, keep []int, ids []string, t Transform, keepIslands bool) (*Restricted, error) {
+	sub := g.Subset(keep)
+	kept := make([]string, len(keep))
+	for k, i := range keep {
+		kept[k] = ids[i]
+	}
+	if t == "" {
+		t = RowStandardised
+	}
+	r := &Restricted{Summary: Summarise(sub, kept)}
+	r.Summary.Transform = string(t)
+	for k := 0; k < sub.Len(); k++ {
+		if sub.Degree(k) > 0 || keepIslands {
+			r.Used = append(r.Used, k)
+		}
+	}
+	r.Binary = sub.Subset(r.Used)
+	var err error
+	r.Graph, err = r.Binary.Transformed(t)
+	return r, err
+}

@@ -334,33 +334,18 @@ func mixedStrata(strata, labels []int32) int {
 // for. Areas with no neighbour there are left out (their spatial lag is
 // undefined) unless the input keeps them, with a zero lag.
 func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float64, lab []int32, res *Result) error {
-	sub := in.Graph.Subset(keep)
-	ids := make([]string, len(keep))
-	for k, i := range keep {
-		ids[k] = in.IDs[i]
-	}
-	transform := in.Transform
-	if transform == "" {
-		transform = weights.RowStandardised
-	}
-	res.Weights = weights.Summarise(sub, ids)
-	res.Weights.Transform = string(transform)
-	res.Warnings = append(res.Warnings, res.Weights.Warnings...)
-	res.Autocorrelation.Alpha = opt.Alpha
-	var linked []int
-	for k := 0; k < sub.Len(); k++ {
-		if sub.Degree(k) > 0 || in.KeepIslands {
-			linked = append(linked, k)
-		}
-	}
-	if sub.Len()-res.Weights.Islands < 3 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", sub.Len()-res.Weights.Islands))
-		return nil
-	}
-	g, err := sub.Subset(linked).Transformed(transform)
+	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Transform, in.KeepIslands)
 	if err != nil {
 		return err
 	}
+	res.Weights = r.Summary
+	res.Warnings = append(res.Warnings, res.Weights.Warnings...)
+	res.Autocorrelation.Alpha = opt.Alpha
+	if linkedAreas := r.Summary.Areas - r.Summary.Islands; linkedAreas < 3 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", linkedAreas))
+		return nil
+	}
+	g, linked := r.Graph, r.Used
 	plan := shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
 		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided}
 	ys := make([]float64, len(linked))
