@@ -385,3 +385,56 @@ func TestWeightsCommand(t *testing.T) {
 		t.Errorf("bad edge list: %d %q", o.code, o.stderr)
 	}
 }
+
+func TestAutocorrAndScreenCommands(t *testing.T) {
+	dir := t.TempDir()
+	runCLI(t, "", "demo", "--write", dir)
+	layer := filepath.Join(dir, "region.geojson")
+	o := runCLI(t, "", "autocorr", "-i", layer, "--variables", "rate,urban", "--events", "cases", "--population", "population", "--lags", "2", "-n", "199")
+	if o.code != 0 {
+		t.Fatalf("autocorr: %s", o.stderr)
+	}
+	for _, want := range []string{"Moran's I", "Geary's C", "General G", "join counts", "EB scores", "order 2", "ecological fallacy"} {
+		if !strings.Contains(o.stdout, want) {
+			t.Errorf("autocorr report lacks %q", want)
+		}
+	}
+	a := runCLI(t, "", "screen", "-i", layer, "--format", "json", "--workers", "1", "-n", "999")
+	b := runCLI(t, "", "screen", "-i", layer, "--format", "json", "--workers", "4", "-n", "999")
+	if a.code != 0 || a.stdout != b.stdout {
+		t.Fatalf("screen differs across workers or failed: %s", a.stderr)
+	}
+	var doc struct {
+		Columns []struct {
+			Column string
+			Rank   int
+		}
+		Skipped []struct{ Column, Reason string }
+	}
+	if err := json.Unmarshal([]byte(a.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Columns) != 4 || doc.Columns[0].Rank != 1 || len(doc.Skipped) != 4 {
+		t.Fatalf("screen: %+v", doc)
+	}
+	csvOut := runCLI(t, "", "screen", "-i", layer, "--format", "csv", "-n", "99", "--exclude", "cases")
+	if csvOut.code != 0 || !strings.HasPrefix(csvOut.stdout, "rank,column,areas") || strings.Contains(csvOut.stdout, ",cases,") {
+		t.Fatalf("screen csv: %s %s", csvOut.stdout, csvOut.stderr)
+	}
+	for _, c := range []struct {
+		code int
+		args []string
+	}{
+		{2, []string{"autocorr", "-i", layer}},
+		{2, []string{"autocorr", "-i", layer, "--events", "cases"}},
+		{2, []string{"screen", "-i", layer, "--adjust", "sidak"}},
+		{2, []string{"screen", "-i", layer, "--format", "xml"}},
+		{1, []string{"autocorr", "-i", layer, "--variables", "nosuch"}},
+		{1, []string{"autocorr", "-i", layer, "--events", "name", "--population", "population"}},
+		{1, []string{"screen", "-i", layer, "--exclude", "nosuch"}},
+	} {
+		if o := runCLI(t, "", c.args...); o.code != c.code {
+			t.Errorf("%v: exit %d, want %d (%s)", c.args[2:], o.code, c.code, o.stderr)
+		}
+	}
+}

@@ -34,6 +34,8 @@ Usage:
 
 Commands:
   compare   does an outcome differ between groups of areas beyond chance?
+  autocorr  does a variable cluster in space, and how strongly?
+  screen    which attributes of a layer cluster? every numeric column, ranked
   weights   build, inspect and export the neighbour graph of a layer
   demo      run compare on the built-in sample region (or write the sample out)
 
@@ -45,6 +47,8 @@ Examples:
   areatest demo
   areatest compare --input counties.geojson --outcome rate --group policy
   areatest compare -i counties.geojson -y rate -g policy --strata state --format json
+  areatest screen --input counties.geojson
+  areatest autocorr --input counties.geojson --variables rate,income --lags 3
   areatest weights --input counties.geojson --contiguity rook --write edges.csv
 `
 
@@ -73,8 +77,12 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err = runDemo(args[1:], stdout, stderr)
 	case "weights":
 		err = runWeights(args[1:], stdin, stdout, stderr)
+	case "autocorr":
+		err = runAutocorr(args[1:], stdin, stdout, stderr)
+	case "screen":
+		err = runScreen(args[1:], stdin, stdout, stderr)
 	default:
-		err = usagef("unknown command %q (commands: compare, weights, demo; see areatest --help)", args[0])
+		err = usagef("unknown command %q (commands: compare, autocorr, screen, weights, demo; see areatest --help)", args[0])
 	}
 	var ue *usageError
 	switch {

@@ -51,7 +51,8 @@ func PValue(p float64) string {
 	case math.IsNaN(p):
 		return "–"
 	case p == 0:
-		return "0"
+		// Only a normal approximation far in its tail gives exactly 0.
+		return "<1e-15"
 	case p < 0.0001:
 		return strconv.FormatFloat(p, 'e', 1, 64)
 	}

@@ -1,0 +1,84 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/report"
+	"github.com/areatest/areatest/spatial/clustering"
+	"github.com/areatest/areatest/spatial/shuffle"
+)
+
+const screenUsage = `areatest screen: which attributes of a layer cluster in space?
+
+The first command to run on a new layer. Every numeric column (not the ids,
+not constants; the report says which were skipped and why) gets Moran's I
+and Geary's C with permutation p-values, adjusted across columns for
+multiple testing, and the columns are ranked by Moran's I.
+
+Usage:
+  areatest screen --input FILE [flags]
+
+Examples:
+  areatest screen --input counties.geojson
+  areatest screen -i counties.geojson --exclude population,area --adjust holm
+  areatest screen -i counties.geojson --format csv -o screen.csv
+`
+
+func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	var c clusterFlags
+	var exclude []string
+	var adjust string
+	fs := newFlags("screen", screenUsage, stderr)
+	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
+	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
+	c.register(fs, "text, json or csv")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	method, err := shuffle.ParseMethod(adjust)
+	if err != nil {
+		return usagef("--adjust: %v", err)
+	}
+	lay, in, opt, err := c.prepare("screen", stdin, stderr, "text", "json", "csv")
+	if err != nil {
+		return err
+	}
+	opt.Adjust = method
+	known := map[string]bool{}
+	sin := clustering.ScreenInput{Input: in, IDColumn: lay.IDColumn, Excluded: exclude}
+	for _, col := range lay.Columns {
+		known[col.Name] = true
+		if col.Kind == layer.Number {
+			sin.Numeric = append(sin.Numeric, clustering.Column{Name: col.Name, Values: col.Num, Missing: col.Missing})
+		} else {
+			sin.Text = append(sin.Text, col.Name)
+		}
+	}
+	for _, e := range exclude {
+		if !known[e] {
+			_, err := lay.Column(e)
+			return fmt.Errorf("--exclude: %v", err)
+		}
+	}
+	res, err := clustering.Screen(sin, opt)
+	if err != nil {
+		return err
+	}
+	res.Version = Version
+	if c.format != "text" {
+		for _, w := range res.Warnings {
+			warn(stderr, w)
+		}
+	}
+	return writeOutput(c.output, stdout, []string{c.input, c.weights.file}, func(w io.Writer) error {
+		switch c.format {
+		case "json":
+			return report.JSON(w, res)
+		case "csv":
+			return report.ScreenCSV(w, res)
+		}
+		return report.ScreenText(w, res)
+	})
+}

@@ -1,0 +1,193 @@
+package report
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/areatest/areatest/spatial/clustering"
+)
+
+// AutocorrText writes the plain text report of `areatest autocorr`.
+func AutocorrText(w io.Writer, r *clustering.Result) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "areatest %s: do these variables cluster in space?\n\n", r.Version)
+	fmt.Fprintf(&b, "  input      %s, %s areas\n", r.Input, Count(r.Areas))
+	fmt.Fprintf(&b, "  weights    %s, %s; %s, %s without neighbours%s\n\n", r.Weights.Kind, r.Weights.Transform,
+		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
+	head := func() {
+		fmt.Fprintf(&b, "  %-12s %9s %9s %9s %10s %10s %10s\n", "", "value", "expected", "z", "p normal", "p random", "p shuffle")
+	}
+	line := func(name string, s clustering.Statistic, withNormal bool) {
+		pn := "–"
+		if withNormal {
+			pn = PValue(s.PNormality)
+		}
+		fmt.Fprintf(&b, "  %-12s %9s %9s %9s %10s %10s %10s\n", name, Number(s.Value), Number(s.Expected),
+			Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
+	}
+	for _, v := range r.Variables {
+		fmt.Fprintf(&b, "%s (%s areas", v.Name, Count(v.Areas))
+		if v.Missing > 0 {
+			fmt.Fprintf(&b, ", %s without a value", Count(v.Missing))
+		}
+		if v.Islands > 0 {
+			fmt.Fprintf(&b, ", %s left out without neighbours", Count(v.Islands))
+		}
+		b.WriteString(")\n")
+		head()
+		line("Moran's I", v.MoransI, true)
+		line("Geary's C", v.GearysC, true)
+		if v.GeneralG != nil {
+			line("General G", *v.GeneralG, false)
+		}
+		if v.Bivariate != nil {
+			line("bivariate I", v.Bivariate.Statistic, false)
+		}
+		side := "maximum"
+		if v.MoransI.Value < v.MoransI.Expected {
+			side = "minimum"
+		}
+		b.WriteString(Wrap(fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
+			Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share(v.MoransI.Value, v.MoransI.Expected, v.Bounds.Max, v.Bounds.Min), side), width, "  ", "  "))
+		if v.GeneralGSkipped != "" {
+			b.WriteString(Wrap("General G skipped: "+v.GeneralGSkipped+".", width, "  ", "  "))
+		}
+		if len(v.Correlogram) > 0 {
+			fmt.Fprintf(&b, "  correlogram %9s %9s %9s %10s\n", "pairs", "Moran's I", "expected", "p shuffle")
+			for _, l := range v.Correlogram {
+				fmt.Fprintf(&b, "  order %-5d %9s %9.3f %9.3f %10s\n", l.Order, Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
+			}
+		}
+		b.WriteString("\n")
+	}
+	for _, j := range r.Joins {
+		fmt.Fprintf(&b, "%s: join counts (%s areas, %s joins", j.Name, Count(j.Areas), Count(j.Test.Joins))
+		if j.Missing > 0 {
+			fmt.Fprintf(&b, ", %s without a value", Count(j.Missing))
+		}
+		b.WriteString(")\n")
+		fmt.Fprintf(&b, "  %-22s %7s %7s %10s %8s %10s\n", "joins", "areas", "count", "expected", "z", "p shuffle")
+		for _, s := range j.Test.Same {
+			fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", truncate("both "+j.Levels[s.Category], 22), Count(s.Areas), Count(s.Joins), s.Expected, s.Z, PValue(s.Permutation.PValue))
+		}
+		d := j.Test.Different
+		fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
+		b.WriteString("  Clustering shows as more same-category joins and fewer different-category joins than expected.\n\n")
+	}
+	if rt := r.Rate; rt != nil {
+		fmt.Fprintf(&b, "rate %s per %s (%s areas, overall rate %s", rt.Events, rt.Population, Count(rt.Areas), Number(rt.MeanRate))
+		if rt.Missing > 0 {
+			fmt.Fprintf(&b, ", %s without counts", Count(rt.Missing))
+		}
+		b.WriteString(")\n")
+		head()
+		line("raw rate", rt.Raw, true)
+		line("EB scores", rt.EB, true)
+		b.WriteString(Wrap(fmt.Sprintf("The empirical-Bayes (EB) Moran's I (Assunção & Reis 1999) weighs each area's rate by how much its population lets it be trusted; populations here range from %s to %s. When the two disagree, trust the EB value.", Number(rt.Smallest), Number(rt.Largest)), width, "  ", "  "))
+		if len(rt.Floored) > 0 {
+			b.WriteString(Wrap(fmt.Sprintf("%d area(s) had a negative estimated variance and used the Poisson part alone: %s.", len(rt.Floored), strings.Join(first(rt.Floored, 8), ", ")), width, "  ", "  "))
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString(Wrap("z is under randomisation; \"p normal\" and \"p random\" are the normal approximations under the normality and randomisation hypotheses (Cliff & Ord 1981), \"p shuffle\" the permutation p-value (1 + b)/(1 + B). Geary's C below 1 and Moran's I above its expected value mean neighbours are alike.", width, "  ", "  "))
+	b.WriteString("\n")
+	writeWarnings(&b, r.Warnings)
+	writeCautions(&b, r.Cautions)
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per test · areatest %s\n", r.Seed, Count(shuffles(r)), r.Version)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func shuffles(r *clustering.Result) int {
+	for _, v := range r.Variables {
+		return v.MoransI.Permutation.Permutations
+	}
+	if r.Rate != nil {
+		return r.Rate.Raw.Permutation.Permutations
+	}
+	for _, j := range r.Joins {
+		return j.Test.Different.Permutation.Permutations
+	}
+	return 0
+}
+
+// share is how far v lies from the expected value towards the bound on its
+// side, as a fraction.
+func share(v, expected, max, min float64) float64 {
+	if v >= expected {
+		if max == expected {
+			return 0
+		}
+		return (v - expected) / (max - expected)
+	}
+	if min == expected {
+		return 0
+	}
+	return -(v - expected) / (min - expected)
+}
+
+func writeWarnings(b *strings.Builder, warnings []string) {
+	if len(warnings) == 0 {
+		return
+	}
+	b.WriteString("Warnings\n")
+	for _, wn := range warnings {
+		b.WriteString(Wrap(wn, width, "  ! ", "    "))
+	}
+	b.WriteString("\n")
+}
+
+func writeCautions(b *strings.Builder, cautions []string) {
+	b.WriteString("Keep in mind\n")
+	for _, c := range cautions {
+		b.WriteString(Wrap(c, width, "  - ", "    "))
+	}
+}
+
+// ScreenText writes the ranked table of `areatest screen`.
+func ScreenText(w io.Writer, r *clustering.ScreenResult) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "areatest %s: which columns of %s cluster in space?\n\n", r.Version, r.Input)
+	fmt.Fprintf(&b, "  %s areas; %s, %s; %s, %s without neighbours\n", Count(r.Areas), r.Weights.Kind, r.Weights.Transform,
+		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), Count(r.Weights.Islands))
+	fmt.Fprintf(&b, "  %s shuffles per column; p-values %s, adjusted across %s by %s\n\n", Count(r.Permutations), r.Alternative,
+		plural(len(r.Rows), "column", "columns"), r.Adjustment)
+	fmt.Fprintf(&b, "  %4s  %-22s %7s %9s %7s %9s %9s %9s %9s\n", "rank", "column", "areas", "Moran's I", "z", "p", "adjusted", "Geary's C", "adjusted")
+	for _, row := range r.Rows {
+		fmt.Fprintf(&b, "  %4d  %-22s %7s %9.3f %7.2f %9s %9s %9.3f %9s\n", row.Rank, truncate(row.Name, 22), Count(row.Areas),
+			row.MoransI, row.MoranZ, PValue(row.MoranP), PValue(row.MoranPAdjusted), row.GearysC, PValue(row.GearyPAdjusted))
+	}
+	b.WriteString("\n")
+	if len(r.Skipped) > 0 {
+		b.WriteString("Not screened\n")
+		for _, s := range r.Skipped {
+			b.WriteString(Wrap(s.Name+": "+s.Reason, width, "  - ", "    "))
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString(Wrap("A small adjusted p-value says the column clusters more than a random arrangement of its values would; Moran's I says how strongly. The ranking is a screen, not a conclusion: look at the maps and the data before modelling.", width, "  ", "  "))
+	b.WriteString("\n")
+	writeWarnings(&b, r.Warnings)
+	writeCautions(&b, r.Cautions)
+	fmt.Fprintf(&b, "\nseed %d · areatest %s\n", r.Seed, r.Version)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// ScreenCSV writes one row per screened column, for spreadsheets.
+func ScreenCSV(w io.Writer, r *clustering.ScreenResult) error {
+	cw := csv.NewWriter(w)
+	cw.Write([]string{"rank", "column", "areas", "missing", "morans_i", "morans_i_z", "morans_i_p", "morans_i_p_adjusted",
+		"gearys_c", "gearys_c_p", "gearys_c_p_adjusted", "adjustment", "permutations", "seed", "weights", "version"})
+	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
+	for _, row := range r.Rows {
+		cw.Write([]string{strconv.Itoa(row.Rank), row.Name, strconv.Itoa(row.Areas), strconv.Itoa(row.Missing),
+			f(row.MoransI), f(row.MoranZ), f(row.MoranP), f(row.MoranPAdjusted), f(row.GearysC), f(row.GearyP), f(row.GearyPAdjusted),
+			r.Adjustment, strconv.Itoa(r.Permutations), strconv.FormatUint(r.Seed, 10), r.Weights.Kind + ", " + r.Weights.Transform, r.Version})
+	}
+	cw.Flush()
+	return cw.Error()
+}

@@ -1,0 +1,163 @@
+package clustering
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
+)
+
+// lattice is rook contiguity on an r×c grid, with ids "a0", "a1", ….
+func lattice(r, c int) (*weights.Graph, []string) {
+	var pairs [][2]int32
+	for i := 0; i < r; i++ {
+		for j := 0; j < c; j++ {
+			k := int32(i*c + j)
+			if j+1 < c {
+				pairs = append(pairs, [2]int32{k, k + 1})
+			}
+			if i+1 < r {
+				pairs = append(pairs, [2]int32{k, k + int32(c)})
+			}
+		}
+	}
+	g, _ := weights.FromLinks(r*c, pairs, "rook contiguity")
+	ids := make([]string, r*c)
+	for i := range ids {
+		ids[i] = "a" + string(rune('0'+i/100)) + string(rune('0'+i/10%10)) + string(rune('0'+i%10))
+	}
+	return g, ids
+}
+
+func column(name string, n int, f func(i int) float64) Column {
+	c := Column{Name: name, Values: make([]float64, n), Missing: make([]bool, n)}
+	for i := range c.Values {
+		c.Values[i] = f(i)
+	}
+	return c
+}
+
+var quick = Options{Permutations: 499, Seed: 3, Workers: 2}
+
+// Missing values shrink the layer the statistics see: Moran's I then equals
+// the one computed directly on the areas with values and the graph among
+// them (row-standardised after cutting, as documented).
+func TestAutocorrWithMissingValues(t *testing.T) {
+	g, ids := lattice(8, 8)
+	x := column("x", 64, func(i int) float64 { return 1 + float64(i/8) + 0.3*math.Sin(float64(i)*3) })
+	x.Missing[9], x.Missing[40] = true, true
+	res, err := Autocorr(Input{IDs: ids, Graph: g, Numeric: []Column{x}}, quick)
+	if err != nil {
+		t.Fatal(err)
+	}
+	v := res.Variables[0]
+	if v.Areas != 62 || v.Missing != 2 || v.Weights == nil {
+		t.Fatalf("areas %d missing %d", v.Areas, v.Missing)
+	}
+	var keep []int
+	var vals []float64
+	for i := 0; i < 64; i++ {
+		if !x.Missing[i] {
+			keep = append(keep, i)
+			vals = append(vals, x.Values[i])
+		}
+	}
+	want, _ := autocorr.MoransI(vals, g.Subset(keep).RowStandardised())
+	if math.Abs(v.MoransI.Value-want) > 1e-12 {
+		t.Fatalf("I %v, want %v", v.MoransI.Value, want)
+	}
+	wantC, _ := autocorr.GearysC(vals, g.Subset(keep).RowStandardised())
+	if math.Abs(v.GearysC.Value-wantC) > 1e-12 || v.GearysC.Value >= 1 {
+		t.Fatalf("C %v, want %v", v.GearysC.Value, wantC)
+	}
+	if v.MoransI.Value < v.Bounds.Min || v.MoransI.Value > v.Bounds.Max {
+		t.Fatalf("I %v outside its range %+v", v.MoransI.Value, v.Bounds)
+	}
+	if v.GeneralG == nil || v.GeneralGSkipped != "" {
+		t.Fatalf("General G skipped: %s", v.GeneralGSkipped)
+	}
+}
+
+func TestGeneralGSkippedForNegativeValues(t *testing.T) {
+	g, ids := lattice(5, 5)
+	x := column("x", 25, func(i int) float64 { return float64(i%5) - 2 })
+	res, err := Autocorr(Input{IDs: ids, Graph: g, Numeric: []Column{x}}, quick)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v := res.Variables[0]; v.GeneralG != nil || !strings.Contains(v.GeneralGSkipped, `10 negative value(s), the first in area "a000"`) {
+		t.Fatalf("General G on negative values: %+v %q", v.GeneralG, v.GeneralGSkipped)
+	}
+}
+
+func TestRateChecksNameAreas(t *testing.T) {
+	g, ids := lattice(4, 4)
+	ev := column("cases", 16, func(i int) float64 { return float64(i) })
+	pop := column("pop", 16, func(i int) float64 { return 1000 })
+	pop.Values[5] = 0
+	_, err := Autocorr(Input{IDs: ids, Graph: g, Events: &ev, Population: &pop}, quick)
+	if err == nil || !strings.Contains(err.Error(), `"a005"`) || !strings.Contains(err.Error(), "pop") {
+		t.Fatalf("zero population: %v", err)
+	}
+}
+
+func TestScreen(t *testing.T) {
+	g, ids := lattice(10, 10)
+	n := 100
+	cols := []Column{
+		column("gradient", n, func(i int) float64 { return float64(i / 10) }),
+		column("noise", n, func(i int) float64 { return math.Sin(float64(i) * 12.9898) }),
+		column("constant", n, func(i int) float64 { return 7 }),
+		column("tract_id", n, func(i int) float64 { return float64(1000 + i) }),
+		column("gid", n, func(i int) float64 { return float64(i) }),
+		column("dropme", n, func(i int) float64 { return float64(i % 3) }),
+		column("patchy", n, func(i int) float64 { return float64(i%10) + float64(i/10) }),
+	}
+	cols[6].Missing[3] = true
+	in := ScreenInput{Input: Input{IDs: ids, Graph: g, Numeric: cols}, IDColumn: "gid", Text: []string{"name"}, Excluded: []string{"dropme"}}
+	opt := quick
+	opt.Adjust = shuffle.BenjaminiHochberg
+	res, err := Screen(in, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Rows) != 3 {
+		t.Fatalf("%d rows: %+v", len(res.Rows), res.Rows)
+	}
+	if res.Rows[0].Name != "gradient" || res.Rows[2].Name != "noise" || res.Rows[0].Rank != 1 {
+		t.Fatalf("ranking %v %v %v", res.Rows[0].Name, res.Rows[1].Name, res.Rows[2].Name)
+	}
+	reasons := map[string]string{}
+	for _, s := range res.Skipped {
+		reasons[s.Name] = s.Reason
+	}
+	for name, want := range map[string]string{"constant": "constant", "tract_id": "identifier", "gid": "ids", "dropme": "excluded", "name": "not numeric"} {
+		if !strings.Contains(reasons[name], want) {
+			t.Errorf("%s skipped for %q, want %q", name, reasons[name], want)
+		}
+	}
+	// The screen's values are the ordinary statistics, and its adjusted
+	// p-values are Benjamini–Hochberg of its raw ones.
+	var raw []float64
+	for _, r := range res.Rows {
+		raw = append(raw, r.MoranP)
+		if r.Name == "gradient" {
+			want, _ := autocorr.MoransI(cols[0].Values, g.RowStandardised())
+			if math.Abs(r.MoransI-want) > 1e-12 {
+				t.Errorf("gradient I %v, want %v", r.MoransI, want)
+			}
+		}
+		if r.Name == "patchy" && (r.Areas != 99 || r.Missing != 1) {
+			t.Errorf("patchy: %d areas, %d missing", r.Areas, r.Missing)
+		}
+	}
+	adj := shuffle.Adjust(raw, shuffle.BenjaminiHochberg)
+	for k, r := range res.Rows {
+		if r.MoranPAdjusted != adj[k] {
+			t.Errorf("%s: adjusted %v, want %v", r.Name, r.MoranPAdjusted, adj[k])
+		}
+	}
+}
