@@ -164,7 +164,10 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		}
 	}
 	in.Lags = lags
+	bar := newProgress(stderr)
+	opt.Progress = bar.stage
 	res, err := clustering.Autocorr(in, opt)
+	bar.finish()
 	if err != nil {
 		return fmt.Errorf("%s: %v", lay.Source, err)
 	}

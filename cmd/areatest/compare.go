@@ -136,7 +136,10 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
+	bar := newProgress(stderr)
+	opt.Progress = bar.stage
 	res, warnings, err := compareLayer(lay, &c, opt, spec)
+	bar.finish()
 	for _, w := range warnings {
 		warn(stderr, w)
 	}

@@ -62,7 +62,10 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			return fmt.Errorf("--exclude: %v", err)
 		}
 	}
+	bar := newProgress(stderr)
+	opt.Progress = bar.stage
 	res, err := clustering.Screen(sin, opt)
+	bar.finish()
 	if err != nil {
 		return err
 	}

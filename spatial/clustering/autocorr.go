@@ -69,7 +69,7 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	v.Areas, v.Islands = len(r.Used), len(keep)-len(r.Used)
 	x := pick(col.Values, keep, r.Used)
 	alt := opt.Alternative
-	m, err := autocorr.RunTest(x, r.Graph, plan(opt, purpose, alt))
+	m, err := autocorr.RunTest(x, r.Graph, planFor(opt, col.Name+": Moran's I", purpose, alt))
 	if err != nil {
 		return v, named(err, col.Name)
 	}
@@ -77,7 +77,7 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	if v.Bounds, err = autocorr.MoranBounds(r.Graph); err != nil {
 		return v, named(err, col.Name)
 	}
-	gt, err := autocorr.RunGeary(x, r.Graph, plan(opt, purpose+1, flip(alt)))
+	gt, err := autocorr.RunGeary(x, r.Graph, planFor(opt, col.Name+": Geary's C", purpose+1, flip(alt)))
 	if err != nil {
 		return v, named(err, col.Name)
 	}

@@ -62,6 +62,8 @@ type Options struct {
 	Alternative shuffle.Alternative
 	// Adjust is the multiple-testing method Screen applies across columns.
 	Adjust shuffle.Method
+	// Progress, when set, gives the progress callback of a named stage.
+	Progress func(stage string) func(done, total int)
 }
 
 // Statistic is one global statistic with its moments and tests.
@@ -224,6 +226,15 @@ func (in *Input) restrict(keep []int) (*weights.Restricted, error) {
 func plan(opt Options, purpose uint64, alt shuffle.Alternative) shuffle.Plan {
 	return shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
 		Seed: opt.Seed, Purpose: purpose, Workers: opt.Workers, Alternative: alt}
+}
+
+// planFor is plan with the progress callback of a named stage.
+func planFor(opt Options, stage string, purpose uint64, alt shuffle.Alternative) shuffle.Plan {
+	p := plan(opt, purpose, alt)
+	if opt.Progress != nil {
+		p.Progress = opt.Progress(stage)
+	}
+	return p
 }
 
 func fromMoran(t autocorr.Test, alt shuffle.Alternative) Statistic {

@@ -148,7 +148,7 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 		if err != nil {
 			return nil, err
 		}
-		p := plan(opt, uint64(1000+gi), opt.Alternative)
+		p := planFor(opt, fmt.Sprintf("screening %d column(s)", len(xs)), uint64(1000+gi), opt.Alternative)
 		p.Labels = labels
 		out, err := shuffle.RunMany(p, stats, f)
 		if err != nil {

@@ -64,6 +64,16 @@ type Options struct {
 	// Alpha is the level at which the spatial check calls clustering
 	// significant.
 	Alpha float64
+	// Progress, when set, gives the progress callback for a named stage of
+	// the work (see shuffle.Plan.Progress).
+	Progress func(stage string) func(done, total int)
+}
+
+func (o Options) progress(stage string) func(done, total int) {
+	if o.Progress == nil {
+		return nil
+	}
+	return o.Progress(stage)
 }
 
 // Result is everything a report shows. The text report, the JSON document
@@ -274,6 +284,7 @@ func Run(in Input, opt Options) (*Result, error) {
 	factory := data.Factory(stat)
 	plan := shuffle.Plan{Scheme: "free", Labels: data.Labels, Permutations: opt.Permutations,
 		ExactLimit: opt.ExactLimit, Seed: opt.Seed, Purpose: 1, Workers: opt.Workers, Alternative: alt, Scale: scale}
+	plan.Progress = opt.progress("free shuffle")
 	free, err := shuffle.Run(plan, factory)
 	if err != nil {
 		return nil, err
@@ -299,6 +310,7 @@ func Run(in Input, opt Options) (*Result, error) {
 		sp.Scheme = "within " + in.StrataName
 		sp.Strata = strata
 		sp.Purpose = 2
+		sp.Progress = opt.progress("shuffle within " + in.StrataName)
 		within, err := shuffle.Run(sp, factory)
 		if err != nil {
 			return nil, err
@@ -353,6 +365,7 @@ func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float6
 		ys[k] = y[i]
 	}
 	plan.Purpose = 10
+	plan.Progress = opt.progress("Moran's I of " + in.OutcomeName)
 	outcome, err := moranOf(in.OutcomeName, ys, g, plan)
 	if err != nil {
 		return dataErr("Moran's I of %s: %v", in.OutcomeName, err)
@@ -373,6 +386,7 @@ func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float6
 		}
 		plan.Purpose = 11 + uint64(k)
 		name := in.GroupName + "=" + level
+		plan.Progress = opt.progress("Moran's I of " + name)
 		m, err := moranOf(name, x, g, plan)
 		if errors.Is(err, autocorr.ErrConstant) {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("Every area with a neighbour has the same value of %s, so its clustering cannot be measured.", name))

@@ -8,6 +8,7 @@ import (
 	"runtime"
 	"sort"
 	"sync"
+	"sync/atomic"
 )
 
 // Evaluator computes a statistic for one arrangement of labels. It may keep
@@ -56,6 +57,11 @@ type Plan struct {
 	Scale float64
 	// KeepNull asks for every null value, in draw order, in Result.Null.
 	KeepNull bool
+	// Progress, when set, is called after each block of draws with the
+	// number of draws done so far and the total. It is called from the
+	// worker goroutines and must be safe for concurrent use; it has no
+	// effect on the result.
+	Progress func(done, total int)
 }
 
 // Result is the outcome of a permutation test.
@@ -402,6 +408,7 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 		next <- b
 	}
 	close(next)
+	var done atomic.Int64
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
@@ -427,6 +434,9 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 							nulls[s][d] = v
 						}
 					}
+				}
+				if p.Progress != nil {
+					p.Progress(int(done.Add(int64(hi-lo))), B)
 				}
 			}
 		}()
