@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"io"
 	"testing"
 
 	"github.com/areatest/areatest/io/geojson"
@@ -54,7 +55,7 @@ func benchCompare(b *testing.B, strata string) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if _, _, err := compareLayer(lay, &c, opt, spec); err != nil {
+		if _, err := compareLayer(lay, &c, opt, spec, io.Discard); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -136,13 +136,7 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
-	bar := newProgress(stderr)
-	opt.Progress = bar.stage
-	res, warnings, err := compareLayer(lay, &c, opt, spec)
-	bar.finish()
-	for _, w := range warnings {
-		warn(stderr, w)
-	}
+	res, err := compareLayer(lay, &c, opt, spec, stderr)
 	if err != nil {
 		return err
 	}
@@ -158,8 +152,20 @@ func readLayer(path string, stdin io.Reader, opt geojson.Options) (*layer.Layer,
 }
 
 // compareLayer pulls the named columns out of the layer, builds the
-// neighbour graph and runs the comparison.
-func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec) (*compare.Result, []string, error) {
+// neighbour graph and runs the comparison, with warnings and a progress bar
+// on stderr.
+func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec, stderr io.Writer) (*compare.Result, error) {
+	bar := newProgress(stderr)
+	opt.Progress = bar.stage
+	res, warnings, err := compareGraphAndRun(lay, c, opt, spec)
+	bar.finish()
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
+	return res, err
+}
+
+func compareGraphAndRun(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec) (*compare.Result, []string, error) {
 	outcome, err := lay.Column(c.outcome)
 	if err != nil {
 		return nil, nil, err

@@ -62,13 +62,7 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		warn(stderr, w)
 	}
 	c.outcome, c.group, c.strata = "rate", "policy", "province"
-	bar := newProgress(stderr)
-	opt.Progress = bar.stage
-	res, warnings, err := compareLayer(lay, &c, opt, spec)
-	bar.finish()
-	for _, w := range warnings {
-		warn(stderr, w)
-	}
+	res, err := compareLayer(lay, &c, opt, spec, stderr)
 	if err != nil {
 		return err
 	}
