@@ -24,6 +24,8 @@ func (a Alternative) String() string {
 		return "greater"
 	case Less:
 		return "less"
+	case Folded:
+		return "folded"
 	}
 	return "two-sided"
 }

@@ -129,6 +129,11 @@ func RunMany(p Plan, stats []Statistic, f ManyFactory) ([]Result, error) {
 	if k == 0 {
 		return nil, errors.New("shuffle: no statistic to test")
 	}
+	for _, st := range stats {
+		if st.Alternative == Folded {
+			return nil, errors.New("shuffle: the folded alternative belongs to per-area conditional tests (RunLocal)")
+		}
+	}
 	if p.Strata != nil && len(p.Strata) != n {
 		return nil, fmt.Errorf("shuffle: %d strata for %d units", len(p.Strata), n)
 	}
