@@ -438,3 +438,55 @@ func TestAutocorrAndScreenCommands(t *testing.T) {
 		}
 	}
 }
+
+func TestLocalCommand(t *testing.T) {
+	dir := t.TempDir()
+	runCLI(t, "", "demo", "--write", dir)
+	layer := filepath.Join(dir, "region.geojson")
+	o := runCLI(t, "", "local", "-i", layer, "--variable", "rate", "-n", "199")
+	if o.code != 0 {
+		t.Fatalf("local: %s", o.stderr)
+	}
+	for _, want := range []string{"high-high", "low-low", "no data", "no neighbours", "after benjamini-hochberg", "ecological fallacy"} {
+		if !strings.Contains(o.stdout, want) {
+			t.Errorf("local report lacks %q", want)
+		}
+	}
+	csvPath := filepath.Join(dir, "local.csv")
+	gjPath := filepath.Join(dir, "local.geojson")
+	a := runCLI(t, "", "local", "-i", layer, "--variable", "rate", "-n", "199", "--out", csvPath, "--workers", "1", "--format", "json")
+	b := runCLI(t, "", "local", "-i", layer, "--variable", "rate", "-n", "199", "--out", gjPath, "--workers", "3", "--format", "json")
+	if a.code != 0 || b.code != 0 {
+		t.Fatalf("local out: %s %s", a.stderr, b.stderr)
+	}
+	// The written file names differ; everything else is identical.
+	if strings.Replace(a.stdout, csvPath, "X", 1) != strings.Replace(b.stdout, gjPath, "X", 1) {
+		t.Fatal("local JSON differs between --workers 1 and 3")
+	}
+	table, _ := os.ReadFile(csvPath)
+	lines := strings.Split(strings.TrimSpace(string(table)), "\n")
+	if len(lines) != 201 || !strings.HasPrefix(lines[0], "id,value,lag,statistic,expected,sd,z,p,p_adjusted,category") {
+		t.Fatalf("csv: %d lines, header %q", len(lines), lines[0])
+	}
+	// The GeoJSON is the input layer with the results added, readable back.
+	back := runCLI(t, "", "screen", "-i", gjPath, "-n", "99", "--format", "json")
+	if back.code != 0 || !strings.Contains(back.stdout, `"local_z"`) {
+		t.Fatalf("the written GeoJSON does not read back: %s", back.stderr)
+	}
+	for _, c := range []struct {
+		code int
+		args []string
+	}{
+		{2, []string{"local", "-i", layer}},
+		{2, []string{"local", "-i", layer, "--variable", "rate", "--statistic", "lisa"}},
+		{2, []string{"local", "-i", layer, "--variable", "rate", "--against", "income"}},
+		{2, []string{"local", "-i", layer, "--variable", "rate", "--out", "x.txt"}},
+		{2, []string{"local", "-i", layer, "--variable", "rate", "--histogram", "h.svg"}},
+		{1, []string{"local", "-i", layer, "--variable", "name"}},
+		{1, []string{"local", "-i", layer, "--variable", "rate", "--histogram", filepath.Join(dir, "h.svg"), "--area", "NOPE"}},
+	} {
+		if o := runCLI(t, "", c.args...); o.code != c.code {
+			t.Errorf("%v: exit %d, want %d (%s)", c.args[3:], o.code, c.code, o.stderr)
+		}
+	}
+}

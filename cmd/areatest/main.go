@@ -36,6 +36,7 @@ Commands:
   compare   does an outcome differ between groups of areas beyond chance?
   autocorr  does a variable cluster in space, and how strongly?
   screen    which attributes of a layer cluster? every numeric column, ranked
+  local     where are the clusters and outliers? per-area statistics, tables, maps
   weights   build, inspect and export the neighbour graph of a layer
   demo      run compare on the built-in sample region (or write the sample out)
 
@@ -81,8 +82,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err = runAutocorr(args[1:], stdin, stdout, stderr)
 	case "screen":
 		err = runScreen(args[1:], stdin, stdout, stderr)
+	case "local":
+		err = runLocal(args[1:], stdin, stdout, stderr)
 	default:
-		err = usagef("unknown command %q (commands: compare, autocorr, screen, weights, demo; see areatest --help)", args[0])
+		err = usagef("unknown command %q (commands: compare, autocorr, screen, local, weights, demo; see areatest --help)", args[0])
 	}
 	var ue *usageError
 	switch {
