@@ -3,7 +3,10 @@ package tests
 import (
 	"bytes"
 	"encoding/json"
+	"encoding/xml"
 	"fmt"
+	"image/png"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -488,5 +491,45 @@ func TestLocalCommand(t *testing.T) {
 		if o := runCLI(t, "", c.args...); o.code != c.code {
 			t.Errorf("%v: exit %d, want %d (%s)", c.args[3:], o.code, c.code, o.stderr)
 		}
+	}
+}
+
+// The pictures of `areatest local` are written, PNG decodes and SVG parses.
+func TestLocalPictures(t *testing.T) {
+	dir := t.TempDir()
+	runCLI(t, "", "demo", "--write", dir)
+	layer := filepath.Join(dir, "region.geojson")
+	files := map[string]string{"--map": "cat.png", "--choropleth": "rate.svg", "--scatter": "scatter.svg", "--histogram": "hist.png"}
+	args := []string{"local", "-i", layer, "--variable", "rate", "-n", "199", "--area", "D111"}
+	for flag, name := range files {
+		args = append(args, flag, filepath.Join(dir, name))
+	}
+	if o := runCLI(t, "", args...); o.code != 0 {
+		t.Fatalf("local pictures: %s", o.stderr)
+	}
+	for _, name := range files {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		switch filepath.Ext(name) {
+		case ".png":
+			if _, err := png.Decode(bytes.NewReader(b)); err != nil {
+				t.Errorf("%s: %v", name, err)
+			}
+		case ".svg":
+			d := xml.NewDecoder(bytes.NewReader(b))
+			for {
+				if _, err := d.Token(); err == io.EOF {
+					break
+				} else if err != nil {
+					t.Errorf("%s is not well-formed XML: %v", name, err)
+					break
+				}
+			}
+		}
+	}
+	if o := runCLI(t, "", "local", "-i", layer, "--variable", "rate", "--map", filepath.Join(dir, "x.gif")); o.code != 2 {
+		t.Errorf("--map x.gif: exit %d, want 2", o.code)
 	}
 }

@@ -8,6 +8,7 @@ import (
 
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/local"
@@ -42,7 +43,7 @@ const nodata = "no data"
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c clusterFlags
-	var variable, against, statistic, adjust, out, mapFile, scatterFile, histFile, area, classes, categoriesFrom string
+	var variable, against, statistic, adjust, out, mapFile, valueMap, scatterFile, histFile, area, classes, categoriesFrom string
 	var alpha float64
 	var top int
 	fs := newFlags("local", localUsage, stderr)
@@ -53,11 +54,12 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs.Float64Var(&alpha, "alpha", 0.05, "level at which an area counts as significant")
 	fs.StringVar(&categoriesFrom, "categories", "adjusted", "categories from the adjusted or the raw p-values")
 	fs.StringVar(&out, "out", "", "per-area results: a .csv table or a .geojson copy of the layer with the results added")
-	fs.StringVar(&mapFile, "map", "", "category map (.svg or .png)")
+	fs.StringVar(&mapFile, "map", "", "map of the areas' categories (.svg or .png)")
+	fs.StringVar(&valueMap, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
 	fs.StringVar(&scatterFile, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
 	fs.StringVar(&histFile, "histogram", "", "permutation histogram of one area, named by --area (.svg or .png)")
 	fs.StringVar(&area, "area", "", "the area (id) for --histogram")
-	fs.StringVar(&classes, "classes", "quantile", "classes of the value map drawn with --map when the statistic has no categories: quantile or natural")
+	fs.StringVar(&classes, "classes", "quantile", "classes of --choropleth: quantile or natural (natural breaks, Fisher 1958), 5 of them")
 	fs.IntVar(&top, "top", 10, "how many of the strongest areas the text report lists")
 	c.register(fs, "text or json")
 	fs.Lookup("alternative").Usage = "two-sided (default), folded (the tail the observed value falls in; flags about 2·alpha of areas without any pattern), greater or less"
@@ -86,6 +88,16 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	if (histFile == "") != (area == "") {
 		return usagef("--histogram and --area go together")
+	}
+	if classes != "quantile" && classes != "natural" {
+		return usagef("--classes must be quantile or natural, not %q", classes)
+	}
+	for _, f := range []string{mapFile, valueMap, scatterFile, histFile} {
+		if f != "" {
+			if _, err := plot.FormatFromPath(f); err != nil {
+				return usagef("%v", err)
+			}
+		}
 	}
 	if out != "" {
 		if ext := strings.ToLower(filepath.Ext(out)); ext != ".csv" && ext != ".geojson" && ext != ".json" {
@@ -205,10 +217,11 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 		doc.Written = append(doc.Written, out)
 	}
-	if err := drawLocal(lay, doc, kind, x, y, r, results, histIndex, mapFile, scatterFile, histFile, classes, stdout, inputs); err != nil {
+	pics := localPictures{category: mapFile, value: valueMap, scatter: scatterFile, histogram: histFile, classes: classes, area: area}
+	if err := pics.draw(lay, doc, kind, variable, results, histIndex, stdout, inputs); err != nil {
 		return err
 	}
-	for _, f := range []string{mapFile, scatterFile, histFile} {
+	for _, f := range []string{mapFile, valueMap, scatterFile, histFile} {
 		if f != "" {
 			doc.Written = append(doc.Written, f)
 		}
@@ -277,13 +290,4 @@ func writeLocalTable(path string, lay *layer.Layer, doc *report.LocalDocument, s
 		cat,
 	}
 	return writeOutput(path, stdout, inputs, func(w io.Writer) error { return geojson.Write(w, lay, extra) })
-}
-
-// drawLocal is filled in with the maps; until then it refuses.
-func drawLocal(lay *layer.Layer, doc *report.LocalDocument, kind local.Kind, x, y []float64, r *weights.Restricted, results []local.AreaResult,
-	hist int, mapFile, scatterFile, histFile, classes string, stdout io.Writer, inputs []string) error {
-	if mapFile != "" || scatterFile != "" || histFile != "" {
-		return fmt.Errorf("maps are not available in this build")
-	}
-	return nil
 }
