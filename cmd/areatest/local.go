@@ -113,6 +113,11 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if (kind == local.Gi || kind == local.GiStar) && !c.weights.changed("transform") {
+		// Getis–Ord statistics are defined on binary weights (Ord & Getis
+		// 1995), with w_ii = 1 for Gi*.
+		in.Transform = weights.Binary
+	}
 	col, err := numericColumn(lay, variable, "the variable")
 	if err != nil {
 		return err
