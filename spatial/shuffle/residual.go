@@ -24,9 +24,9 @@ import (
 // it the covariates explain, and test "no effect of groups or covariates";
 // shuffling residuals keeps that part in place, so only the group effect is
 // under test. The test is exact only without covariates (then it is the
-// ordinary permutation test of the F); with them it is asymptotically exact,
-// and Anderson & Legendre (1999, J. Stat. Comput. Simul. 62:271–303) found it
-// the most reliable of the residual-permutation methods.
+// ordinary permutation test of the F); with them it is exact only
+// asymptotically, because the permuted residuals are estimates, not the
+// true errors.
 //
 // The permutation comes from the shuffle machinery: Labels gives the
 // observed arrangement 0..n−1, the plan permutes it (freely, within strata,
