@@ -31,6 +31,7 @@ Examples:
   areatest compare -i counties.geojson -y rate -g policy --strata state
   areatest compare -i districts.geojson -y income -g zone --statistic anova-f
   areatest compare -i counties.geojson -y rate -g region --contrast north,south --alternative greater
+  areatest compare -i counties.geojson -y rate -g policy --covariates income,age65
   cat counties.geojson | areatest compare -i - -y rate -g policy --format json -o result.json
 `
 
@@ -44,6 +45,8 @@ type compareFlags struct {
 	alpha                             float64
 	format, output                    string
 	skipBadGeometry                   bool
+	covariates                        []string
+	zones                             string
 	weights                           weightFlags
 	// Set by options from the weight flags.
 	transform   weights.Transform
@@ -58,7 +61,9 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
 		fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
 		fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning, instead of stopping")
+		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
 	}
+	fs.StringVar(&c.zones, "zones", "auto", "without --strata, on 300 or more areas: also shuffle within automatic contiguous zones (auto), or not (none)")
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
 	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (A above B) or less")
@@ -99,6 +104,10 @@ func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
 	if c.workers < 1 {
 		return opt, rule, usagef("--workers must be at least 1")
 	}
+	if c.zones != "auto" && c.zones != "none" {
+		return opt, rule, usagef("--zones must be auto or none, not %q", c.zones)
+	}
+	opt.Zones = c.zones == "auto"
 	if !(c.alpha > 0 && c.alpha < 1) {
 		return opt, rule, usagef("--alpha must be between 0 and 1")
 	}
@@ -183,6 +192,19 @@ func compareGraphAndRun(lay *layer.Layer, c *compareFlags, opt compare.Options, 
 	}
 	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
 		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
+	for _, name := range c.covariates {
+		cov, err := lay.Column(name)
+		if err != nil {
+			return nil, nil, err
+		}
+		if cov.Kind != layer.Number {
+			return nil, nil, fmt.Errorf("%s: covariate %q is not numeric (first non-number value %q in area %s)", lay.Source, name, firstValue(cov), firstID(lay, cov))
+		}
+		if name == c.outcome || name == c.group {
+			return nil, nil, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
+		}
+		in.Covariates = append(in.Covariates, compare.Covariate{Name: name, Values: cov.Num, Missing: cov.Missing})
+	}
 	if c.strata != "" {
 		strata, err := lay.Column(c.strata)
 		if err != nil {

@@ -46,7 +46,12 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	b.WriteString("\n")
 
-	fmt.Fprintf(&b, "  %-24s %10s   %-21s %12s\n", "shuffle", "p-value", "95% interval", "arrangements")
+	if a := r.Adjusted; a != nil {
+		b.WriteString(Wrap(fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical p = %s. The shuffles below test this adjusted statistic.",
+			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), PValue(a.ClassicalP)), width, "  ", "  "))
+		b.WriteString("\n")
+	}
+	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "shuffle", "p-value", "95% interval", "arrangements")
 	for _, t := range r.Tests {
 		interval := "exact"
 		count := Count(t.Permutations)
@@ -55,13 +60,26 @@ func CompareText(w io.Writer, r *compare.Result) error {
 		} else {
 			count += " (all)"
 		}
-		fmt.Fprintf(&b, "  %-24s %10s   %-21s %12s\n", truncate(t.Scheme, 24), PValue(t.PValue), interval, count)
+		fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", truncate(t.Scheme, 30), PValue(t.PValue), interval, count)
 	}
 	if len(r.Tests) > 0 {
 		b.WriteString(Wrap(testFootnote(r), width, "  ", "  "))
 	}
 	b.WriteString("\n")
 
+	if e := r.EffectiveSampleSize; e != nil {
+		subject := r.Input.Group + "=" + e.Level
+		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %.0f areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, p = %s; the ordinary t-test, which counts every area as independent, gives p = %s. This tests the difference in means.",
+			Count(e.Areas), e.EffectiveSampleSize, r.Input.Outcome, subject, Number(e.T), e.DF, PValue(e.PValue), PValue(e.OrdinaryPValue))
+		if e.Capped {
+			text += " (The estimate reached the number of areas, so no reduction was applied.)"
+		}
+		if e.Note != "" {
+			text += " With more than two groups: " + e.Note + "."
+		}
+		b.WriteString(Wrap(text, width, "  ", "  "))
+		b.WriteString("\n")
+	}
 	a := r.Autocorrelation
 	fmt.Fprintf(&b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
 	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", Count(r.Weights.Areas), Count(r.Weights.Pairs),

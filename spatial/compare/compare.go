@@ -14,6 +14,7 @@ import (
 	"strings"
 
 	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
@@ -44,6 +45,16 @@ type Input struct {
 	// KeepIslands keeps areas without neighbours in the spatial check, with
 	// a spatial lag of zero, instead of leaving them out.
 	KeepIslands bool
+	// Covariates, when given, make every scheme test the group effect
+	// adjusted for them (Freedman & Lane 1983).
+	Covariates []Covariate
+}
+
+// Covariate is a numeric column to adjust for.
+type Covariate struct {
+	Name    string
+	Values  []float64
+	Missing []bool
 }
 
 // Options tune the comparison.
@@ -64,6 +75,9 @@ type Options struct {
 	// Alpha is the level at which the spatial check calls clustering
 	// significant.
 	Alpha float64
+	// Zones adds a shuffle within automatic contiguous zones when no strata
+	// are given and at least ZoneMinAreas areas are tested.
+	Zones bool
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)
@@ -93,8 +107,45 @@ type Result struct {
 	Excluded        []Exclusion      `json:"excluded"`
 	Warnings        []string         `json:"warnings"`
 	Cautions        []string         `json:"cautions"`
-	// Later schemes (spatially constrained nulls, effective sample size, a
-	// measured false-positive rate) add their own fields here.
+	// Adjusted describes the covariate adjustment, when asked for.
+	Adjusted *CovariateInfo `json:"adjusted,omitempty"`
+	// Zones describes the automatic zones of the within-zone shuffle.
+	Zones *ZonesInfo `json:"zones,omitempty"`
+	// EffectiveSampleSize is the modified t-test of outcome against
+	// grouping: how many independent areas the data are worth.
+	EffectiveSampleSize *EffectiveInfo `json:"effective_sample_size,omitempty"`
+}
+
+// CovariateInfo describes the Freedman–Lane adjustment.
+type CovariateInfo struct {
+	Covariates []string `json:"covariates"`
+	Method     string   `json:"method"`
+	Statistic  string   `json:"statistic"`
+	Observed   float64  `json:"observed"`
+	// ClassicalP is the p-value of the same statistic from its t or F
+	// distribution, exact for independent normal errors.
+	ClassicalP float64 `json:"classical_p_value"`
+}
+
+// ZonesInfo describes automatic contiguous zones.
+type ZonesInfo struct {
+	Zones int   `json:"zones"`
+	Sizes []int `json:"sizes"`
+}
+
+// EffectiveInfo is the modified t-test of the outcome against a group
+// indicator (group Level against the rest).
+type EffectiveInfo struct {
+	effective.Result
+	Level   string             `json:"level"`
+	Note    string             `json:"note,omitempty"`
+	ByGroup []EffectiveByGroup `json:"by_group,omitempty"`
+}
+
+// EffectiveByGroup is the modified t-test of one group against the others.
+type EffectiveByGroup struct {
+	Level string `json:"level"`
+	effective.Result
 }
 
 // InputInfo says what was read and which columns were used.
@@ -208,6 +259,8 @@ func Run(in Input, opt Options) (*Result, error) {
 			exclude(i, "missing "+in.StrataName)
 		case contrast != nil && !contrast[in.Group[i]]:
 			exclude(i, fmt.Sprintf("%s not in the contrast", in.GroupName))
+		case missingCovariate(in.Covariates, i) != "":
+			exclude(i, "missing "+missingCovariate(in.Covariates, i))
 		default:
 			keep = append(keep, i)
 		}
@@ -277,54 +330,214 @@ func Run(in Input, opt Options) (*Result, error) {
 		// tail is evidence.
 		alt = shuffle.Greater
 	}
-	scale := 1.0
-	if stat.InOutcomeUnits() {
-		scale = data.Y[len(data.Y)-1] - data.Y[0]
+	t := &tester{opt: opt, data: data, stat: stat, alt: alt}
+	if len(in.Covariates) > 0 {
+		if err := t.adjustFor(in, keep, y, lab, len(levels), res); err != nil {
+			return nil, err
+		}
 	}
-	factory := data.Factory(stat)
-	plan := shuffle.Plan{Scheme: "free", Labels: data.Labels, Permutations: opt.Permutations,
-		ExactLimit: opt.ExactLimit, Seed: opt.Seed, Purpose: 1, Workers: opt.Workers, Alternative: alt, Scale: scale}
-	plan.Progress = opt.progress("free shuffle")
-	free, err := shuffle.Run(plan, factory)
+	free, err := t.run("free", nil, 1, "free shuffle")
 	if err != nil {
 		return nil, err
 	}
 	res.Tests = append(res.Tests, free)
 
 	if in.Strata != nil {
-		strataCode := map[string]int32{}
-		strata := make([]int32, len(keep))
-		for pos, o := range data.Order {
-			s := in.Strata[keep[o]]
-			c, ok := strataCode[s]
-			if !ok {
-				c = int32(len(strataCode))
-				strataCode[s] = c
-			}
-			strata[pos] = c
-		}
-		if len(strataCode) < 2 {
+		strata, count := codes(keep, in.Strata)
+		if count < 2 {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("%s has a single level among the tested areas, so the within-%s shuffle is the free shuffle.", in.StrataName, in.StrataName))
 		}
-		sp := plan
-		sp.Scheme = "within " + in.StrataName
-		sp.Strata = strata
-		sp.Purpose = 2
-		sp.Progress = opt.progress("shuffle within " + in.StrataName)
-		within, err := shuffle.Run(sp, factory)
+		within, err := t.run("within "+in.StrataName, strata, 2, "shuffle within "+in.StrataName)
 		if err != nil {
 			return nil, err
 		}
 		res.Tests = append(res.Tests, within)
-		if mixed := mixedStrata(strata, data.Labels); mixed == 0 {
+		if mixedStrata(strata, lab) == 0 {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("No level of %s holds areas of more than one group, so shuffling within %s cannot move a label: its p-value is 1 by construction.", in.StrataName, in.StrataName))
+		}
+	} else if opt.Zones && len(keep) >= ZoneMinAreas {
+		zones, err := weights.Zones(in.Graph.Subset(keep), 0)
+		if err != nil {
+			return nil, err
+		}
+		count := len(weights.ZoneSizes(zones))
+		name := fmt.Sprintf("within %d automatic zones", count)
+		within, err := t.run(name, zones, 3, "shuffle within zones")
+		if err != nil {
+			return nil, err
+		}
+		res.Tests = append(res.Tests, within)
+		res.Zones = &ZonesInfo{Zones: count, Sizes: weights.ZoneSizes(zones)}
+		if mixedStrata(zones, lab) == 0 {
+			res.Warnings = append(res.Warnings, "No automatic zone holds areas of more than one group, so the within-zone shuffle cannot move a label: its p-value is 1 by construction.")
 		}
 	}
 
+	if err := effectiveSize(in, keep, y, lab, len(levels), levels, opt, res); err != nil {
+		return nil, err
+	}
 	if err := spatialCheck(in, opt, keep, levels, y, lab, res); err != nil {
 		return nil, err
 	}
 	return res, nil
+}
+
+func missingCovariate(cs []Covariate, i int) string {
+	for _, c := range cs {
+		if c.Missing[i] {
+			return c.Name
+		}
+	}
+	return ""
+}
+
+// ZoneMinAreas is the number of tested areas from which compare adds a
+// shuffle within automatic contiguous zones when no strata are given.
+const ZoneMinAreas = 300
+
+// tester runs the group statistic under one shuffle scheme after another:
+// on the once-sorted outcome, or, with covariates, by Freedman–Lane on the
+// residuals of the covariates-only model.
+type tester struct {
+	opt  Options
+	data *groups.Data
+	stat groups.Statistic
+	alt  shuffle.Alternative
+	// fl is set when the test adjusts for covariates.
+	fl      *shuffle.FreedmanLane
+	flEval  shuffle.Factory
+	flAlt   shuffle.Alternative
+	covName string
+}
+
+// run tests the statistic with labels exchanged only within strata (given
+// per tested area in layer order; nil for the free shuffle).
+func (t *tester) run(scheme string, strata []int32, purpose uint64, stage string) (shuffle.Result, error) {
+	plan := shuffle.Plan{Scheme: scheme, Permutations: t.opt.Permutations, ExactLimit: t.opt.ExactLimit,
+		Seed: t.opt.Seed, Purpose: purpose, Workers: t.opt.Workers, Progress: t.opt.progress(stage)}
+	if t.fl != nil {
+		plan.Labels, plan.Strata, plan.Alternative, plan.Scale = t.fl.Labels(), strata, t.flAlt, 1
+		plan.Scheme = scheme + ", adjusted for " + t.covName
+		return shuffle.Run(plan, t.flEval)
+	}
+	plan.Labels, plan.Alternative = t.data.Labels, t.alt
+	plan.Scale = 1
+	if t.stat.InOutcomeUnits() {
+		plan.Scale = t.data.Y[len(t.data.Y)-1] - t.data.Y[0]
+	}
+	if strata != nil {
+		// The group statistics see areas in sorted order of the outcome.
+		sorted := make([]int32, len(strata))
+		for pos, o := range t.data.Order {
+			sorted[pos] = strata[o]
+		}
+		plan.Strata = sorted
+	}
+	return shuffle.Run(plan, t.data.Factory(t.stat))
+}
+
+// adjustFor switches the tester to the Freedman–Lane test of the group
+// effect adjusted for the covariates: the t of the group coefficient for
+// two groups, the partial F for more.
+func (t *tester) adjustFor(in Input, keep []int, y []float64, lab []int32, k int, res *Result) error {
+	var cols [][]float64
+	var names []string
+	for _, c := range in.Covariates {
+		col := make([]float64, len(keep))
+		for j, i := range keep {
+			col[j] = c.Values[i]
+		}
+		cols = append(cols, col)
+		names = append(names, c.Name)
+	}
+	fl, err := shuffle.NewFreedmanLane(y, cols, lab, k)
+	if err != nil {
+		return dataErr("adjusting for %s: %v", strings.Join(names, ", "), err)
+	}
+	t.fl, t.covName = fl, strings.Join(names, ", ")
+	info := &CovariateInfo{Covariates: names}
+	if k == 2 {
+		if t.flEval, err = fl.TFactory(); err != nil {
+			return err
+		}
+		t.flAlt = t.opt.Alternative
+		info.Statistic = "t of the group effect"
+		info.Observed, info.ClassicalP, _ = fl.ClassicalT(t.flAlt)
+	} else {
+		t.flEval, t.flAlt = fl.Factory(), shuffle.Greater
+		info.Statistic = "partial F of the group effect"
+		info.Observed, info.ClassicalP = fl.PartialF()
+	}
+	info.Method = "Freedman–Lane: residuals of the model with the covariates alone are shuffled"
+	res.Adjusted = info
+	return nil
+}
+
+// codes numbers the text labels of the tested areas in order of first
+// appearance, returning the codes (in keep order) and how many there are.
+func codes(keep []int, labels []string) ([]int32, int) {
+	code := map[string]int32{}
+	out := make([]int32, len(keep))
+	for k, i := range keep {
+		c, ok := code[labels[i]]
+		if !ok {
+			c = int32(len(code))
+			code[labels[i]] = c
+		}
+		out[k] = c
+	}
+	return out, len(code)
+}
+
+// effectiveSize runs the modified t-test (Dutilleul 1993) of the outcome
+// against the group indicators on the binary graph among the tested areas,
+// islands included as independent areas.
+func effectiveSize(in Input, keep []int, y []float64, lab []int32, k int, levels []string, opt Options, res *Result) error {
+	r, err := weights.Restrict(in.Graph, keep, in.IDs, weights.Binary, true)
+	if err != nil {
+		return err
+	}
+	if r.Graph.Links() == 0 {
+		return nil
+	}
+	lags, err := effective.NewLags(r.Binary, 0)
+	if err != nil {
+		return err
+	}
+	alt := opt.Alternative
+	out, err := lags.Groups(y, lab, k, alt)
+	if errors.Is(err, effective.ErrTooFew) || errors.Is(err, effective.ErrConstant) {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("The effective sample size could not be estimated: %v.", err))
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if k > 2 {
+		p := make([]float64, len(out))
+		for g := range out {
+			p[g] = out[g].PValue
+		}
+		adj := shuffle.Adjust(p, shuffle.Holm)
+		for g := range out {
+			out[g].PValue = adj[g]
+		}
+	}
+	best := 0
+	for g := range out {
+		if out[g].EffectiveSampleSize < out[best].EffectiveSampleSize {
+			best = g
+		}
+	}
+	e := &EffectiveInfo{Result: out[best], Level: levels[best]}
+	if k > 2 {
+		e.Note = "each group against the others; the smallest effective sample size is shown, p-values Holm-adjusted across groups"
+		for g := range out {
+			e.ByGroup = append(e.ByGroup, EffectiveByGroup{Level: levels[g], Result: out[g]})
+		}
+	}
+	res.EffectiveSampleSize = e
+	return nil
 }
 
 // mixedStrata counts strata that hold more than one group.

@@ -2,6 +2,7 @@ package compare
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -258,5 +259,67 @@ func TestKeepIslands(t *testing.T) {
 	}
 	if !strings.Contains(strings.Join(res.Warnings, " "), "kept in the spatial check") {
 		t.Fatalf("warnings %q", res.Warnings)
+	}
+}
+
+// With covariates every scheme tests the Freedman–Lane adjusted statistic;
+// areas missing a covariate are left out and counted; without strata on a
+// layer of 300 or more areas a within-zones scheme is added; the effective
+// sample size is reported.
+func TestCovariatesZonesAndEffectiveSize(t *testing.T) {
+	m := 20
+	var pairs [][2]int32
+	for i := 0; i < m; i++ {
+		for j := 0; j < m; j++ {
+			k := int32(i*m + j)
+			if j+1 < m {
+				pairs = append(pairs, [2]int32{k, k + 1})
+			}
+			if i+1 < m {
+				pairs = append(pairs, [2]int32{k, k + int32(m)})
+			}
+		}
+	}
+	n := m * m
+	y := make([]float64, n)
+	cov := make([]float64, n)
+	g := make([]string, n)
+	ids := make([]string, n)
+	for i := range y {
+		r, c := i/m, i%m
+		cov[i] = float64(r)
+		y[i] = 0.5*float64(r) + math.Sin(float64(i)*1.3)
+		g[i] = []string{"a", "b"}[(r/5+c/5)%2]
+		ids[i] = fmt.Sprint(i)
+	}
+	graph, _ := weights.FromLinks(n, pairs, "rook contiguity")
+	in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n), GroupName: "g", Group: g,
+		GroupMissing: make([]bool, n), Graph: graph,
+		Covariates: []Covariate{{Name: "row", Values: cov, Missing: make([]bool, n)}}}
+	in.Covariates[0].Missing[7] = true
+	o := opts()
+	o.Zones = true
+	res, err := Run(in, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Input.Tested != n-1 || res.Excluded[0].Reason != "missing row" {
+		t.Fatalf("tested %d, excluded %+v", res.Input.Tested, res.Excluded)
+	}
+	if res.Adjusted == nil || res.Adjusted.Statistic != "t of the group effect" {
+		t.Fatalf("adjusted %+v", res.Adjusted)
+	}
+	if len(res.Tests) != 2 || !strings.HasPrefix(res.Tests[1].Scheme, "within ") || !strings.Contains(res.Tests[1].Scheme, "automatic zones, adjusted for row") {
+		t.Fatalf("schemes %v", []string{res.Tests[0].Scheme})
+	}
+	if res.Zones == nil || res.Zones.Zones < 10 || res.Zones.Zones > 40 {
+		t.Fatalf("zones %+v", res.Zones)
+	}
+	// Every scheme's observed value is the adjusted t, the same in each.
+	if res.Tests[0].Observed != res.Adjusted.Observed || res.Tests[1].Observed != res.Adjusted.Observed {
+		t.Fatalf("observed %v %v, adjusted %v", res.Tests[0].Observed, res.Tests[1].Observed, res.Adjusted.Observed)
+	}
+	if e := res.EffectiveSampleSize; e == nil || e.Areas != n-1 || e.EffectiveSampleSize > float64(n-1) {
+		t.Fatalf("effective sample size %+v", res.EffectiveSampleSize)
 	}
 }
