@@ -1,0 +1,176 @@
+package surrogate
+
+import (
+	"errors"
+	"fmt"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/shuffle"
+)
+
+// FPRBlock is the number of surrogates in one block of the false-positive
+// estimate: block k draws its surrogates from NewStream(seed, purpose, k),
+// so, like BlockSize for the shuffles, it is part of the definition of a
+// seeded result. It is smaller than shuffle.BlockSize because each
+// surrogate carries a whole permutation test, and 500 surrogates must
+// still spread over the cores.
+const FPRBlock = 25
+
+// FPROptions tune FalsePositives. Zero values take the defaults.
+type FPROptions struct {
+	// Surrogates is the number of surrogate outcomes S (default 500).
+	Surrogates int
+	// Permutations is the number of free shuffles B per surrogate
+	// (default 199).
+	Permutations int
+	// Alpha is the level at which a shuffle test rejects (default 0.05).
+	Alpha float64
+	// Alternative of the shuffle tests; as in the comparison, the
+	// Kruskal–Wallis H and the F ratio are always tested in their upper
+	// tail.
+	Alternative shuffle.Alternative
+	// Seed and Purpose fix the streams; surrogate s's shuffle test uses
+	// the seed with a purpose derived from (Purpose, s).
+	Seed, Purpose uint64
+	// Workers is the number of goroutines; 0 means all cores. The result
+	// does not depend on it.
+	Workers int
+	// Progress, when set, is called after each block with the surrogates
+	// done and the total; it must be safe for concurrent use.
+	Progress func(done, total int)
+}
+
+// FalsePositiveRate is the measured share of true nulls that the free
+// shuffle rejects: on surrogate outcomes that keep the outcome's spatial
+// structure and have no link to the grouping, every rejection is a false
+// positive. A rate well above Alpha means the free shuffle's p-values on
+// these data are too small.
+type FalsePositiveRate struct {
+	// Scheme is the shuffle whose rate was measured ("free").
+	Scheme string  `json:"scheme"`
+	Alpha  float64 `json:"alpha"`
+	// Rate is Rejected / Surrogates.
+	Rate float64 `json:"rate"`
+	// Interval is the 95% Clopper–Pearson interval for the rate.
+	Interval     [2]float64 `json:"interval"`
+	Surrogates   int        `json:"surrogates"`
+	Permutations int        `json:"permutations"`
+	Rejected     int        `json:"rejected"`
+}
+
+// FalsePositives draws opt.Surrogates surrogates of o and runs on each the
+// ordinary free label shuffle of stat (shuffle.Run, groups.Prepare and
+// groups.Data.Factory: the very test the comparison reports), counting the
+// rejections at opt.Alpha. labels[i] in 0..k−1 is the group of area i.
+func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, opt FPROptions) (FalsePositiveRate, error) {
+	n := o.Len()
+	if len(labels) != n {
+		return FalsePositiveRate{}, fmt.Errorf("surrogate: %d labels for %d areas", len(labels), n)
+	}
+	if _, err := NewGroupStatistic(stat, labels, k); err != nil {
+		return FalsePositiveRate{}, err
+	}
+	S := opt.Surrogates
+	if S == 0 {
+		S = 500
+	}
+	B := opt.Permutations
+	if B == 0 {
+		B = 199
+	}
+	alpha := opt.Alpha
+	if alpha == 0 {
+		alpha = 0.05
+	}
+	if S < 1 || B < 1 || !(alpha > 0 && alpha < 1) {
+		return FalsePositiveRate{}, errors.New("surrogate: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
+	}
+	alt := opt.Alternative
+	if !stat.Directional() {
+		alt = shuffle.Greater
+	}
+	blocks := (S + FPRBlock - 1) / FPRBlock
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, blocks)
+	rejected := make([]bool, S)
+	errs := make([]error, blocks)
+	next := make(chan int, blocks)
+	for b := 0; b < blocks; b++ {
+		next <- b
+	}
+	close(next)
+	var done atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			s := o.b.NewScratch()
+			y := make([]float64, n)
+			var rng shuffle.Stream
+			for b := range next {
+				rng.Reset(opt.Seed, opt.Purpose, b)
+				lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
+				for d := lo; d < hi; d++ {
+					o.Draw(&rng, y, s)
+					p, err := freeShuffle(y, labels, k, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
+					if err != nil {
+						errs[b] = err
+						break
+					}
+					rejected[d] = p <= alpha
+				}
+				if opt.Progress != nil {
+					opt.Progress(int(done.Add(int64(hi-lo))), S)
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return FalsePositiveRate{}, err
+		}
+	}
+	r := FalsePositiveRate{Scheme: "free", Alpha: alpha, Surrogates: S, Permutations: B}
+	for _, rej := range rejected {
+		if rej {
+			r.Rejected++
+		}
+	}
+	r.Rate = float64(r.Rejected) / float64(S)
+	r.Interval[0], r.Interval[1] = shuffle.ClopperPearson(r.Rejected, S, 0.95)
+	return r, nil
+}
+
+// freeShuffle is the comparison's free shuffle test of one outcome: the
+// outcome sorted once by groups.Prepare, labels shuffled B times, the tie
+// scale the range of the outcome. It returns the p-value.
+func freeShuffle(y []float64, labels []int32, k int, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
+	d, err := groups.Prepare(y, labels, k)
+	if err != nil {
+		return 0, err
+	}
+	scale := 1.0
+	if stat.InOutcomeUnits() {
+		scale = d.Y[len(d.Y)-1] - d.Y[0]
+	}
+	res, err := shuffle.Run(shuffle.Plan{Scheme: "free", Labels: d.Labels, Permutations: B,
+		Seed: seed, Purpose: purpose, Workers: 1, Alternative: alt, Scale: scale}, d.Factory(stat))
+	if err != nil {
+		return 0, err
+	}
+	return res.PValue, nil
+}
+
+// innerPurpose gives surrogate s's shuffle test its own streams, apart from
+// the surrogates' (which use purpose itself) and from every other test.
+func innerPurpose(purpose uint64, s int) uint64 {
+	return purpose ^ (0x9e3779b97f4a7c15 * (uint64(s) + 1))
+}

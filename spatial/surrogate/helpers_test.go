@@ -1,0 +1,159 @@
+package surrogate
+
+import (
+	"math"
+	"sort"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
+)
+
+// lattice is the binary rook graph of an r×c grid of cells, cell (i, j) at
+// index i·c + j.
+func lattice(tb testing.TB, r, c int) *weights.Graph {
+	var pairs [][2]int32
+	for i := 0; i < r; i++ {
+		for j := 0; j < c; j++ {
+			k := int32(i*c + j)
+			if j+1 < c {
+				pairs = append(pairs, [2]int32{k, k + 1})
+			}
+			if i+1 < r {
+				pairs = append(pairs, [2]int32{k, k + int32(c)})
+			}
+		}
+	}
+	g, err := weights.FromLinks(r*c, pairs, "rook contiguity")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return g
+}
+
+// irregular is an r×c rook lattice with a share of its links dropped and
+// some diagonal (queen) links added at random, so that no symmetry of the
+// grid survives and no eigenvalue repeats; cells that end up without a link
+// become islands.
+func irregular(tb testing.TB, r, c int, seed uint64) *weights.Graph {
+	rng := shuffle.NewStream(seed, 77, 0)
+	var pairs [][2]int32
+	for i := 0; i < r; i++ {
+		for j := 0; j < c; j++ {
+			k := int32(i*c + j)
+			if j+1 < c && rng.Float64() > 0.15 {
+				pairs = append(pairs, [2]int32{k, k + 1})
+			}
+			if i+1 < r && rng.Float64() > 0.15 {
+				pairs = append(pairs, [2]int32{k, k + int32(c)})
+			}
+			if i+1 < r && j+1 < c && rng.Float64() < 0.3 {
+				pairs = append(pairs, [2]int32{k, k + int32(c) + 1})
+			}
+		}
+	}
+	g, err := weights.FromLinks(r*c, pairs, "test graph")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return g
+}
+
+// sarField draws fields y = (I − ρW)⁻¹ε, ε standard normal, by one LU
+// factorisation of I − ρW reused for every draw.
+type sarField struct {
+	lu mat.LU
+	n  int
+}
+
+func newSAR(g *weights.Graph, rho float64) *sarField {
+	n := g.Len()
+	a := mat.NewDense(n, n, nil)
+	for i := 0; i < n; i++ {
+		a.Set(i, i, 1)
+		nb, w := g.Row(i)
+		for k, j := range nb {
+			a.Set(i, int(j), a.At(i, int(j))-rho*w[k])
+		}
+	}
+	s := &sarField{n: n}
+	s.lu.Factorize(a)
+	return s
+}
+
+func (s *sarField) draw(tb testing.TB, rng *shuffle.Stream) []float64 {
+	e := make([]float64, s.n)
+	normals(rng, e)
+	var y mat.VecDense
+	if err := s.lu.SolveVecTo(&y, false, mat.NewVecDense(s.n, e)); err != nil {
+		tb.Fatal(err)
+	}
+	return append([]float64(nil), y.RawVector().Data...)
+}
+
+// medianSplit labels the areas above the median of x as group 0 (A).
+func medianSplit(x []float64) []int32 {
+	s := append([]float64(nil), x...)
+	sort.Float64s(s)
+	med := s[len(s)/2]
+	lab := make([]int32, len(x))
+	for i, v := range x {
+		if v < med {
+			lab[i] = 1
+		}
+	}
+	return lab
+}
+
+// moranLinked is Moran's I of y over the linked areas of b (Moran 1950),
+// computed by spatial/autocorr on the graph restricted to them.
+func moranLinked(tb testing.TB, b *Basis, g *weights.Graph, y []float64) float64 {
+	keep := make([]int, len(b.Linked()))
+	x := make([]float64, len(keep))
+	for k, i := range b.Linked() {
+		keep[k] = int(i)
+		x[k] = y[i]
+	}
+	v, err := autocorr.MoransI(x, g.Subset(keep))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return v
+}
+
+func meanVar(y []float64) (m, v float64) {
+	for _, x := range y {
+		m += x
+	}
+	m /= float64(len(y))
+	for _, x := range y {
+		v += (x - m) * (x - m)
+	}
+	return m, v / float64(len(y)-1)
+}
+
+// ksDistance is the two-sample Kolmogorov–Smirnov statistic
+// sup_x |F_a(x) − F_b(x)| (Smirnov 1939), by one merge of the sorted
+// samples; tied values are passed together.
+func ksDistance(a, b []float64) float64 {
+	x := append([]float64(nil), a...)
+	y := append([]float64(nil), b...)
+	sort.Float64s(x)
+	sort.Float64s(y)
+	var i, j int
+	var d float64
+	for i < len(x) && j < len(y) {
+		v := math.Min(x[i], y[j])
+		for i < len(x) && x[i] == v {
+			i++
+		}
+		for j < len(y) && y[j] == v {
+			j++
+		}
+		d = math.Max(d, math.Abs(float64(i)/float64(len(x))-float64(j)/float64(len(y))))
+	}
+	return d
+}

@@ -1,0 +1,202 @@
+package tests
+
+import (
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+	gspatial "gonum.org/v1/gonum/stat/spatial"
+
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/weights"
+)
+
+// The eigenbasis of the states' queen graph (49 states with a neighbour:
+// the 48 contiguous and DC) against numpy.linalg.eigh of M W* M
+// (testdata/scipy/make_autocorr_refs.py, Debian's python3-numpy 1.24.2):
+// the largest and smallest eigenvalues, scaled by n/S0, are the bounds of
+// Moran's I the script stored (de Jong, Sprenger & van Veen 1984), for
+// binary and row-standardised weights, to 1e-10.
+func TestSurrogateStatesEigenvaluesAgainstNumpy(t *testing.T) {
+	r := loadAutocorrRefs(t)
+	g := statesQueen(t, r)
+	for name, w := range map[string]*weights.Graph{"binary": g, "row": g.RowStandardised()} {
+		b, err := surrogate.NewBasis(w, surrogate.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		v := b.Values()
+		lo, hi := b.MoranScale()*v[len(v)-1], b.MoranScale()*v[0]
+		want := r.Bounds[name]
+		if !relClose(lo, want.Min, 1e-10) || !relClose(hi, want.Max, 1e-10) {
+			t.Errorf("%s: eigenvalues give [%v, %v], numpy [%v, %v]", name, lo, hi, want.Min, want.Max)
+		}
+		if info := b.Info(); info.Method != "dense" || info.Vectors != 48 || info.Islands != 0 {
+			t.Errorf("%s: %+v", name, info)
+		}
+	}
+}
+
+// Moran's I of every spectral surrogate of the states' centroid latitude,
+// computed by gonum's stat/spatial.GlobalMoransI (an outside
+// implementation of Moran 1950), equals the latitude's own to 1e-9 (Wagner &
+// Dray 2015), and the mean and variance hold to 1e-12; binary and
+// row-standardised weights.
+func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
+	r := loadAutocorrRefs(t)
+	g := statesQueen(t, r)
+	x := r.CentroidLat
+	n := len(x)
+	for _, w := range []*weights.Graph{g, g.RowStandardised()} {
+		d := mat.NewDense(n, n, nil)
+		for i := 0; i < n; i++ {
+			nb, wt := w.Row(i)
+			for k, j := range nb {
+				d.Set(i, int(j), wt[k])
+			}
+		}
+		want, _, _ := gspatial.GlobalMoransI(x, nil, d)
+		b, err := surrogate.NewBasis(w, surrogate.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		o, err := b.Prepare(x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m0, v0 := meanVariance(x)
+		s := b.NewScratch()
+		y := make([]float64, n)
+		rng := shuffle.NewStream(7, 7, 0)
+		var worst float64
+		for k := 0; k < 100; k++ {
+			o.Draw(&rng, y, s)
+			got, _, _ := gspatial.GlobalMoransI(y, nil, d)
+			worst = math.Max(worst, math.Abs(got-want))
+			m, v := meanVariance(y)
+			if math.Abs(m-m0) > 1e-12*math.Abs(m0) || math.Abs(v-v0) > 1e-12*v0 {
+				t.Fatalf("%s: draw %d has mean %v and variance %v, the latitude %v and %v", w.Transform, k, m, v, m0, v0)
+			}
+		}
+		if worst > 1e-9 {
+			t.Errorf("%s: Moran's I of the latitude %v (gonum); surrogates differ by up to %g", w.Transform, want, worst)
+		}
+		t.Logf("%s: Moran's I %.6f (gonum), worst surrogate difference %.2g", w.Transform, want, worst)
+	}
+}
+
+// On the whole layer (the states, DC and five territories) Alaska, Hawaii
+// and the territories have no neighbour (common knowledge, no source): the
+// basis sets them apart, and a surrogate gives them their own values in a
+// random order. The spectral test of the difference in mean latitude
+// between east and west runs through the shuffle machinery, and its null
+// is wider than the free shuffle's: latitude clusters, and so does any
+// grouping drawn on the map.
+func TestSurrogateStatesIslandsAndTest(t *testing.T) {
+	l := loadStates(t)
+	queen, err := weights.ContiguityGraph(l.Geoms, weights.Queen)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := queen.RowStandardised()
+	lat, err := l.Column("centroid_lat")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lon, err := l.Column("centroid_lon")
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := surrogate.NewBasis(w, surrogate.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	isl := map[string]bool{}
+	for _, i := range b.Islands() {
+		isl[l.IDs[i]] = true
+	}
+	if len(isl) != len(queen.Islands()) || !isl["02"] || !isl["15"] {
+		t.Fatalf("islands %v, want Alaska (02), Hawaii (15) and the graph's other islands", isl)
+	}
+	y := lat.Num
+	o, err := b.Prepare(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	own := map[float64]int{}
+	for _, i := range b.Islands() {
+		own[y[i]]++
+	}
+	s := b.NewScratch()
+	out := make([]float64, len(y))
+	rng := shuffle.NewStream(3, 3, 0)
+	moved := 0
+	for k := 0; k < 200; k++ {
+		o.Draw(&rng, out, s)
+		got := map[float64]int{}
+		for _, i := range b.Islands() {
+			got[out[i]]++
+			if out[i] != y[i] {
+				moved++
+			}
+		}
+		if len(got) != len(own) {
+			t.Fatalf("islands got %v, not their own values %v", got, own)
+		}
+		for v, c := range own {
+			if got[v] != c {
+				t.Fatalf("islands got %v, not their own values %v", got, own)
+			}
+		}
+	}
+	if moved == 0 {
+		t.Error("island values never move")
+	}
+
+	// Grouping: east of 95° W (A) and west of it, the Pacific
+	// territories (east longitudes) with the west; outcome: latitude.
+	lab := make([]int32, len(y))
+	for i, v := range lon.Num {
+		if v < -95 || v > 0 {
+			lab[i] = 1
+		}
+	}
+	d, err := groups.Prepare(y, lab, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	observed := d.Observed(groups.DiffMeans)
+	scale := d.Y[len(d.Y)-1] - d.Y[0]
+	free, err := shuffle.Run(shuffle.Plan{Scheme: "free", Labels: d.Labels, Permutations: 9999, Seed: 1, Purpose: 1, Scale: scale}, d.Factory(groups.DiffMeans))
+	if err != nil {
+		t.Fatal(err)
+	}
+	gs, err := surrogate.NewGroupStatistic(groups.DiffMeans, lab, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v := gs.Value(y); v != observed {
+		t.Fatalf("surrogate evaluator %v, groups %v", v, observed)
+	}
+	spec, err := surrogate.GroupTest(o, gs, observed, shuffle.SurrogatePlan{Scheme: "spectral", Draws: 999, Seed: 1, Purpose: 3, Scale: scale})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("east − west mean latitude %.3f°: free p %.4f, spectral p %.4f (null sd %.3f vs %.3f)", observed, free.PValue, spec.PValue, spec.NullSD, free.NullSD)
+	if !(spec.NullSD > free.NullSD) {
+		t.Errorf("spectral null sd %v not above the free shuffle's %v", spec.NullSD, free.NullSD)
+	}
+}
+
+func meanVariance(y []float64) (m, v float64) {
+	for _, x := range y {
+		m += x
+	}
+	m /= float64(len(y))
+	for _, x := range y {
+		v += (x - m) * (x - m)
+	}
+	return m, v / float64(len(y)-1)
+}
