@@ -533,3 +533,53 @@ func TestLocalPictures(t *testing.T) {
 		t.Errorf("--map x.gif: exit %d, want 2", o.code)
 	}
 }
+
+// The demo shows the spatially constrained p-value, the measured
+// false-positive rate and the recommendation, in text and JSON.
+func TestDemoHonestPValues(t *testing.T) {
+	o := runCLI(t, "", "demo", "--format", "json", "-n", "999", "--surrogates", "199", "--false-positive-check", "100")
+	if o.code != 0 {
+		t.Fatal(o.stderr)
+	}
+	var doc struct {
+		Tests []struct {
+			Scheme string
+			PValue float64 `json:"p_value"`
+		}
+		EffectiveSampleSize struct {
+			EffectiveSampleSize float64 `json:"effective_sample_size"`
+			Areas               int
+		} `json:"effective_sample_size"`
+		FalsePositiveRate struct {
+			Alpha, Rate float64
+			Interval    [2]float64
+			Surrogates  int
+		} `json:"false_positive_rate"`
+		Recommended struct{ Scheme, Reason string }
+		Warnings    []string
+	}
+	if err := json.Unmarshal([]byte(o.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Tests) != 3 || doc.Tests[2].Scheme != "spectral surrogates" {
+		t.Fatalf("schemes %+v", doc.Tests)
+	}
+	if doc.Tests[2].PValue <= doc.Tests[0].PValue {
+		t.Errorf("on the demo the spatially constrained p-value (%v) should exceed the free one (%v)", doc.Tests[2].PValue, doc.Tests[0].PValue)
+	}
+	if doc.FalsePositiveRate.Surrogates != 100 || doc.FalsePositiveRate.Interval[0] <= doc.FalsePositiveRate.Alpha {
+		t.Errorf("false-positive rate %+v", doc.FalsePositiveRate)
+	}
+	if e := doc.EffectiveSampleSize; e.EffectiveSampleSize <= 0 || e.EffectiveSampleSize >= float64(e.Areas) {
+		t.Errorf("effective sample size %+v", e)
+	}
+	if doc.Recommended.Scheme != "spectral surrogates" || !strings.Contains(strings.Join(doc.Warnings, " "), "Prefer the spatially constrained p-value") {
+		t.Errorf("recommended %+v, warnings %q", doc.Recommended, doc.Warnings)
+	}
+	// No spatial problem: alternating groups on the four squares.
+	layer := squares([]string{`"y":1,"g":"a"`, `"y":2,"g":"b"`, `"y":3,"g":"a"`, `"y":4,"g":"b"`, `"y":5,"g":"a"`, `"y":6,"g":"b"`})
+	o = runCLI(t, layer, "compare", "-i", "-", "-y", "y", "-g", "g", "--format", "json")
+	if o.code != 0 || strings.Contains(o.stdout, "Prefer the spatially constrained") || !strings.Contains(o.stdout, `"recommended"`) {
+		t.Errorf("no-problem case: %d %s", o.code, o.stderr)
+	}
+}

@@ -47,6 +47,7 @@ type compareFlags struct {
 	skipBadGeometry                   bool
 	covariates                        []string
 	zones                             string
+	surrogates, fpChecks, fpShuffles  int
 	weights                           weightFlags
 	// Set by options from the weight flags.
 	transform   weights.Transform
@@ -63,6 +64,9 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning, instead of stopping")
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
 	}
+	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none)")
+	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often the free shuffle cries wolf (0: none)")
+	fs.IntVar(&c.fpShuffles, "check-shuffles", 199, "free shuffles per surrogate in the false-positive check")
 	fs.StringVar(&c.zones, "zones", "auto", "without --strata, on 300 or more areas: also shuffle within automatic contiguous zones (auto), or not (none)")
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
@@ -108,6 +112,10 @@ func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
 		return opt, rule, usagef("--zones must be auto or none, not %q", c.zones)
 	}
 	opt.Zones = c.zones == "auto"
+	if c.surrogates < 0 || c.fpChecks < 0 || c.fpShuffles < 1 {
+		return opt, rule, usagef("--surrogates and --false-positive-check must not be negative, --check-shuffles at least 1")
+	}
+	opt.Surrogates, opt.FalsePositives, opt.FalsePositiveShuffles = c.surrogates, c.fpChecks, c.fpShuffles
 	if !(c.alpha > 0 && c.alpha < 1) {
 		return opt, rule, usagef("--alpha must be between 0 and 1")
 	}

@@ -51,7 +51,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), PValue(a.ClassicalP)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "shuffle", "p-value", "95% interval", "arrangements")
+	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
 	for _, t := range r.Tests {
 		interval := "exact"
 		count := Count(t.Permutations)
@@ -67,6 +67,11 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	b.WriteString("\n")
 
+	if f := r.FalsePositiveRate; f != nil {
+		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, the free shuffle (%s shuffles each) called %.1f%% significant at the %g level (95%% interval %.1f–%.1f%%); a sound test calls %g%%.",
+			Count(f.Surrogates), r.Input.Outcome, r.Input.Group, Count(f.Permutations), 100*f.Rate, f.Alpha, 100*f.Interval[0], 100*f.Interval[1], 100*f.Alpha), width, "  ", "  "))
+		b.WriteString("\n")
+	}
 	if e := r.EffectiveSampleSize; e != nil {
 		subject := r.Input.Group + "=" + e.Level
 		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %.0f areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, p = %s; the ordinary t-test, which counts every area as independent, gives p = %s. This tests the difference in means.",
@@ -92,6 +97,10 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	b.WriteString("\n")
 
+	if r.Recommended.Scheme != "" {
+		b.WriteString(Wrap(fmt.Sprintf("Read: %s, p = %s. %s", r.Recommended.Scheme, PValue(r.Recommended.PValue), r.Recommended.Reason), width, "  → ", "    "))
+		b.WriteString("\n")
+	}
 	if len(r.Warnings) > 0 {
 		b.WriteString("Warnings\n")
 		for _, wn := range r.Warnings {
@@ -118,7 +127,7 @@ func testFootnote(r *compare.Result) string {
 	if len(r.Statistic.Contrast) == 0 {
 		side = "One-sided by nature: only large values of " + r.Statistic.Label + " are evidence."
 	}
-	note := side + " Monte Carlo p = (1 + shuffles as extreme) / (1 + shuffles), with a 95% Clopper–Pearson interval for the p-value all arrangements would give; \"exact\" means every distinct arrangement was counted."
+	note := side + " Monte Carlo p = (1 + draws as extreme) / (1 + draws), with a 95% Clopper–Pearson interval for the p-value all arrangements would give; \"exact\" means every distinct arrangement was counted. Spectral surrogates are outcomes with the same mean, variance and Moran's I as the data but no link to the grouping (Wagner & Dray 2015)."
 	return note
 }
 

@@ -9,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -17,6 +18,7 @@ import (
 	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -78,6 +80,15 @@ type Options struct {
 	// Zones adds a shuffle within automatic contiguous zones when no strata
 	// are given and at least ZoneMinAreas areas are tested.
 	Zones bool
+	// Surrogates is the number of spectral surrogates of the outcome for
+	// the spatially constrained scheme (0: not run).
+	Surrogates int
+	// FalsePositives is the number of surrogates on which the free
+	// shuffle's false-positive rate is measured (0: not measured), with
+	// FalsePositiveShuffles shuffles each (0: 199).
+	FalsePositives, FalsePositiveShuffles int
+	// Basis tunes the eigenbasis of the surrogates.
+	Basis surrogate.Options
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)
@@ -114,6 +125,31 @@ type Result struct {
 	// EffectiveSampleSize is the modified t-test of outcome against
 	// grouping: how many independent areas the data are worth.
 	EffectiveSampleSize *EffectiveInfo `json:"effective_sample_size,omitempty"`
+	// Spectral describes the eigenbasis behind the spectral surrogates.
+	Spectral *SpectralInfo `json:"spectral_basis,omitempty"`
+	// FalsePositiveRate is the measured share of true nulls the free
+	// shuffle rejects on surrogates with the outcome's spatial pattern.
+	FalsePositiveRate *surrogate.FalsePositiveRate `json:"false_positive_rate,omitempty"`
+	// Recommended names the p-value to read and why.
+	Recommended Recommendation `json:"recommended"`
+}
+
+// SpectralInfo describes the eigenbasis of the spectral surrogates and how
+// faithfully surrogates keep the outcome's Moran's I.
+type SpectralInfo struct {
+	surrogate.Info
+	// ResidualShare is the share of the outcome's variance outside the
+	// stored eigenvectors (0 for a complete basis), MoranTolerance the
+	// guaranteed bound on how far a surrogate's Moran's I can move.
+	ResidualShare  float64 `json:"residual_share"`
+	MoranTolerance float64 `json:"morans_i_tolerance"`
+}
+
+// Recommendation is the p-value the tool advises reading.
+type Recommendation struct {
+	Scheme string  `json:"scheme"`
+	PValue float64 `json:"p_value"`
+	Reason string  `json:"reason"`
 }
 
 // CovariateInfo describes the Freedman–Lane adjustment.
@@ -373,13 +409,140 @@ func Run(in Input, opt Options) (*Result, error) {
 		}
 	}
 
+	if opt.Surrogates > 0 || opt.FalsePositives > 0 {
+		if t.fl != nil {
+			res.Warnings = append(res.Warnings, "Spectral surrogates and the false-positive check are not run with --covariates: the adjusted statistic would need surrogates of the residuals, which this version does not make.")
+		} else if err := spectral(in, opt, keep, y, lab, len(levels), stat, alt, res); err != nil {
+			return nil, err
+		}
+	}
 	if err := effectiveSize(in, keep, y, lab, len(levels), levels, opt, res); err != nil {
 		return nil, err
 	}
 	if err := spatialCheck(in, opt, keep, levels, y, lab, res); err != nil {
 		return nil, err
 	}
+	recommend(res, opt)
 	return res, nil
+}
+
+// spectral adds the spatially constrained scheme (Moran spectral
+// randomisation of the outcome, Wagner & Dray 2015) and measures the free
+// shuffle's false-positive rate on surrogates with the outcome's spatial
+// structure and no link to the grouping.
+func spectral(in Input, opt Options, keep []int, y []float64, lab []int32, k int,
+	stat groups.Statistic, alt shuffle.Alternative, res *Result) error {
+	// Every tested area enters; the basis sets islands apart (their values
+	// are permuted among themselves) unless they are kept.
+	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Transform, true)
+	if err != nil {
+		return err
+	}
+	bo := opt.Basis
+	bo.Seed, bo.KeepIslands = opt.Seed, in.KeepIslands
+	basis, err := surrogate.NewBasis(r.Graph, bo)
+	if err != nil {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("Spectral surrogates were skipped: %v.", err))
+		return nil
+	}
+	info := basis.Info()
+	o, err := basis.Prepare(y)
+	if err != nil {
+		return err
+	}
+	res.Spectral = &SpectralInfo{Info: info, ResidualShare: o.ResidualShare(), MoranTolerance: o.MoranTolerance()}
+	scale := 1.0
+	if stat.InOutcomeUnits() {
+		scale = slices.Max(y) - slices.Min(y)
+	}
+	if opt.Surrogates > 0 {
+		gs, err := surrogate.NewGroupStatistic(stat, lab, k)
+		if err != nil {
+			return err
+		}
+		sp, err := surrogate.GroupTest(o, gs, res.Statistic.Observed, shuffle.SurrogatePlan{
+			Scheme: SpectralScheme, Draws: opt.Surrogates, Seed: opt.Seed, Purpose: 4,
+			Workers: opt.Workers, Alternative: alt, Scale: scale, Progress: opt.progress("spectral surrogates")})
+		if err != nil {
+			return err
+		}
+		res.Tests = append(res.Tests, sp)
+	}
+	if opt.FalsePositives > 0 {
+		fpr, err := surrogate.FalsePositives(o, stat, lab, k, surrogate.FPROptions{
+			Surrogates: opt.FalsePositives, Permutations: opt.FalsePositiveShuffles, Alpha: opt.Alpha,
+			Alternative: alt, Seed: opt.Seed, Purpose: 5, Workers: opt.Workers,
+			Progress: opt.progress("false-positive check")})
+		if err != nil {
+			return err
+		}
+		res.FalsePositiveRate = &fpr
+	}
+	return nil
+}
+
+// SpectralScheme names the spatially constrained scheme in results.
+const SpectralScheme = "spectral surrogates"
+
+// recommend says which p-value to read, and why, and writes the warning
+// with its numbers when the free shuffle cannot be trusted.
+func recommend(res *Result, opt Options) {
+	find := func(prefix string) *shuffle.Result {
+		for k := range res.Tests {
+			if strings.HasPrefix(res.Tests[k].Scheme, prefix) {
+				return &res.Tests[k]
+			}
+		}
+		return nil
+	}
+	fpr := res.FalsePositiveRate
+	inflated := fpr != nil && fpr.Interval[0] > fpr.Alpha
+	suspect := res.Autocorrelation.Clustered || inflated
+	if !suspect {
+		res.Recommended = Recommendation{Scheme: res.Tests[0].Scheme, PValue: res.Tests[0].PValue,
+			Reason: "The outcome and the grouping do not both cluster in space, so neighbouring areas can be treated as separate evidence: the free shuffle's p-value is fine."}
+		if fpr != nil {
+			res.Recommended.Reason += fmt.Sprintf(" On %d surrogates with the outcome's spatial pattern it rejected %.1f%% of true nulls at the %g level.", fpr.Surrogates, 100*fpr.Rate, fpr.Alpha)
+		}
+		return
+	}
+	// The free shuffle is suspect: say so with numbers.
+	var b strings.Builder
+	out := res.Autocorrelation.Outcome
+	if len(res.Autocorrelation.Group) > 0 && res.Autocorrelation.Clustered {
+		g := res.Autocorrelation.Group[0]
+		for _, m := range res.Autocorrelation.Group {
+			if m.MoransI > g.MoransI {
+				g = m
+			}
+		}
+		fmt.Fprintf(&b, "Both the outcome %s (Moran's I %.2f) and the grouping %s (Moran's I %.2f) cluster in space. ", out.Variable, out.MoransI, g.Variable, g.MoransI)
+	} else {
+		b.WriteString("The outcome's spatial pattern makes the free shuffle unreliable here. ")
+	}
+	if e := res.EffectiveSampleSize; e != nil && !e.Capped {
+		fmt.Fprintf(&b, "The %d areas carry about %.0f areas' worth of independent information. ", e.Areas, e.EffectiveSampleSize)
+	}
+	if fpr != nil {
+		fmt.Fprintf(&b, "On %d outcomes with the same spatial pattern and no link to the grouping, the free shuffle called %.0f%% significant at the %g level (95%% interval %.0f–%.0f%%), where a sound test calls %g%%. ",
+			fpr.Surrogates, 100*fpr.Rate, fpr.Alpha, 100*fpr.Interval[0], 100*fpr.Interval[1], 100*fpr.Alpha)
+	} else {
+		b.WriteString("The free shuffle treats every area as independent evidence, so its p-value is likely too small. ")
+	}
+	if sp := find(SpectralScheme); sp != nil {
+		res.Recommended = Recommendation{Scheme: sp.Scheme, PValue: sp.PValue,
+			Reason: "Spectral surrogates keep the outcome's spatial pattern and break only its link to the grouping, so their p-value does not count neighbouring areas as separate evidence."}
+		b.WriteString("Prefer the spatially constrained p-value (spectral surrogates).")
+	} else if e := res.EffectiveSampleSize; e != nil {
+		res.Recommended = Recommendation{Scheme: "modified t-test", PValue: e.PValue,
+			Reason: "The modified t-test counts the areas by their effective number, not their raw number; it tests the difference in means."}
+		b.WriteString("Prefer the modified t-test's p-value, which uses the effective number of areas.")
+	} else {
+		res.Recommended = Recommendation{Scheme: res.Tests[len(res.Tests)-1].Scheme, PValue: res.Tests[len(res.Tests)-1].PValue,
+			Reason: "No spatially constrained test was run; the free shuffle's p-value is likely too small."}
+		b.WriteString("Treat the free shuffle's p-value as a lower bound, not as the strength of the evidence.")
+	}
+	res.Warnings = append(res.Warnings, b.String())
 }
 
 func missingCovariate(cs []Covariate, i int) string {
@@ -623,19 +786,11 @@ func spatialCheck(in Input, opt Options, keep []int, levels []string, y []float6
 		for _, m := range res.Autocorrelation.Group {
 			if significant(m) {
 				res.Autocorrelation.Clustered = true
-				res.Warnings = append(res.Warnings, clusterWarning(res, m))
 				break
 			}
 		}
 	}
 	return nil
-}
-
-func clusterWarning(res *Result, m VariableMoran) string {
-	return fmt.Sprintf("Both the outcome %s (Moran's I %.3f) and the grouping %s (Moran's I %.3f) cluster in space. "+
-		"Neighbouring areas resemble each other and tend to share a group, but the free shuffle treats all %d areas as independent pieces of evidence, "+
-		"so its p-value is likely too small. Treat it as a lower bound, not as the strength of the evidence.",
-		res.Autocorrelation.Outcome.Variable, res.Autocorrelation.Outcome.MoransI, m.Variable, m.MoransI, res.Input.Tested)
 }
 
 func moranOf(name string, x []float64, g *weights.Graph, plan shuffle.Plan) (VariableMoran, error) {

@@ -457,24 +457,7 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 		if nulls != nil {
 			r.Null = nulls[s]
 		}
-		finishMoments(r, t, B)
-		pg := float64(1+t.atLeast) / float64(1+B)
-		pl := float64(1+t.atMost) / float64(1+B)
-		r.PValue = combine(stats[s].Alternative, pg, pl)
-		loG, hiG := ClopperPearson(t.atLeast, B, 0.95)
-		loL, hiL := ClopperPearson(t.atMost, B, 0.95)
-		switch stats[s].Alternative {
-		case Greater:
-			r.Interval = [2]float64{loG, hiG}
-		case Less:
-			r.Interval = [2]float64{loL, hiL}
-		default:
-			if pg <= pl {
-				r.Interval = [2]float64{math.Min(1, 2*loG), math.Min(1, 2*hiG)}
-			} else {
-				r.Interval = [2]float64{math.Min(1, 2*loL), math.Min(1, 2*hiL)}
-			}
-		}
+		finishSampled(r, t, B, stats[s].Alternative)
 	}
 }
 
