@@ -40,7 +40,7 @@ func BenchmarkCompareWhole3000Strata(b *testing.B) {
 
 func benchCompare(b *testing.B, strata string) {
 	data := benchLayer(b, 3000)
-	c := compareFlags{outcome: "rate", group: "policy", strata: strata, alternative: "two-sided",
+	c := compareFlags{outcome: "rate", group: "policy", strata: strata, alternative: "two-sided", zones: "none", fpShuffles: 199,
 		permutations: 9999, seed: 1, workers: 2, alpha: 0.05, format: "text"}
 	c.weights = weightFlags{contiguity: "queen", points: "centroid", order: 1, transform: "row", islands: "drop", changed: func(string) bool { return false }}
 	opt, spec, err := c.options()
@@ -57,6 +57,36 @@ func benchCompare(b *testing.B, strata string) {
 		}
 		if _, err := compareLayer(lay, &c, opt, spec, io.Discard); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// Target (issue 6): compare with every scheme on 3,000 areas — 9,999
+// shuffles, 999 spectral surrogates, the false-positive check on 500
+// surrogates × 199 shuffles, the effective sample size, automatic zones —
+// ≤ 20 s.
+func BenchmarkCompareAllSchemes3000(b *testing.B) {
+	data := benchLayer(b, 3000)
+	c := compareFlags{outcome: "rate", group: "policy", alternative: "two-sided", zones: "auto",
+		permutations: 9999, surrogates: 999, fpChecks: 500, fpShuffles: 199, seed: 1, workers: 2, alpha: 0.05, format: "text"}
+	c.weights = weightFlags{contiguity: "queen", points: "centroid", order: 1, transform: "row", islands: "drop", changed: func(string) bool { return false }}
+	opt, spec, err := c.options()
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		lay, _, err := geojson.Read(bytes.NewReader(data), "bench.geojson", geojson.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		res, err := compareLayer(lay, &c, opt, spec, io.Discard)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(res.Tests) != 3 || res.FalsePositiveRate == nil {
+			b.Fatalf("%d schemes", len(res.Tests))
 		}
 	}
 }
