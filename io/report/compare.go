@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"math"
 	"strings"
 
 	"github.com/areatest/areatest/spatial/compare"
@@ -56,7 +57,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 		interval := "exact"
 		count := Count(t.Permutations)
 		if !t.Exact {
-			interval = PValue(t.Interval[0]) + " to " + PValue(t.Interval[1])
+			interval = bound(t.Interval[0]) + " to " + bound(t.Interval[1])
 		} else {
 			count += " (all)"
 		}
@@ -74,8 +75,8 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	if e := r.EffectiveSampleSize; e != nil {
 		subject := r.Input.Group + "=" + e.Level
-		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %.0f areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, p = %s; the ordinary t-test, which counts every area as independent, gives p = %s. This tests the difference in means.",
-			Count(e.Areas), e.EffectiveSampleSize, r.Input.Outcome, subject, Number(e.T), e.DF, PValue(e.PValue), PValue(e.OrdinaryPValue))
+		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, p = %s; the ordinary t-test, which counts every area as independent, gives p = %s. This tests the difference in means.",
+			Count(e.Areas), Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, PValue(e.PValue), PValue(e.OrdinaryPValue))
 		if e.Capped {
 			text += " (The estimate reached the number of areas, so no reduction was applied.)"
 		}
@@ -144,6 +145,15 @@ func permutationsAsked(r *compare.Result) int {
 		return r.Tests[0].Permutations
 	}
 	return 0
+}
+
+// bound writes an end of a p-value interval; 0 is a true end there, not
+// an underflow.
+func bound(p float64) string {
+	if p == 0 {
+		return "0"
+	}
+	return PValue(p)
 }
 
 // areas writes "1 area" or "12 areas".
