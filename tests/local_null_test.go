@@ -10,27 +10,9 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// rookLattice is the row-standardised rook graph of an m×m grid.
-func rookLattice(t *testing.T, m int) *weights.Graph {
-	t.Helper()
-	var pairs [][2]int32
-	for i := 0; i < m; i++ {
-		for j := 0; j < m; j++ {
-			k := int32(i*m + j)
-			if j+1 < m {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < m {
-				pairs = append(pairs, [2]int32{k, k + int32(m)})
-			}
-		}
-	}
-	g, err := weights.FromLinks(m*m, pairs, "rook lattice")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return g.RowStandardised()
-}
+// rookLattice is rook contiguity on an m×m grid (weights.Lattice, checked
+// against contiguity of square polygons in the weights tests).
+func rookLattice(t *testing.T, m int) *weights.Graph { return weights.Lattice(m, m, weights.Rook) }
 
 // iidLayer draws independent standard normal values: no spatial structure.
 func iidLayer(n int, layer uint64) []float64 {

@@ -1,6 +1,7 @@
 package weights
 
 import (
+	"slices"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -108,5 +109,16 @@ func TestRowStandardisedAndSubset(t *testing.T) {
 func TestFromLinksRejectsSelfLinks(t *testing.T) {
 	if _, err := FromLinks(2, [][2]int32{{1, 1}}, "x"); err == nil {
 		t.Fatal("self-link accepted")
+	}
+}
+
+// The lattice graph agrees with contiguity built from the square polygons.
+func TestLatticeMatchesPolygons(t *testing.T) {
+	for _, rule := range []Contiguity{Rook, Queen} {
+		want, _ := ContiguityGraph(lattice(6), rule)
+		got := Lattice(6, 6, rule)
+		if !slices.Equal(got.Offsets, want.Offsets) || !slices.Equal(got.Neighbours, want.Neighbours) {
+			t.Fatalf("%v: the lattice graph differs from contiguity of the squares", rule)
+		}
 	}
 }

@@ -11,27 +11,7 @@ import (
 )
 
 // queenLattice is queen contiguity on an m×m grid, binary weights.
-func queenLattice(tb testing.TB, m int) *weights.Graph {
-	var pairs [][2]int32
-	for i := 0; i < m; i++ {
-		for j := 0; j < m; j++ {
-			k := int32(i*m + j)
-			if j+1 < m {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < m {
-				pairs = append(pairs, [2]int32{k, k + int32(m)})
-				if j+1 < m {
-					pairs = append(pairs, [2]int32{k, k + int32(m) + 1})
-				}
-				if j > 0 {
-					pairs = append(pairs, [2]int32{k, k + int32(m) - 1})
-				}
-			}
-		}
-	}
-	return mustGraph(tb, m*m, pairs)
-}
+func queenLattice(tb testing.TB, m int) *weights.Graph { return weights.Lattice(m, m, weights.Queen) }
 
 // nearestGraph links each of n pseudo-random points to its k nearest
 // others: an irregular, asymmetric graph (i may be among j's nearest

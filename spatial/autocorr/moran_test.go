@@ -13,25 +13,7 @@ import (
 )
 
 // latticeGraph is rook contiguity on an r×c grid, binary weights.
-func latticeGraph(r, c int) *weights.Graph {
-	var pairs [][2]int32
-	for i := 0; i < r; i++ {
-		for j := 0; j < c; j++ {
-			k := int32(i*c + j)
-			if j+1 < c {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < r {
-				pairs = append(pairs, [2]int32{k, k + int32(c)})
-			}
-		}
-	}
-	g, err := weights.FromLinks(r*c, pairs, "rook contiguity")
-	if err != nil {
-		panic(err)
-	}
-	return g
-}
+func latticeGraph(r, c int) *weights.Graph { return weights.Lattice(r, c, weights.Rook) }
 
 func dense(g *weights.Graph) *mat.Dense {
 	n := g.Len()

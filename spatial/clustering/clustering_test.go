@@ -12,19 +12,7 @@ import (
 
 // lattice is rook contiguity on an r×c grid, with ids "a0", "a1", ….
 func lattice(r, c int) (*weights.Graph, []string) {
-	var pairs [][2]int32
-	for i := 0; i < r; i++ {
-		for j := 0; j < c; j++ {
-			k := int32(i*c + j)
-			if j+1 < c {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < r {
-				pairs = append(pairs, [2]int32{k, k + int32(c)})
-			}
-		}
-	}
-	g, _ := weights.FromLinks(r*c, pairs, "rook contiguity")
+	g := weights.Lattice(r, c, weights.Rook)
 	ids := make([]string, r*c)
 	for i := range ids {
 		ids[i] = "a" + string(rune('0'+i/100)) + string(rune('0'+i/10%10)) + string(rune('0'+i%10))

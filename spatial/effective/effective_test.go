@@ -14,27 +14,9 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// lattice returns the rook-contiguity graph of a rows×cols grid, areas
-// numbered row by row.
+// lattice is rook contiguity on a rows×cols grid, binary weights.
 func lattice(t testing.TB, rows, cols int) *weights.Graph {
-	t.Helper()
-	var pairs [][2]int32
-	for r := 0; r < rows; r++ {
-		for c := 0; c < cols; c++ {
-			i := int32(r*cols + c)
-			if c+1 < cols {
-				pairs = append(pairs, [2]int32{i, i + 1})
-			}
-			if r+1 < rows {
-				pairs = append(pairs, [2]int32{i, i + int32(cols)})
-			}
-		}
-	}
-	g, err := weights.FromLinks(rows*cols, pairs, "rook lattice")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return g
+	return weights.Lattice(rows, cols, weights.Rook)
 }
 
 // irregular is a small graph with the cases a lattice lacks: a chain, a

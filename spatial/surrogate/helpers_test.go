@@ -12,27 +12,8 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// lattice is the binary rook graph of an r×c grid of cells, cell (i, j) at
-// index i·c + j.
-func lattice(tb testing.TB, r, c int) *weights.Graph {
-	var pairs [][2]int32
-	for i := 0; i < r; i++ {
-		for j := 0; j < c; j++ {
-			k := int32(i*c + j)
-			if j+1 < c {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < r {
-				pairs = append(pairs, [2]int32{k, k + int32(c)})
-			}
-		}
-	}
-	g, err := weights.FromLinks(r*c, pairs, "rook contiguity")
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return g
-}
+// lattice is rook contiguity on an r×c grid, binary weights.
+func lattice(tb testing.TB, r, c int) *weights.Graph { return weights.Lattice(r, c, weights.Rook) }
 
 // irregular is an r×c rook lattice with a share of its links dropped and
 // some diagonal (queen) links added at random, so that no symmetry of the
