@@ -48,8 +48,8 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	b.WriteString("\n")
 
 	if a := r.Adjusted; a != nil {
-		b.WriteString(Wrap(fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical p = %s. The shuffles below test this adjusted statistic.",
-			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), PValue(a.ClassicalP)), width, "  ", "  "))
+		b.WriteString(Wrap(fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical %s. The shuffles below test this adjusted statistic.",
+			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), pEquals(a.ClassicalP)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
@@ -75,8 +75,8 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	if e := r.EffectiveSampleSize; e != nil {
 		subject := r.Input.Group + "=" + e.Level
-		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, p = %s; the ordinary t-test, which counts every area as independent, gives p = %s. This tests the difference in means.",
-			Count(e.Areas), Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, PValue(e.PValue), PValue(e.OrdinaryPValue))
+		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, %s; the ordinary t-test, which counts every area as independent, gives %s. This tests the difference in means.",
+			Count(e.Areas), Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, pEquals(e.PValue), pEquals(e.OrdinaryPValue))
 		if e.Capped {
 			text += " (The estimate reached the number of areas, so no reduction was applied.)"
 		}
@@ -99,7 +99,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	b.WriteString("\n")
 
 	if r.Recommended.Scheme != "" {
-		b.WriteString(Wrap(fmt.Sprintf("Read: %s, p = %s. %s", r.Recommended.Scheme, PValue(r.Recommended.PValue), r.Recommended.Reason), width, "  → ", "    "))
+		b.WriteString(Wrap(fmt.Sprintf("Read: %s, %s. %s", r.Recommended.Scheme, pEquals(r.Recommended.PValue), r.Recommended.Reason), width, "  → ", "    "))
 		b.WriteString("\n")
 	}
 	if len(r.Warnings) > 0 {
@@ -145,6 +145,14 @@ func permutationsAsked(r *compare.Result) int {
 		return r.Tests[0].Permutations
 	}
 	return 0
+}
+
+// pEquals writes "p = 0.0123", or "p < 1e-15" far in a tail.
+func pEquals(p float64) string {
+	if p == 0 {
+		return "p < 1e-15"
+	}
+	return "p = " + PValue(p)
 }
 
 // bound writes an end of a p-value interval; 0 is a true end there, not
