@@ -65,3 +65,38 @@ func TestEvaluatorsDoNotAllocate(t *testing.T) {
 		}
 	}
 }
+
+// Reprepare gives exactly what Prepare gives on the new outcome, reaches
+// evaluators made before it, and allocates nothing.
+func TestReprepare(t *testing.T) {
+	lab := []int32{0, 1, 0, 1, 2, 2, 0, 1, 2, 0, 1, 1}
+	y1 := []float64{1, 5, 2, 8, 3, 3, 9, 4, 7, 6, 2, 5}
+	y2 := []float64{4, 4, 1, 7, 7, 2, 0.5, 3, 9, 9, 9, 1}
+	two := []int32{0, 1, 0, 1, 1, 1, 0, 1, 0, 0, 1, 0}
+	for s := DiffMedians; s <= OneWayF; s++ {
+		l := lab
+		k := 3
+		if s.TwoGroupsOnly() {
+			l, k = two, 2
+		}
+		d, err := Prepare(y1, l, k)
+		if err != nil {
+			t.Fatal(err)
+		}
+		eval := d.Factory(s)()
+		if err := d.Reprepare(y2); err != nil {
+			t.Fatal(err)
+		}
+		fresh, _ := Prepare(y2, l, k)
+		if got, want := eval(d.Labels), fresh.Observed(s); got != want {
+			t.Errorf("%s: after Reprepare %v, fresh Prepare %v", s, got, want)
+		}
+		if a := testing.AllocsPerRun(50, func() { d.Reprepare(y1) }); a != 0 {
+			t.Errorf("Reprepare allocates %v times", a)
+		}
+	}
+	d, _ := Prepare(y1, two, 2)
+	if err := d.Reprepare(y1[:5]); err == nil {
+		t.Error("a shorter outcome was accepted")
+	}
+}

@@ -9,9 +9,10 @@
 package groups
 
 import (
+	"cmp"
 	"fmt"
 	"math"
-	"sort"
+	"slices"
 
 	"github.com/areatest/areatest/spatial/shuffle"
 )
@@ -100,6 +101,9 @@ type Data struct {
 	centred []float64
 	ssTotal float64
 	mean    float64
+	// areaLabels is each area's group in area order, fixed for the life of
+	// the Data (Reprepare changes only the outcome).
+	areaLabels []int32
 }
 
 // Prepare sorts the outcome once. labels[i] in 0..k−1 is the group of area i.
@@ -113,31 +117,54 @@ func Prepare(y []float64, labels []int32, k int) (*Data, error) {
 		return nil, fmt.Errorf("groups: need at least two groups, have %d", k)
 	}
 	d := &Data{Y: make([]float64, n), Ranks: make([]float64, n), Labels: make([]int32, n),
-		Order: make([]int, n), K: k, Sizes: make([]int, k), centred: make([]float64, n)}
-	for i := range d.Order {
-		d.Order[i] = i
-		v := y[i]
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("groups: value %d is %v", i, v)
+		Order: make([]int, n), K: k, Sizes: make([]int, k), centred: make([]float64, n),
+		areaLabels: append([]int32(nil), labels...)}
+	for _, l := range labels {
+		if l < 0 || int(l) >= k {
+			return nil, fmt.Errorf("groups: label %d out of range", l)
 		}
-		if labels[i] < 0 || int(labels[i]) >= k {
-			return nil, fmt.Errorf("groups: label %d out of range", labels[i])
-		}
-		d.Sizes[labels[i]]++
+		d.Sizes[l]++
 	}
 	for g, s := range d.Sizes {
 		if s < 2 {
 			return nil, fmt.Errorf("groups: group %d has %d area(s); each group needs at least 2", g, s)
 		}
 	}
-	sort.SliceStable(d.Order, func(a, b int) bool { return y[d.Order[a]] < y[d.Order[b]] })
+	return d, d.fill(y)
+}
+
+// Reprepare replaces the outcome by y, keeping each area's group, and sorts
+// it into the same storage. Evaluators made by Factory before the call see
+// the new outcome: they read the data when they run. The spatially
+// constrained nulls use it to test one grouping on many surrogate outcomes
+// without allocating.
+func (d *Data) Reprepare(y []float64) error {
+	if len(y) != len(d.Y) {
+		return fmt.Errorf("groups: %d values for %d areas", len(y), len(d.Y))
+	}
+	return d.fill(y)
+}
+
+// fill sorts y (ties kept in area order) and computes everything the
+// statistics read: sorted values and labels, centred values, their total
+// sum of squares, mid-ranks and the tie term.
+func (d *Data) fill(y []float64) error {
+	for i, v := range y {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("groups: value %d is %v", i, v)
+		}
+		d.Order[i] = i
+	}
+	slices.SortStableFunc(d.Order, func(a, b int) int { return cmp.Compare(y[a], y[b]) })
+	n := len(y)
 	var sum float64
 	for i, o := range d.Order {
 		d.Y[i] = y[o]
-		d.Labels[i] = labels[o]
+		d.Labels[i] = d.areaLabels[o]
 		sum += y[o]
 	}
 	d.mean = sum / float64(n)
+	d.ssTotal, d.tieTerm = 0, 0
 	for i, v := range d.Y {
 		d.centred[i] = v - d.mean
 		d.ssTotal += d.centred[i] * d.centred[i]
@@ -155,7 +182,7 @@ func Prepare(y []float64, labels []int32, k int) (*Data, error) {
 		d.tieTerm += t*t*t - t
 		i = j
 	}
-	return d, nil
+	return nil
 }
 
 // Value computes the statistic for an arrangement of labels (in sorted
@@ -245,10 +272,12 @@ func (d *Data) Factory(s Statistic) shuffle.Factory {
 		}
 	case KruskalWallis:
 		N := float64(n)
-		correction := 1 - d.tieTerm/(N*N*N-N)
 		return func() shuffle.Evaluator {
 			sums := make([]float64, d.K)
 			return func(lab []int32) float64 {
+				// The tie correction is read here, not when the factory is
+				// made, because Reprepare can change the ties.
+				correction := 1 - d.tieTerm/(N*N*N-N)
 				h := d.betweenGroups(lab, d.Ranks, sums)
 				h = 12/(N*(N+1))*h - 3*(N+1)
 				if correction <= 0 { // every value tied: no information

@@ -113,13 +113,19 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 			defer wg.Done()
 			s := o.b.NewScratch()
 			y := make([]float64, n)
+			// One groups.Data per worker, re-sorted for each surrogate.
+			data, err := groups.Prepare(y, labels, k)
+			if err != nil {
+				errs[0] = err
+				return
+			}
 			var rng shuffle.Stream
 			for b := range next {
 				rng.Reset(opt.Seed, opt.Purpose, b)
 				lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
 				for d := lo; d < hi; d++ {
 					o.Draw(&rng, y, s)
-					p, err := freeShuffle(y, labels, k, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
+					p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
 					if err != nil {
 						errs[b] = err
 						break
@@ -150,11 +156,10 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 }
 
 // freeShuffle is the comparison's free shuffle test of one outcome: the
-// outcome sorted once by groups.Prepare, labels shuffled B times, the tie
-// scale the range of the outcome. It returns the p-value.
-func freeShuffle(y []float64, labels []int32, k int, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
-	d, err := groups.Prepare(y, labels, k)
-	if err != nil {
+// outcome sorted once into d (groups.Data.Reprepare), labels shuffled B
+// times, the tie scale the range of the outcome. It returns the p-value.
+func freeShuffle(d *groups.Data, y []float64, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
+	if err := d.Reprepare(y); err != nil {
 		return 0, err
 	}
 	scale := 1.0

@@ -2,7 +2,6 @@ package surrogate
 
 import (
 	"math"
-	"slices"
 	"testing"
 
 	"github.com/areatest/areatest/spatial/groups"
@@ -80,35 +79,5 @@ func TestGroupEvaluatorAllocatesNothing(t *testing.T) {
 	}
 	if _, err := NewGroupStatistic(groups.KruskalWallis, []int32{0, 1, 1, 1}, 2); err == nil {
 		t.Error("a group of one accepted")
-	}
-}
-
-// Selection agrees with sorting on random and adversarial inputs.
-func TestSelectKth(t *testing.T) {
-	rng := shuffle.NewStream(8, 8, 0)
-	for trial := 0; trial < 500; trial++ {
-		n := 1 + rng.IntN(40)
-		x := make([]float64, n)
-		for i := range x {
-			switch trial % 4 {
-			case 0:
-				x[i] = rng.Float64()
-			case 1:
-				x[i] = float64(rng.IntN(3))
-			case 2:
-				x[i] = float64(i)
-			default:
-				x[i] = float64(n - i)
-			}
-		}
-		sorted := slices.Clone(x)
-		slices.Sort(sorted)
-		k := rng.IntN(n)
-		if got := selectKth(slices.Clone(x), k); got != sorted[k] {
-			t.Fatalf("%v: %d-th %v, sorted %v", x, k, got, sorted[k])
-		}
-		if got, want := middleSum(slices.Clone(x)), sorted[(n-1)/2]+sorted[n/2]; got != want {
-			t.Fatalf("%v: middle sum %v, want %v", x, got, want)
-		}
 	}
 }
