@@ -18,10 +18,13 @@ import (
 
 const compareUsage = `areatest compare: does an outcome differ between groups of areas beyond chance?
 
-Reads a layer of areas, shuffles the group labels across areas (freely, and
-within strata when asked) to see where the observed difference falls, and
-checks with Moran's I whether the outcome and the grouping cluster in space,
-which is when a free shuffle overstates significance.
+Reads a layer of areas and tests the difference between groups against
+several null models side by side: shuffles of the group labels (freely, and
+within strata or automatic contiguous zones), and spectral surrogates of the
+outcome that keep its spatial pattern. It checks with Moran's I whether the
+outcome and the grouping cluster in space, estimates how many independent
+areas the data are worth, measures how often the free shuffle would cry wolf
+on outcomes like this one, and says which p-value to read.
 
 Usage:
   areatest compare --input FILE --outcome COLUMN --group COLUMN [flags]
