@@ -1,7 +1,9 @@
 package weights
 
 import (
+	"errors"
 	"fmt"
+	"math"
 	"sort"
 	"sync/atomic"
 
@@ -155,4 +157,69 @@ func (r ptsRow) Less(a, b int) bool { return r.nb[a] < r.nb[b] }
 func (r ptsRow) Swap(a, b int) {
 	r.nb[a], r.nb[b] = r.nb[b], r.nb[a]
 	r.w[a], r.w[b] = r.w[b], r.w[a]
+}
+
+// DistanceClasses returns the binary graphs of the distance classes of a
+// correlogram: class c (c = 1..k) links the areas whose points lie more than
+// (c−1)·width and at most c·width apart. A class with no pair is an empty
+// graph, not an error.
+func DistanceClasses(pts []orb.Point, width float64, k int, m Metric) ([]*Graph, error) {
+	if !(width > 0) || math.IsInf(width, 0) {
+		return nil, fmt.Errorf("weights: the width of the distance classes must be a positive distance, not %v", width)
+	}
+	if k < 1 {
+		return nil, fmt.Errorf("weights: need at least one distance class, not %d", k)
+	}
+	unit := m.Unit()
+	if unit == "" {
+		unit = "layer units"
+	}
+	var out []*Graph
+	var previous *Graph
+	for c := 1; c <= k; c++ {
+		band, err := DistanceBand(pts, float64(c)*width, m)
+		var none *NoNeighboursError
+		if errors.As(err, &none) {
+			band, _ = FromLinks(len(pts), nil, "")
+		} else if err != nil {
+			return nil, err
+		}
+		class := band
+		if previous != nil {
+			class = withoutLinksOf(band, previous)
+		}
+		class.Kind = fmt.Sprintf("distance class %g–%g %s", float64(c-1)*width, float64(c)*width, unit)
+		class.Transform = string(Binary)
+		out = append(out, class)
+		previous = band
+	}
+	return out, nil
+}
+
+// withoutLinksOf returns the links of g that are not links of h (both with
+// sorted rows), as a binary graph.
+func withoutLinksOf(g, h *Graph) *Graph {
+	n := g.Len()
+	offsets := make([]int32, n+1)
+	var nb []int32
+	for i := 0; i < n; i++ {
+		a, _ := g.Row(i)
+		b, _ := h.Row(i)
+		k := 0
+		for _, j := range a {
+			for k < len(b) && b[k] < j {
+				k++
+			}
+			if k < len(b) && b[k] == j {
+				continue
+			}
+			nb = append(nb, j)
+		}
+		offsets[i+1] = int32(len(nb))
+	}
+	w := make([]float64, len(nb))
+	for k := range w {
+		w[k] = 1
+	}
+	return &Graph{Offsets: offsets, Neighbours: nb, Weights: w}
 }

@@ -209,3 +209,35 @@ func TestInverseDistanceErrors(t *testing.T) {
 		t.Errorf("all pairs of 7,072 areas: %v", err)
 	}
 }
+
+// Distance classes partition the pairs: every pair within k·width falls in
+// exactly one class, the one its distance (found by brute force) says.
+func TestDistanceClassesPartitionPairs(t *testing.T) {
+	var pts []orb.Point
+	for i := 0; i < 9; i++ {
+		for j := 0; j < 9; j++ {
+			pts = append(pts, orb.Point{float64(i) + 0.1*float64(j%3), float64(j)})
+		}
+	}
+	classes, err := DistanceClasses(pts, 1.5, 4, Planar)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for a := range pts {
+		for b := range pts {
+			if a == b {
+				continue
+			}
+			d := Distance(Planar, pts[a], pts[b])
+			want := int(math.Ceil(d/1.5)) - 1 // class index, 0-based
+			for c, g := range classes {
+				if got := weightOf(g, a, int32(b)) > 0; got != (c == want) {
+					t.Fatalf("pair %d–%d at %v: in class %d is %v", a, b, d, c+1, got)
+				}
+			}
+		}
+	}
+	if _, err := DistanceClasses(pts, 0, 3, Planar); err == nil {
+		t.Fatal("zero width accepted")
+	}
+}

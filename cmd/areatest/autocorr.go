@@ -12,6 +12,7 @@ import (
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
 )
 
 const autocorrUsage = `areatest autocorr: does a variable cluster in space, and how strongly?
@@ -29,6 +30,7 @@ Usage:
 Examples:
   areatest autocorr --input counties.geojson --variables rate,income
   areatest autocorr -i counties.geojson --variables income --lags 4
+  areatest autocorr -i counties.geojson --variables income --lags 6 --lag-width 25
   areatest autocorr -i counties.geojson --variables income --against rate
   areatest autocorr -i counties.geojson --events cases --population pop
   areatest autocorr -i counties.geojson --variables policy --knn 6 --format json
@@ -116,12 +118,14 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	var variables []string
 	var against, events, population string
 	var lags int
+	var lagWidth float64
 	fs := newFlags("autocorr", autocorrUsage, stderr)
 	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
 	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
 	fs.StringVar(&events, "events", "", "column of event counts: test the rate events/population")
 	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
-	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K")
+	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
+	fs.Float64Var(&lagWidth, "lag-width", 0, "with --lags: distance classes of this width (km on lon/lat layers) instead of neighbour orders")
 	c.register(fs, "text or json")
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -134,6 +138,9 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	}
 	if lags < 0 {
 		return usagef("--lags must not be negative")
+	}
+	if lagWidth < 0 || (lagWidth > 0 && lags == 0) {
+		return usagef("--lag-width is a positive distance and goes with --lags")
 	}
 	lay, in, opt, err := c.prepare("autocorr", stdin, stderr, "text", "json")
 	if err != nil {
@@ -164,6 +171,21 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		}
 	}
 	in.Lags = lags
+	if lagWidth > 0 {
+		in.Lags = 0
+		spec, _, _, _ := c.weights.spec()
+		pts, err := weights.RepresentativePoints(lay.Geoms, spec.Points)
+		if err != nil {
+			return fmt.Errorf("%s: %v", lay.Source, err)
+		}
+		metric := weights.DetectMetric(lay.Geoms)
+		if spec.Planar {
+			metric = weights.Planar
+		}
+		if in.DistanceClasses, err = weights.DistanceClasses(pts, lagWidth, lags, metric); err != nil {
+			return fmt.Errorf("%s: %v", lay.Source, err)
+		}
+	}
 	bar := newProgress(stderr)
 	opt.Progress = bar.stage
 	res, err := clustering.Autocorr(in, opt)

@@ -56,9 +56,9 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 			b.WriteString(Wrap("General G skipped: "+v.GeneralGSkipped+".", width, "  ", "  "))
 		}
 		if len(v.Correlogram) > 0 {
-			fmt.Fprintf(&b, "  correlogram %9s %9s %9s %10s\n", "pairs", "Moran's I", "expected", "p shuffle")
-			for _, l := range v.Correlogram {
-				fmt.Fprintf(&b, "  order %-5d %9s %9.3f %9.3f %10s\n", l.Order, Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
+			fmt.Fprintf(&b, "  %-30s %9s %9s %9s %10s\n", "correlogram", "pairs", "Moran's I", "expected", "p shuffle")
+			for k, l := range v.Correlogram {
+				fmt.Fprintf(&b, "  %-30s %9s %9.3f %9.3f %10s\n", truncate(v.CorrelogramClasses[k], 30), Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
 			}
 		}
 		b.WriteString("\n")

@@ -135,6 +135,31 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 		if v.Correlogram, err = autocorr.Correlogram(x, usable, plan(opt, purpose+4, alt)); err != nil {
 			return v, named(err, col.Name)
 		}
+		for k := range v.Correlogram {
+			v.CorrelogramClasses = append(v.CorrelogramClasses, fmt.Sprintf("order %d", k+1))
+		}
+	}
+	if len(in.DistanceClasses) > 0 {
+		var usable []*weights.Graph
+		var names []string
+		for _, class := range in.DistanceClasses {
+			g, err := class.Subset(keep).Subset(r.Used).Transformed(weights.Transform(r.Summary.Transform))
+			if err != nil {
+				return v, named(err, col.Name)
+			}
+			if g.Links() == 0 {
+				res.Warnings = append(res.Warnings, fmt.Sprintf("%s: no two areas with a value fall in the %s; the correlogram leaves it out.", col.Name, class.Kind))
+				continue
+			}
+			usable = append(usable, g)
+			names = append(names, class.Kind)
+		}
+		if len(usable) > 0 {
+			if v.Correlogram, err = autocorr.Correlogram(x, usable, plan(opt, purpose+4, alt)); err != nil {
+				return v, named(err, col.Name)
+			}
+			v.CorrelogramClasses = names
+		}
 	}
 	return v, nil
 }

@@ -49,6 +49,10 @@ type Input struct {
 	Events, Population *Column
 	// Lags > 0 adds a correlogram over neighbour orders 1..Lags.
 	Lags int
+	// DistanceClasses, when given (binary graphs of all areas, class by
+	// class, e.g. from weights.DistanceClasses), make the correlogram run
+	// over these distance classes instead of neighbour orders.
+	DistanceClasses []*weights.Graph
 }
 
 // Options tune the permutation tests.
@@ -97,10 +101,13 @@ type Variable struct {
 	GearysC  Statistic       `json:"gearys_c"`
 	GeneralG *Statistic      `json:"general_g,omitempty"`
 	// GeneralGSkipped says why General G was not computed.
-	GeneralGSkipped string           `json:"general_g_skipped,omitempty"`
-	Bivariate       *Bivariate       `json:"bivariate,omitempty"`
-	Correlogram     []autocorr.Lag   `json:"correlogram,omitempty"`
-	Weights         *weights.Summary `json:"weights,omitempty"`
+	GeneralGSkipped string         `json:"general_g_skipped,omitempty"`
+	Bivariate       *Bivariate     `json:"bivariate,omitempty"`
+	Correlogram     []autocorr.Lag `json:"correlogram,omitempty"`
+	// CorrelogramClasses names the classes of the correlogram, one per lag
+	// ("order 2", "distance class 0–25 km").
+	CorrelogramClasses []string         `json:"correlogram_classes,omitempty"`
+	Weights            *weights.Summary `json:"weights,omitempty"`
 }
 
 // Bivariate is the bivariate Moran's I of a variable against the spatial lag

@@ -5,6 +5,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/paulmach/orb"
+
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
@@ -147,5 +149,37 @@ func TestScreen(t *testing.T) {
 		if r.MoranPAdjusted != adj[k] {
 			t.Errorf("%s: adjusted %v, want %v", r.Name, r.MoranPAdjusted, adj[k])
 		}
+	}
+}
+
+// A correlogram over distance classes uses the class graphs cut to the areas
+// with values: on a lattice with unit spacing, the class (0, 1] is rook
+// contiguity, so its Moran's I equals order 1's.
+func TestDistanceClassCorrelogram(t *testing.T) {
+	g, ids := lattice(6, 6)
+	var pts []orb.Point
+	for i := 0; i < 36; i++ {
+		pts = append(pts, orb.Point{float64(i % 6), float64(i / 6)})
+	}
+	classes, err := weights.DistanceClasses(pts, 1, 3, weights.Planar)
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := column("x", 36, func(i int) float64 { return float64(i%6) + 0.5*float64(i/6) })
+	x.Missing[14] = true
+	byOrder, err := Autocorr(Input{IDs: ids, Graph: g, Numeric: []Column{x}, Lags: 1}, quick)
+	if err != nil {
+		t.Fatal(err)
+	}
+	byDistance, err := Autocorr(Input{IDs: ids, Graph: g, Numeric: []Column{x}, DistanceClasses: classes}, quick)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o, d := byOrder.Variables[0], byDistance.Variables[0]
+	if len(d.Correlogram) != 3 || d.CorrelogramClasses[0] != "distance class 0–1 layer units" {
+		t.Fatalf("classes %v", d.CorrelogramClasses)
+	}
+	if math.Abs(o.Correlogram[0].MoransI-d.Correlogram[0].MoransI) > 1e-12 {
+		t.Fatalf("class (0,1] I %v, order 1 I %v", d.Correlogram[0].MoransI, o.Correlogram[0].MoransI)
 	}
 }
