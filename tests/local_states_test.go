@@ -61,7 +61,7 @@ func loadLocalRefs(t *testing.T) *localRefs {
 }
 
 var refKinds = map[string]local.Kind{
-	"moran": local.Moran, "bivariate": local.BivariateMoran, "geary": local.Geary,
+	"moran": local.Moran, "bivariate": local.CrossMoran, "geary": local.Geary,
 	"gi": local.Gi, "gistar": local.GiStar,
 }
 
@@ -71,7 +71,7 @@ func localClose(a, b, tol float64) bool {
 
 // On the US states layer (the 49 states with a queen neighbour; centroid
 // latitude, and the empirical-Bayes engineer rate as the second variable of
-// the bivariate form), every local statistic equals numpy's dense
+// the cross form), every local statistic equals numpy's dense
 // computation from the published formulas (testdata/scipy/local_refs.json),
 // and Σ_i I_i = S0 · I (Anselin 1995, the sum identity after eq. 12) with I
 // from gonum's stat/spatial.GlobalMoransI, for binary and
@@ -92,7 +92,7 @@ func TestLocalStatesAgainstNumpy(t *testing.T) {
 				t.Fatal(err)
 			}
 			var yy []float64
-			if kind == local.BivariateMoran {
+			if kind == local.CrossMoran {
 				yy = y
 			}
 			got, err := local.Statistic(kind, x, yy, g)
@@ -202,7 +202,7 @@ func TestLocalExactAgainstNumpy(t *testing.T) {
 		for key, kind := range refKinds {
 			refs := lr.Tiny.Weights[name][key]
 			var y []float64
-			if kind == local.BivariateMoran {
+			if kind == local.CrossMoran {
 				y = lr.Tiny.Y
 			}
 			for _, alt := range alts {

@@ -23,7 +23,7 @@ permutation: the area keeps its own value while its neighbours' values are
 drawn from the other areas. P-values are adjusted across areas
 (Benjamini–Hochberg by default) and each area gets a category.
 
-Statistics: moran (local Moran, default), bivariate-moran (with --against),
+Statistics: moran (local Moran, default), cross-moran (with --against),
 geary (local Geary), gi and gi-star (Getis–Ord).
 
 Usage:
@@ -34,7 +34,7 @@ Examples:
   areatest local -i counties.geojson --variable rate --out clusters.geojson --map clusters.png
   areatest local -i counties.geojson --variable rate --out clusters.csv --adjust holm
   areatest local -i counties.geojson --variable rate --statistic gi-star --knn 8
-  areatest local -i counties.geojson --variable income --against rate --statistic bivariate-moran
+  areatest local -i counties.geojson --variable income --against rate --statistic cross-moran
   areatest local -i counties.geojson --variable rate --histogram d017.svg --area D017
 `
 
@@ -48,8 +48,8 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var top int
 	fs := newFlags("local", localUsage, stderr)
 	fs.StringVar(&variable, "variable", "", "numeric column to analyse")
-	fs.StringVar(&against, "against", "", "with --statistic bivariate-moran: the column whose neighbours' values are compared")
-	fs.StringVar(&statistic, "statistic", "moran", "moran, bivariate-moran, geary, gi or gi-star")
+	fs.StringVar(&against, "against", "", "with --statistic cross-moran: the column whose neighbours' values are compared")
+	fs.StringVar(&statistic, "statistic", "moran", "moran, cross-moran, geary, gi or gi-star")
 	fs.StringVar(&adjust, "adjust", "bh", "adjustment across areas: bh (Benjamini–Hochberg), by, holm, bonferroni or none")
 	fs.Float64Var(&alpha, "alpha", 0.05, "level at which an area counts as significant")
 	fs.StringVar(&categoriesFrom, "categories", "adjusted", "categories from the adjusted or the raw p-values")
@@ -73,8 +73,8 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usagef("--statistic: %v", err)
 	}
-	if (kind == local.BivariateMoran) != (against != "") {
-		return usagef("--against goes with --statistic bivariate-moran, and that statistic needs it")
+	if (kind == local.CrossMoran) != (against != "") {
+		return usagef("--against goes with --statistic cross-moran, and that statistic needs it")
 	}
 	method, err := shuffle.ParseMethod(adjust)
 	if err != nil {

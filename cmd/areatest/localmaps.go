@@ -32,7 +32,7 @@ func legendFor(kind local.Kind) ([]plot.Category, map[string]int) {
 	pal := plot.LocalCategories()
 	var legend []plot.Category
 	switch kind {
-	case local.Moran, local.BivariateMoran:
+	case local.Moran, local.CrossMoran:
 		legend = []plot.Category{
 			{Name: local.HighHigh + ": high, neighbours high", Color: pal[plot.HighHigh].Color},
 			{Name: local.LowLow + ": low, neighbours low", Color: pal[plot.LowLow].Color},
@@ -65,7 +65,7 @@ func legendFor(kind local.Kind) ([]plot.Category, map[string]int) {
 
 func categoryKeys(kind local.Kind) []string {
 	switch kind {
-	case local.Moran, local.BivariateMoran:
+	case local.Moran, local.CrossMoran:
 		return []string{local.HighHigh, local.LowLow, local.HighLow, local.LowHigh}
 	case local.Geary:
 		return []string{local.SimilarHigh, local.SimilarLow, local.SimilarMixed, local.Dissimilar}
@@ -124,8 +124,8 @@ func (p localPictures) draw(lay *layer.Layer, doc *report.LocalDocument, kind lo
 		}
 	}
 	if p.scatter != "" {
-		if kind != local.Moran && kind != local.BivariateMoran {
-			return usagef("--scatter draws the Moran scatter, for --statistic moran or bivariate-moran")
+		if kind != local.Moran && kind != local.CrossMoran {
+			return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
 		}
 		legend, index := legendFor(kind)
 		z := make([]float64, len(results))

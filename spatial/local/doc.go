@@ -1,5 +1,6 @@
 // Package local computes a statistic for every area — local Moran, its
-// bivariate form, local Geary, Getis–Ord Gi and Gi* — and tests each one by
+// cross form (x at the area, y at its neighbours), local Geary, Getis–Ord
+// Gi and Gi* — and tests each one by
 // conditional permutation through the shared shuffle machinery
 // (shuffle.RunLocal): the area keeps its own value and the other values are
 // drawn into its neighbour slots (Anselin 1995, Geogr. Anal. 27:93–115).

@@ -64,7 +64,7 @@ func meanSD(x []float64) (mean, sd float64) {
 
 // direct computes every statistic straight from its published formula, on
 // a dense matrix and with no shared code: local Moran (Anselin 1995,
-// eq. 12), bivariate local Moran, local Geary (Anselin 2019) and the
+// eq. 12), cross local Moran, local Geary (Anselin 2019) and the
 // Ord & Getis (1995) Gi and Gi* z-scores, Gi with the mean and variance of
 // the other n−1 values.
 func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
@@ -74,10 +74,10 @@ func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
 	out := make([]float64, n)
 	for i := 0; i < n; i++ {
 		switch kind {
-		case Moran, BivariateMoran, Geary:
+		case Moran, CrossMoran, Geary:
 			my, sy := mx, sx
 			v := x
-			if kind == BivariateMoran {
+			if kind == CrossMoran {
 				my, sy = meanSD(y)
 				v = y
 			}
@@ -139,7 +139,7 @@ func TestStatisticsAgainstFormulas(t *testing.T) {
 		w := denseW(g)
 		for k := Moran; k <= GiStar; k++ {
 			var yy []float64
-			if k == BivariateMoran {
+			if k == CrossMoran {
 				yy = y
 			}
 			got, err := Statistic(k, x, yy, g)
@@ -386,7 +386,7 @@ func TestMonteCarloCoversExact(t *testing.T) {
 	for _, g := range []*weights.Graph{b, b.RowStandardised(), unequal(t, b)} {
 		for k := Moran; k <= GiStar; k++ {
 			var yy []float64
-			if k == BivariateMoran {
+			if k == CrossMoran {
 				yy = y
 			}
 			for _, alt := range []shuffle.Alternative{shuffle.Folded, shuffle.TwoSided} {
@@ -456,7 +456,7 @@ func TestRunDeterministic(t *testing.T) {
 	x, y := testColumns(g.Len())
 	for k := Moran; k <= GiStar; k++ {
 		var yy []float64
-		if k == BivariateMoran {
+		if k == CrossMoran {
 			yy = y
 		}
 		var first []AreaResult
@@ -483,7 +483,7 @@ func TestEvaluatorsDoNotAllocate(t *testing.T) {
 	drawn := []int32{1, 5, 9, 20, 33, 47, 60, 71}
 	for k := Moran; k <= GiStar; k++ {
 		var yy []float64
-		if k == BivariateMoran {
+		if k == CrossMoran {
 			yy = y
 		}
 		p, err := prepare(k, x, yy, g)
@@ -499,12 +499,12 @@ func TestEvaluatorsDoNotAllocate(t *testing.T) {
 	}
 }
 
-// The bivariate local Moran of x against itself is the local Moran of x.
-func TestBivariateOfItself(t *testing.T) {
+// The cross local Moran of x against itself is the local Moran of x.
+func TestCrossOfItself(t *testing.T) {
 	g := lattice(t, 6, 6, true, 2).RowStandardised()
 	x, _ := testColumns(g.Len())
 	a, _ := Statistic(Moran, x, nil, g)
-	b, err := Statistic(BivariateMoran, x, x, g)
+	b, err := Statistic(CrossMoran, x, x, g)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -532,7 +532,7 @@ func TestCategories(t *testing.T) {
 		{Moran, r(-1, 2, -2, 0, 0.01, 3), LowHigh},
 		{Moran, r(1, 2, 2, 0, 0.2, 3), NotSignificant},
 		{Moran, r(1, 2, 0, 0, 1, 0), NoNeighbours},
-		{BivariateMoran, r(-1, 2, -2, 0, 0.01, 3), LowHigh},
+		{CrossMoran, r(-1, 2, -2, 0, 0.01, 3), LowHigh},
 		{Geary, r(1, 1, 0.1, 2, 0.01, 3), SimilarHigh},
 		{Geary, r(-1, -1, 0.1, 2, 0.01, 3), SimilarLow},
 		{Geary, r(1, -0.2, 0.1, 2, 0.01, 3), SimilarMixed},
@@ -619,9 +619,9 @@ func TestRunErrors(t *testing.T) {
 			return err
 		}, "not a finite number"},
 		{"y for moran", func() error { _, err := Run(Moran, x, x, g, Options{}); return err }, "one variable"},
-		{"no y", func() error { _, err := Run(BivariateMoran, x, nil, g, Options{}); return err }, "second variable"},
+		{"no y", func() error { _, err := Run(CrossMoran, x, nil, g, Options{}); return err }, "second variable"},
 		{"y constant", func() error {
-			_, err := Run(BivariateMoran, x, make([]float64, 9), g, Options{})
+			_, err := Run(CrossMoran, x, make([]float64, 9), g, Options{})
 			return err
 		}, "constant"},
 		{"alpha", func() error { _, err := Run(Moran, x, nil, g, Options{Alpha: 2}); return err }, "alpha"},

@@ -14,9 +14,9 @@ const (
 	NotSignificant = "not significant"
 	NoNeighbours   = "no neighbours"
 
-	// Local Moran (and its bivariate form): the sign of the area's
+	// Local Moran (and its cross form): the sign of the area's
 	// standardised value, then of the lag of its neighbours' standardised
-	// values (of y for the bivariate form). "high" means above the mean;
+	// values (of y for the cross form). "high" means above the mean;
 	// a value exactly at the mean counts as low.
 	HighHigh = "high-high"
 	LowLow   = "low-low"
@@ -94,7 +94,7 @@ type AreaResult struct {
 	Index int `json:"index"`
 	// Value is the area's own value of x; Lag is Σ_j w_ij v_j over its
 	// neighbours (never the area itself, even for Gi*) of the values v
-	// that fill the neighbour slots (x, or y for the bivariate local
+	// that fill the neighbour slots (x, or y for the cross local
 	// Moran), in their own units.
 	Value float64 `json:"value"`
 	Lag   float64 `json:"lag"`
@@ -125,7 +125,7 @@ type AreaResult struct {
 }
 
 // Run computes kind for every area of g and tests each by conditional
-// permutation. y is the second variable of BivariateMoran (its values are
+// permutation. y is the second variable of CrossMoran (its values are
 // the ones drawn into the neighbour slots) and nil for the other kinds.
 // The p-values are adjusted and the areas classified as opt says.
 func Run(kind Kind, x, y []float64, g *weights.Graph, opt Options) ([]AreaResult, error) {
@@ -155,7 +155,7 @@ func Run(kind Kind, x, y []float64, g *weights.Graph, opt Options) ([]AreaResult
 		return nil, fmt.Errorf("%s: %w", kind, err)
 	}
 	slotValues := x
-	if kind == BivariateMoran {
+	if kind == CrossMoran {
 		slotValues = y
 	}
 	res := make([]AreaResult, len(x))

@@ -24,11 +24,11 @@ const (
 	// Moran's I and S0 = Σ_ij w_ij (Anselin 1995, eq. 6 and after; n · I
 	// for row-standardised weights without islands).
 	Moran Kind = iota
-	// BivariateMoran relates x at the area to y at its neighbours:
+	// CrossMoran relates x at the area to y at its neighbours:
 	// I_i = zx_i Σ_j w_ij zy_j, zx and zy the standardised values. Under
 	// conditional permutation x_i stays and values of y are drawn into the
 	// neighbour slots.
-	BivariateMoran
+	CrossMoran
 	// Geary is the local Geary statistic (Anselin 2019, Geogr. Anal.
 	// 51:133–150, eq. 2 on standardised values):
 	//
@@ -64,8 +64,8 @@ func (k Kind) String() string {
 	switch k {
 	case Moran:
 		return "local Moran"
-	case BivariateMoran:
-		return "bivariate local Moran"
+	case CrossMoran:
+		return "cross local Moran"
 	case Geary:
 		return "local Geary"
 	case Gi:
@@ -81,8 +81,8 @@ func (k Kind) Code() string {
 	switch k {
 	case Moran:
 		return "moran"
-	case BivariateMoran:
-		return "bivariate-moran"
+	case CrossMoran:
+		return "cross-moran"
 	case Geary:
 		return "geary"
 	case Gi:
@@ -93,14 +93,14 @@ func (k Kind) Code() string {
 	return ""
 }
 
-// ParseKind reads moran, bivariate-moran, geary, gi or gi-star.
+// ParseKind reads moran, cross-moran, geary, gi or gi-star.
 func ParseKind(s string) (Kind, error) {
 	for k := Moran; k <= GiStar; k++ {
 		if s == k.Code() {
 			return k, nil
 		}
 	}
-	return Moran, fmt.Errorf("local statistic must be moran, bivariate-moran, geary, gi or gi-star, not %q", s)
+	return Moran, fmt.Errorf("local statistic must be moran, cross-moran, geary, gi or gi-star, not %q", s)
 }
 
 // prepared holds what a kind's evaluator needs: the graph, the values drawn
@@ -112,7 +112,7 @@ type prepared struct {
 	// slot holds the values that move: drawn into neighbour slots.
 	slot []float64
 	// own is the per-area factor: the standardised value (Moran, Geary,
-	// bivariate) or 1/denominator (Gi, Gi*; 0 where the denominator
+	// cross) or 1/denominator (Gi, Gi*; 0 where the denominator
 	// vanishes, so the statistic is 0 and cannot vary).
 	own []float64
 	// add is the per-area term added to the neighbour sum (Gi, Gi*).
@@ -133,9 +133,9 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 	if err := checkColumn("x", x, g); err != nil {
 		return nil, err
 	}
-	if (kind == BivariateMoran) != (y != nil) {
+	if (kind == CrossMoran) != (y != nil) {
 		if y == nil {
-			return nil, errors.New("the bivariate local Moran needs a second variable")
+			return nil, errors.New("the cross local Moran needs a second variable")
 		}
 		return nil, fmt.Errorf("%s takes one variable, not two", kind)
 	}
@@ -160,7 +160,7 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 			p.own[i] = zx[i] / sx
 		}
 		p.slot = p.own
-	case BivariateMoran:
+	case CrossMoran:
 		if err := checkColumn("y", y, g); err != nil {
 			return nil, err
 		}
@@ -222,7 +222,7 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 		for k, j := range nb {
 			l += w[k] * zx[j]
 		}
-		if kind == BivariateMoran {
+		if kind == CrossMoran {
 			l = 0
 			for k, j := range nb {
 				l += w[k] * p.slot[j]
@@ -290,7 +290,7 @@ func (p *prepared) observed() []float64 {
 }
 
 // Statistic returns kind's value for every area of g, without inference; y
-// is the second variable of the bivariate local Moran and nil otherwise.
+// is the second variable of the cross local Moran and nil otherwise.
 // The values are those Run tests.
 func Statistic(kind Kind, x, y []float64, g *weights.Graph) ([]float64, error) {
 	p, err := prepare(kind, x, y, g)
