@@ -69,7 +69,7 @@ func Write(w io.Writer, l *layer.Layer, extra []*layer.Column) error {
 			}
 		}
 		buf = append(buf, `},"geometry":`...)
-		buf = appendGeometry(buf, l.Geoms[i])
+		buf = AppendGeometry(buf, l.Geoms[i])
 		buf = append(buf, '}')
 		if _, err := bw.Write(buf); err != nil {
 			return err
@@ -79,7 +79,10 @@ func Write(w io.Writer, l *layer.Layer, extra []*layer.Column) error {
 	return bw.Flush()
 }
 
-func appendGeometry(buf []byte, mp orb.MultiPolygon) []byte {
+// AppendGeometry appends mp as a GeoJSON geometry: a Polygon when it has one
+// part, else a MultiPolygon, coordinates in their shortest exact decimal
+// form (never with an exponent, which some GIS readers reject).
+func AppendGeometry(buf []byte, mp orb.MultiPolygon) []byte {
 	if len(mp) == 1 {
 		buf = append(buf, `{"type":"Polygon","coordinates":`...)
 		buf = appendPolygon(buf, mp[0])
@@ -107,9 +110,9 @@ func appendPolygon(buf []byte, p orb.Polygon) []byte {
 				buf = append(buf, ',')
 			}
 			buf = append(buf, '[')
-			buf = strconv.AppendFloat(buf, pt[0], 'g', -1, 64)
+			buf = strconv.AppendFloat(buf, pt[0], 'f', -1, 64)
 			buf = append(buf, ',')
-			buf = strconv.AppendFloat(buf, pt[1], 'g', -1, 64)
+			buf = strconv.AppendFloat(buf, pt[1], 'f', -1, 64)
 			buf = append(buf, ']')
 		}
 		buf = append(buf, ']')

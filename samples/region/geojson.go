@@ -7,7 +7,7 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/paulmach/orb"
+	"github.com/areatest/areatest/io/geojson"
 )
 
 // WriteGeoJSON writes the region as an RFC 7946 FeatureCollection, one feature
@@ -45,7 +45,7 @@ func (r *Region) appendFeature(b []byte, d int) []byte {
 	b = append(b, `{"type":"Feature","id":`...)
 	b = appendString(b, r.IDs[d])
 	b = append(b, `,"geometry":`...)
-	b = appendGeometry(b, r.Geoms[d])
+	b = geojson.AppendGeometry(b, r.Geoms[d])
 	b = append(b, `,"properties":{"name":`...)
 	b = appendString(b, r.Names[d])
 	b = append(b, `,"province":`...)
@@ -80,42 +80,4 @@ func appendNumber(b []byte, x float64) []byte {
 		return append(b, "null"...)
 	}
 	return strconv.AppendFloat(b, x, 'f', -1, 64)
-}
-
-func appendGeometry(b []byte, mp orb.MultiPolygon) []byte {
-	if len(mp) == 1 {
-		b = append(b, `{"type":"Polygon","coordinates":`...)
-		b = appendPolygon(b, mp[0])
-		return append(b, '}')
-	}
-	b = append(b, `{"type":"MultiPolygon","coordinates":[`...)
-	for k, p := range mp {
-		if k > 0 {
-			b = append(b, ',')
-		}
-		b = appendPolygon(b, p)
-	}
-	return append(b, "]}"...)
-}
-
-func appendPolygon(b []byte, p orb.Polygon) []byte {
-	b = append(b, '[')
-	for k, ring := range p {
-		if k > 0 {
-			b = append(b, ',')
-		}
-		b = append(b, '[')
-		for m, pt := range ring {
-			if m > 0 {
-				b = append(b, ',')
-			}
-			b = append(b, '[')
-			b = strconv.AppendFloat(b, pt[0], 'f', -1, 64)
-			b = append(b, ',')
-			b = strconv.AppendFloat(b, pt[1], 'f', -1, 64)
-			b = append(b, ']')
-		}
-		b = append(b, ']')
-	}
-	return append(b, ']')
 }
