@@ -33,6 +33,12 @@ func MoransI(x []float64, g *weights.Graph) (float64, error) {
 	return float64(len(x)) / s0 * crossProduct(z, g) / ss, nil
 }
 
+// Centre returns x − mean(x) and its sum of squares. A column with no
+// variation is ErrConstant: the test is relative, since a column of
+// identical large numbers leaves only rounding noise after centring. Every
+// statistic of the tool that centres a variable uses it.
+func Centre(x []float64) ([]float64, float64, error) { return centre(x) }
+
 func centre(x []float64) ([]float64, float64, error) {
 	var s float64
 	for _, v := range x {

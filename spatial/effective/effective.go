@@ -48,6 +48,7 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
+	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -463,29 +464,19 @@ func (l *Lags) tests(y []float64, xs [][]float64, alt shuffle.Alternative, name 
 	return out, nil
 }
 
-// centre returns x − mean(x) and its sum of squares, rejecting non-finite
-// and constant columns.
+// centre returns x − mean(x) and its sum of squares (autocorr.Centre),
+// rejecting non-finite and constant columns.
 func centre(x []float64) ([]float64, float64, error) {
-	var s float64
 	for i, v := range x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return nil, 0, fmt.Errorf("value %d is %v, not a finite number", i, v)
 		}
-		s += v
 	}
-	mean := s / float64(len(x))
-	z := make([]float64, len(x))
-	var ss float64
-	for i, v := range x {
-		z[i] = v - mean
-		ss += z[i] * z[i]
-	}
-	// Relative test: a column of identical large numbers leaves rounding
-	// noise after centring.
-	if ss <= 1e-24*float64(len(x))*(mean*mean+1) {
+	z, ss, err := autocorr.Centre(x)
+	if errors.Is(err, autocorr.ErrConstant) {
 		return nil, 0, ErrConstant
 	}
-	return z, ss, nil
+	return z, ss, err
 }
 
 // correlograms returns, for each centred variable, Moran's I at orders

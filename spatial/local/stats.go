@@ -147,7 +147,7 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 	if n < least {
 		return nil, fmt.Errorf("%s needs at least %d areas, got %d", kind, least, n)
 	}
-	zx, ssx, err := centre(x)
+	zx, ssx, err := autocorr.Centre(x)
 	if err != nil {
 		return nil, err
 	}
@@ -164,7 +164,7 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 		if err := checkColumn("y", y, g); err != nil {
 			return nil, err
 		}
-		zy, ssy, err := centre(y)
+		zy, ssy, err := autocorr.Centre(y)
 		if err != nil {
 			return nil, fmt.Errorf("second variable: %w", err)
 		}
@@ -320,7 +320,7 @@ func MoranMoments(x []float64, g *weights.Graph) (expected, variance []float64, 
 	if n < 3 {
 		return nil, nil, fmt.Errorf("the moments of local Moran need at least three areas, got %d", n)
 	}
-	z, ss, err := centre(x)
+	z, ss, err := autocorr.Centre(x)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -358,25 +358,4 @@ func checkColumn(name string, x []float64, g *weights.Graph) error {
 		}
 	}
 	return nil
-}
-
-// centre returns x − mean(x) and its sum of squares; a constant column is
-// autocorr.ErrConstant, since no local statistic is defined on it.
-func centre(x []float64) ([]float64, float64, error) {
-	var s float64
-	for _, v := range x {
-		s += v
-	}
-	mean := s / float64(len(x))
-	z := make([]float64, len(x))
-	var ss float64
-	for i, v := range x {
-		z[i] = v - mean
-		ss += z[i] * z[i]
-	}
-	// Relative test: identical large numbers leave rounding noise only.
-	if ss <= 1e-24*float64(len(x))*(mean*mean+1) {
-		return nil, 0, autocorr.ErrConstant
-	}
-	return z, ss, nil
 }
