@@ -13,24 +13,7 @@ import (
 
 // effLattice is the rook-contiguity graph of a side×side grid.
 func effLattice(t testing.TB, side int) *weights.Graph {
-	t.Helper()
-	var pairs [][2]int32
-	for r := 0; r < side; r++ {
-		for c := 0; c < side; c++ {
-			i := int32(r*side + c)
-			if c+1 < side {
-				pairs = append(pairs, [2]int32{i, i + 1})
-			}
-			if r+1 < side {
-				pairs = append(pairs, [2]int32{i, i + int32(side)})
-			}
-		}
-	}
-	g, err := weights.FromLinks(side*side, pairs, "rook lattice")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return g
+	return weights.Lattice(side, side, weights.Rook)
 }
 
 // effSAR draws a simultaneous autoregressive field y = (I − ρW)⁻¹ε (W the

@@ -268,18 +268,6 @@ func TestKeepIslands(t *testing.T) {
 // sample size is reported.
 func TestCovariatesZonesAndEffectiveSize(t *testing.T) {
 	m := 20
-	var pairs [][2]int32
-	for i := 0; i < m; i++ {
-		for j := 0; j < m; j++ {
-			k := int32(i*m + j)
-			if j+1 < m {
-				pairs = append(pairs, [2]int32{k, k + 1})
-			}
-			if i+1 < m {
-				pairs = append(pairs, [2]int32{k, k + int32(m)})
-			}
-		}
-	}
 	n := m * m
 	y := make([]float64, n)
 	cov := make([]float64, n)
@@ -292,7 +280,7 @@ func TestCovariatesZonesAndEffectiveSize(t *testing.T) {
 		g[i] = []string{"a", "b"}[(r/5+c/5)%2]
 		ids[i] = fmt.Sprint(i)
 	}
-	graph, _ := weights.FromLinks(n, pairs, "rook contiguity")
+	graph := weights.Lattice(m, m, weights.Rook)
 	in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n), GroupName: "g", Group: g,
 		GroupMissing: make([]bool, n), Graph: graph,
 		Covariates: []Covariate{{Name: "row", Values: cov, Missing: make([]bool, n)}}}
