@@ -5,9 +5,6 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
-	"runtime"
-	"sync"
-	"sync/atomic"
 )
 
 // Conditional permutation (Anselin 1995, Geogr. Anal. 27:93–115, section
@@ -177,30 +174,14 @@ func RunLocal(p LocalPlan, f LocalFactory) ([]LocalResult, error) {
 	}
 	errs := make([]error, n)
 	blocks := (n + LocalBlockSize - 1) / LocalBlockSize
-	workers := p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, blocks)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w := newLocalWorker(n, maxDeg, f())
-			for {
-				b := int(next.Add(1) - 1)
-				if b >= blocks {
-					return
-				}
-				for i := b * LocalBlockSize; i < min((b+1)*LocalBlockSize, n); i++ {
-					errs[i] = w.area(&p, i, counts[i], &res[i])
-				}
+	ForBlocks(blocks, p.Workers, func() func(int) {
+		w := newLocalWorker(n, maxDeg, f())
+		return func(b int) {
+			for i := b * LocalBlockSize; i < min((b+1)*LocalBlockSize, n); i++ {
+				errs[i] = w.area(&p, i, counts[i], &res[i])
 			}
-		}()
-	}
-	wg.Wait()
+		}
+	})
 	for _, err := range errs { // the first failing area, so the error is deterministic
 		if err != nil {
 			return nil, err

@@ -5,9 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/big"
-	"runtime"
 	"sort"
-	"sync"
 	"sync/atomic"
 )
 
@@ -393,13 +391,6 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 	B := p.Permutations
 	k := len(stats)
 	blocks := (B + BlockSize - 1) / BlockSize
-	workers := p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	if workers > blocks {
-		workers = blocks
-	}
 	tallies := make([]tally, blocks*k) // block b, statistic s at b*k+s
 	var nulls [][]float64
 	if p.KeepNull {
@@ -408,45 +399,34 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 			nulls[s] = make([]float64, B)
 		}
 	}
-	next := make(chan int, blocks)
-	for b := 0; b < blocks; b++ {
-		next <- b
-	}
-	close(next)
 	var done atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			eval := f()
-			labels := make([]int32, len(p.Labels))
-			vals := make([]float64, k)
-			var rng Stream
-			for b := range next {
-				// Every block starts from the observed arrangement, so its
-				// draws depend only on (seed, block).
-				copy(labels, p.Labels)
-				rng.Reset(p.Seed, p.Purpose, b)
-				lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-				ts := tallies[b*k : (b+1)*k]
-				for d := lo; d < hi; d++ {
-					shuffleGroups(&rng, labels, groups)
-					eval(labels, vals)
-					c.add(ts, vals)
-					if nulls != nil {
-						for s, v := range vals {
-							nulls[s][d] = v
-						}
+	ForBlocks(blocks, p.Workers, func() func(int) {
+		eval := f()
+		labels := make([]int32, len(p.Labels))
+		vals := make([]float64, k)
+		var rng Stream
+		return func(b int) {
+			// Every block starts from the observed arrangement, so its
+			// draws depend only on (seed, block).
+			copy(labels, p.Labels)
+			rng.Reset(p.Seed, p.Purpose, b)
+			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
+			ts := tallies[b*k : (b+1)*k]
+			for d := lo; d < hi; d++ {
+				shuffleGroups(&rng, labels, groups)
+				eval(labels, vals)
+				c.add(ts, vals)
+				if nulls != nil {
+					for s, v := range vals {
+						nulls[s][d] = v
 					}
 				}
-				if p.Progress != nil {
-					p.Progress(int(done.Add(int64(hi-lo))), B)
-				}
 			}
-		}()
-	}
-	wg.Wait()
+			if p.Progress != nil {
+				p.Progress(int(done.Add(int64(hi-lo))), B)
+			}
+		}
+	})
 	for s := range res {
 		var t tally
 		for b := 0; b < blocks; b++ { // block order, so float sums do not depend on scheduling

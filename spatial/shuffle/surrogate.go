@@ -4,8 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
-	"sync"
 	"sync/atomic"
 )
 
@@ -76,49 +74,33 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 	tol := 1e-9 * math.Max(math.Abs(observed), scale)
 	B := p.Draws
 	blocks := (B + BlockSize - 1) / BlockSize
-	workers := p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, blocks)
 	tallies := make([]tally, blocks)
 	var null []float64
 	if p.KeepNull {
 		null = make([]float64, B)
 	}
-	next := make(chan int, blocks)
-	for b := 0; b < blocks; b++ {
-		next <- b
-	}
-	close(next)
 	var done atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			draw, eval := newDraw(), newEval()
-			y := make([]float64, n)
-			var rng Stream
-			for b := range next {
-				rng.Reset(p.Seed, p.Purpose, b)
-				lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-				t := &tallies[b]
-				for d := lo; d < hi; d++ {
-					draw(&rng, y)
-					v := eval(y)
-					t.add(v, observed, tol)
-					if null != nil {
-						null[d] = v
-					}
-				}
-				if p.Progress != nil {
-					p.Progress(int(done.Add(int64(hi-lo))), B)
+	ForBlocks(blocks, p.Workers, func() func(int) {
+		draw, eval := newDraw(), newEval()
+		y := make([]float64, n)
+		var rng Stream
+		return func(b int) {
+			rng.Reset(p.Seed, p.Purpose, b)
+			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
+			t := &tallies[b]
+			for d := lo; d < hi; d++ {
+				draw(&rng, y)
+				v := eval(y)
+				t.add(v, observed, tol)
+				if null != nil {
+					null[d] = v
 				}
 			}
-		}()
-	}
-	wg.Wait()
+			if p.Progress != nil {
+				p.Progress(int(done.Add(int64(hi-lo))), B)
+			}
+		}
+	})
 	var t tally
 	for _, bt := range tallies { // block order, so float sums do not depend on scheduling
 		t.merge(bt)

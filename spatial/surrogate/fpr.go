@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"runtime"
-	"sync"
 	"sync/atomic"
 
 	"github.com/areatest/areatest/spatial/groups"
@@ -100,45 +99,31 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 	workers = min(workers, blocks)
 	rejected := make([]bool, S)
 	errs := make([]error, blocks)
-	next := make(chan int, blocks)
-	for b := 0; b < blocks; b++ {
-		next <- b
-	}
-	close(next)
 	var done atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			s := o.b.NewScratch()
-			y := make([]float64, n)
-			// One groups.Data per worker, re-sorted for each surrogate.
-			data, err := groups.Prepare(y, labels, k)
-			if err != nil {
-				errs[0] = err
-				return
-			}
-			var rng shuffle.Stream
-			for b := range next {
-				rng.Reset(opt.Seed, opt.Purpose, b)
-				lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
-				for d := lo; d < hi; d++ {
-					o.Draw(&rng, y, s)
-					p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
-					if err != nil {
-						errs[b] = err
-						break
-					}
-					rejected[d] = p <= alpha
+	shuffle.ForBlocks(blocks, opt.Workers, func() func(int) {
+		s := o.b.NewScratch()
+		y := make([]float64, n)
+		// One groups.Data per worker, re-sorted for each surrogate; the
+		// labels were checked above, so Prepare cannot fail here.
+		data, _ := groups.Prepare(y, labels, k)
+		var rng shuffle.Stream
+		return func(b int) {
+			rng.Reset(opt.Seed, opt.Purpose, b)
+			lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
+			for d := lo; d < hi; d++ {
+				o.Draw(&rng, y, s)
+				p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
+				if err != nil {
+					errs[b] = err
+					break
 				}
-				if opt.Progress != nil {
-					opt.Progress(int(done.Add(int64(hi-lo))), S)
-				}
+				rejected[d] = p <= alpha
 			}
-		}()
-	}
-	wg.Wait()
+			if opt.Progress != nil {
+				opt.Progress(int(done.Add(int64(hi-lo))), S)
+			}
+		}
+	})
 	for _, err := range errs {
 		if err != nil {
 			return FalsePositiveRate{}, err
