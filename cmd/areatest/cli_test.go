@@ -1,4 +1,4 @@
-package tests
+package main
 
 import (
 	"bytes"
@@ -8,52 +8,21 @@ import (
 	"image/png"
 	"io"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-var binary string
-
-// TestMain builds the command once; every test here runs the real binary.
-func TestMain(m *testing.M) {
-	dir, err := os.MkdirTemp("", "areatest-cli")
-	if err != nil {
-		fmt.Fprintln(os.Stderr, err)
-		os.Exit(1)
-	}
-	binary = filepath.Join(dir, "areatest")
-	build := exec.Command("go", "build", "-o", binary, "../cmd/areatest")
-	build.Stderr = os.Stderr
-	if err := build.Run(); err != nil {
-		fmt.Fprintln(os.Stderr, "building areatest:", err)
-		os.Exit(1)
-	}
-	code := m.Run()
-	os.RemoveAll(dir)
-	os.Exit(code)
-}
 
 type outcome struct {
 	code           int
 	stdout, stderr string
 }
 
+// runCLI runs one command line in this process (run, as main calls it).
 func runCLI(t *testing.T, stdin string, args ...string) outcome {
 	t.Helper()
-	cmd := exec.Command(binary, args...)
-	cmd.Stdin = strings.NewReader(stdin)
-	var out, errb bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &errb
-	err := cmd.Run()
-	code := 0
-	if ee, ok := err.(*exec.ExitError); ok {
-		code = ee.ExitCode()
-	} else if err != nil {
-		t.Fatal(err)
-	}
-	return outcome{code, out.String(), errb.String()}
+	r := runIn(stdin, args...)
+	return outcome{r.code, r.stdout, r.stderr}
 }
 
 func TestVersionAndHelp(t *testing.T) {
