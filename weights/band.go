@@ -8,6 +8,9 @@ import (
 	"sync/atomic"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // DistanceBand links, with weight one, every pair of areas whose
@@ -76,7 +79,7 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 	n := ix.len()
 	counts := make([]int32, n)
 	var total atomic.Int64
-	kdParallel(n, func(lo, hi int) {
+	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
 		if total.Load() > MaxLinks {
 			return
 		}
@@ -101,7 +104,7 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 	}
 	if t := total.Load(); t > MaxLinks {
 		return nil, fmt.Errorf("weights: %s makes more than %s links (over %s neighbours per area on average); choose a smaller %s",
-			r.kind, ptsCount(MaxLinks), ptsCount(int64(MaxLinks/n)), r.what)
+			r.kind, numtext.Count(MaxLinks), numtext.Count(int64(MaxLinks/n)), r.what)
 	} else if t == 0 {
 		if r.none != nil {
 			return nil, r.none()
@@ -114,7 +117,7 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 	}
 	nb := make([]int32, offsets[n])
 	w := make([]float64, offsets[n])
-	kdParallel(n, func(lo, hi int) {
+	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
 		for p := lo; p < hi; p++ {
 			i := ix.tree.idx[p]
 			a, b := offsets[i], offsets[i+1]

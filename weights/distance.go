@@ -4,9 +4,10 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-	"strings"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // Metric says how distances between representative points are measured.
@@ -192,7 +193,7 @@ func (ix *ptsIndex) nearestRows(k int) (nb []int32, dist []float64) {
 	n := ix.len()
 	nb = make([]int32, n*k)
 	dist = make([]float64, n*k)
-	kdParallel(n, func(lo, hi int) {
+	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
 		s := newKdNearest(k, ix.geo)
 		for p := lo; p < hi; p++ {
 			s.reset(ix.tree, p)
@@ -273,24 +274,6 @@ func ptsNumber(v float64) string {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
 	return strconv.FormatFloat(v, 'g', -1, 64)
-}
-
-// ptsCount writes a count with thousands separators, for messages.
-func ptsCount(n int64) string {
-	s := strconv.FormatInt(n, 10)
-	neg := strings.HasPrefix(s, "-")
-	s = strings.TrimPrefix(s, "-")
-	var b strings.Builder
-	for i, r := range s {
-		if i > 0 && (len(s)-i)%3 == 0 {
-			b.WriteByte(',')
-		}
-		b.WriteRune(r)
-	}
-	if neg {
-		return "-" + b.String()
-	}
-	return b.String()
 }
 
 // ptsLength writes a distance with its unit.

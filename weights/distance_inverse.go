@@ -5,6 +5,9 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // InverseDistance links areas with weight 1/d^power, d the distance between
@@ -31,7 +34,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 	n := len(pts)
 	if band == 0 && n >= 2 && int64(n)*int64(n-1) > MaxLinks {
 		return nil, fmt.Errorf("weights: inverse distance over all pairs of %s areas would make %s links, more than %s; give a distance band",
-			ptsCount(int64(n)), ptsCount(int64(n)*int64(n-1)), ptsCount(MaxLinks))
+			numtext.Count(int64(n)), numtext.Count(int64(n)*int64(n-1)), numtext.Count(MaxLinks))
 	}
 	ix, err := ptsNewIndex(pts, m)
 	if err != nil {
@@ -93,7 +96,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 	}
 	nb := make([]int32, n*(n-1))
 	w := make([]float64, n*(n-1))
-	kdParallel(n, func(lo, hi int) {
+	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			ei := ix.exact(int32(i))
 			t := i * (n - 1)

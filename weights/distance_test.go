@@ -7,6 +7,8 @@ import (
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geo"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // ptsRel is the relative difference of got from want.
@@ -172,8 +174,8 @@ func TestPointErrors(t *testing.T) {
 
 func TestCount(t *testing.T) {
 	for n, want := range map[int64]string{0: "0", 999: "999", 1000: "1,000", 50000000: "50,000,000", -1234567: "-1,234,567"} {
-		if got := ptsCount(n); got != want {
-			t.Errorf("ptsCount(%d) = %q, want %q", n, got, want)
+		if got := numtext.Count(n); got != want {
+			t.Errorf("numtext.Count(%d) = %q, want %q", n, got, want)
 		}
 	}
 }

@@ -3,10 +3,7 @@ package weights
 import (
 	"cmp"
 	"math"
-	"runtime"
 	"slices"
-	"sync"
-	"sync/atomic"
 )
 
 // kdPoint is one point as the k-d tree holds it. c places the point in
@@ -337,28 +334,3 @@ func (t *kdTree) within(q *[3]float64, bound float64, lo, hi int, visit func(p i
 // worker ran which block; consecutive tree positions are close in space,
 // which keeps a block's queries in the same part of the tree and the cache.
 const kdBlock = 1024
-
-// kdParallel calls work on consecutive blocks of [0, n) from as many
-// goroutines as GOMAXPROCS allows.
-func kdParallel(n int, work func(lo, hi int)) {
-	blocks := (n + kdBlock - 1) / kdBlock
-	workers := min(runtime.GOMAXPROCS(0), blocks)
-	if workers <= 1 {
-		work(0, n)
-		return
-	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Go(func() {
-			for {
-				lo := int(next.Add(1)-1) * kdBlock
-				if lo >= n {
-					return
-				}
-				work(lo, min(lo+kdBlock, n))
-			}
-		})
-	}
-	wg.Wait()
-}

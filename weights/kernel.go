@@ -6,6 +6,8 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // KernelKind names the shape of a kernel weight K(u), u = d/h the distance
@@ -101,7 +103,7 @@ func Kernel(pts []orb.Point, kind KernelKind, bandwidth float64, adaptiveK int, 
 		}
 		if n >= 2 && int64(n)*int64(adaptiveK) > MaxLinks {
 			return nil, fmt.Errorf("weights: an adaptive kernel over %d neighbours of %s areas would make about %s links, more than %s; choose fewer neighbours",
-				adaptiveK, ptsCount(int64(n)), ptsCount(int64(n)*int64(adaptiveK)), ptsCount(MaxLinks))
+				adaptiveK, numtext.Count(int64(n)), numtext.Count(int64(n)*int64(adaptiveK)), numtext.Count(MaxLinks))
 		}
 	} else if err := ptsCheckThreshold("the kernel bandwidth", bandwidth); err != nil {
 		return nil, err

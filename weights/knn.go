@@ -5,6 +5,8 @@ import (
 	"slices"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // KNearest links every area to the k other areas whose representative points
@@ -38,7 +40,7 @@ func KNearest(pts []orb.Point, k int, m Metric, symmetrise bool) (*Graph, error)
 	}
 	if n >= 2 && int64(n)*int64(k) > MaxLinks {
 		return nil, fmt.Errorf("weights: %d nearest neighbours of %s areas would make %s links, more than %s; choose a smaller k",
-			k, ptsCount(int64(n)), ptsCount(int64(n)*int64(k)), ptsCount(MaxLinks))
+			k, numtext.Count(int64(n)), numtext.Count(int64(n)*int64(k)), numtext.Count(MaxLinks))
 	}
 	ix, err := ptsNewIndex(pts, m)
 	if err != nil {

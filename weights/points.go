@@ -6,6 +6,8 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // PointMode says which point stands for an area in distance-based weights.
@@ -70,7 +72,7 @@ func RepresentativePoints(geoms []orb.MultiPolygon, mode PointMode) ([]orb.Point
 	}
 	out := make([]orb.Point, len(geoms))
 	bad := make([]bool, len(geoms))
-	kdParallel(len(geoms), func(lo, hi int) {
+	parallel.ForRanges(len(geoms), kdBlock, 0, func(lo, hi int) {
 		var sc ptsScan
 		for i := lo; i < hi; i++ {
 			p, ok := sc.represent(geoms[i], mode)

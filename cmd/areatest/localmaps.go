@@ -5,6 +5,7 @@ import (
 	"image/color"
 	"io"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
@@ -77,7 +78,7 @@ func (p localPictures) draw(lay *layer.Layer, doc *report.LocalDocument, kind lo
 	results []local.AreaResult, hist int, stdout io.Writer, inputs []string) error {
 	lonLat := weights.DetectMetric(lay.Geoms) == weights.Geographic
 	note := fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
-		lay.Source, doc.Summary.Seed, report.Count(doc.Summary.Permutations), doc.Version)
+		lay.Source, doc.Summary.Seed, numtext.Count(doc.Summary.Permutations), doc.Version)
 	subtitle := fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", doc.Summary.Statistic, variable, doc.Summary.CategoriesFrom,
 		doc.Summary.Alpha, doc.Summary.Adjustment, doc.Weights.Kind)
 	mapOpt := plot.MapOptions{Subtitle: subtitle, LonLat: lonLat, Note: note, IDs: lay.IDs}
@@ -151,7 +152,7 @@ func (p localPictures) draw(lay *layer.Layer, doc *report.LocalDocument, kind lo
 	if p.histogram != "" {
 		r := results[hist]
 		opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", doc.Summary.Statistic, p.area),
-			Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", report.Count(r.Permutations), report.PValue(r.P), doc.Summary.Alternative, r.Category),
+			Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(r.Permutations), report.PValue(r.P), doc.Summary.Alternative, r.Category),
 			XLabel:   doc.Summary.Statistic, YLabel: "shuffles", Note: note}
 		if err := drawTo(p.histogram, stdout, inputs, func(w io.Writer, f plot.Format) error {
 			return plot.Histogram(w, f, r.Null, r.Statistic, opt)

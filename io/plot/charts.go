@@ -20,6 +20,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // PlotOptions set the frame of a scatter plot or a histogram. Sizes are in
@@ -400,7 +402,7 @@ func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, leg
 		if g < len(legend) {
 			name = legend[g].Name
 		}
-		items = append(items, legendItem{label: fmt.Sprintf("%s (%s)", name, formatCount(len(groups[g]))), c: colorOf(g)})
+		items = append(items, legendItem{label: fmt.Sprintf("%s (%s)", name, numtext.Count(len(groups[g]))), c: colorOf(g)})
 	}
 	fr := newFrame(ff, opt, W, H, items)
 	return render(w, f, fr, ff, p, true)
@@ -555,7 +557,7 @@ func Histogram(w io.Writer, f Format, null []float64, observed float64, opt Plot
 	p.Y.Min, p.Y.Max = 0, top*1.16
 	p.Add(observedMark{x: observed, top: top * 1.16, label: "observed " + formatStat(observed)})
 	items := []legendItem{
-		{label: formatCount(len(vals)) + " shuffles", c: barFill, kind: 2},
+		{label: numtext.Count(len(vals)) + " shuffles", c: barFill, kind: 2},
 		{label: "observed value", c: observedInk, kind: 1},
 	}
 	fr := newFrame(ff, opt, W, H, items)

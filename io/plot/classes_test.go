@@ -7,6 +7,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 func TestFormatFromPath(t *testing.T) {
@@ -245,8 +247,8 @@ func TestRangeLabels(t *testing.T) {
 			t.Errorf("rangeLabels(%v, %v) = %q, want %q", c.lo, c.hi, got, c.want)
 		}
 	}
-	if got := formatCount(9999); got != "9,999" {
-		t.Errorf("formatCount(9999) = %q", got)
+	if got := numtext.Count(9999); got != "9,999" {
+		t.Errorf("numtext.Count(9999) = %q", got)
 	}
 	if got := formatNum(1990, 0); got != "1990" {
 		t.Errorf("formatNum(1990, 0) = %q", got)

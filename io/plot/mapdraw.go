@@ -7,6 +7,8 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // legendBox is the legend measured, before it is placed.
@@ -39,7 +41,7 @@ func measureLegend(ff *fontFaces, spec mapSpec) legendBox {
 	}
 	for _, e := range lg.entries {
 		l := ff.ellipsize(e.label, false, labelSize, maxLabelW)
-		c := formatCount(e.count)
+		c := numtext.Count(e.count)
 		lg.labels = append(lg.labels, l)
 		lg.counts = append(lg.counts, c)
 		lg.labelW = math.Max(lg.labelW, ff.width(false, labelSize, l))

@@ -279,10 +279,6 @@ func decimalsFor(ends []float64) int {
 	return min(d, 12)
 }
 
-// formatCount writes a count with commas between thousands, as the
-// reports do ("9,999").
-func formatCount(n int) string { return groupDigits(strconv.Itoa(n), 4) }
-
 // formatNum writes v with d decimals, a true minus sign, and commas between
 // thousands from 10,000 up, so that values such as years stay as written.
 func formatNum(v float64, d int) string {

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/clustering"
 )
 
@@ -14,9 +15,9 @@ import (
 func AutocorrText(w io.Writer, r *clustering.Result) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: do these variables cluster in space?\n\n", r.Version)
-	fmt.Fprintf(&b, "  input      %s, %s areas\n", r.Input, Count(r.Areas))
+	fmt.Fprintf(&b, "  input      %s, %s areas\n", r.Input, numtext.Count(r.Areas))
 	fmt.Fprintf(&b, "  weights    %s, %s; %s, %s without neighbours%s\n\n", r.Weights.Kind, r.Weights.Transform,
-		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
+		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
 	head := func() {
 		fmt.Fprintf(&b, "  %-12s %9s %9s %9s %10s %10s %10s\n", "", "value", "expected", "z", "p normal", "p random", "p shuffle")
 	}
@@ -29,12 +30,12 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 			Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
 	}
 	for _, v := range r.Variables {
-		fmt.Fprintf(&b, "%s (%s areas", v.Name, Count(v.Areas))
+		fmt.Fprintf(&b, "%s (%s areas", v.Name, numtext.Count(v.Areas))
 		if v.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without a value", Count(v.Missing))
+			fmt.Fprintf(&b, ", %s without a value", numtext.Count(v.Missing))
 		}
 		if v.Islands > 0 {
-			fmt.Fprintf(&b, ", %s left out without neighbours", Count(v.Islands))
+			fmt.Fprintf(&b, ", %s left out without neighbours", numtext.Count(v.Islands))
 		}
 		b.WriteString(")\n")
 		head()
@@ -58,29 +59,29 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 		if len(v.Correlogram) > 0 {
 			fmt.Fprintf(&b, "  %-30s %9s %9s %9s %10s\n", "correlogram", "pairs", "Moran's I", "expected", "p shuffle")
 			for k, l := range v.Correlogram {
-				fmt.Fprintf(&b, "  %-30s %9s %9.3f %9.3f %10s\n", truncate(v.CorrelogramClasses[k], 30), Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
+				fmt.Fprintf(&b, "  %-30s %9s %9.3f %9.3f %10s\n", truncate(v.CorrelogramClasses[k], 30), numtext.Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
 			}
 		}
 		b.WriteString("\n")
 	}
 	for _, j := range r.Joins {
-		fmt.Fprintf(&b, "%s: join counts (%s areas, %s joins", j.Name, Count(j.Areas), Count(j.Test.Joins))
+		fmt.Fprintf(&b, "%s: join counts (%s areas, %s joins", j.Name, numtext.Count(j.Areas), numtext.Count(j.Test.Joins))
 		if j.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without a value", Count(j.Missing))
+			fmt.Fprintf(&b, ", %s without a value", numtext.Count(j.Missing))
 		}
 		b.WriteString(")\n")
 		fmt.Fprintf(&b, "  %-22s %7s %7s %10s %8s %10s\n", "joins", "areas", "count", "expected", "z", "p shuffle")
 		for _, s := range j.Test.Same {
-			fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", truncate("both "+j.Levels[s.Category], 22), Count(s.Areas), Count(s.Joins), s.Expected, s.Z, PValue(s.Permutation.PValue))
+			fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", truncate("both "+j.Levels[s.Category], 22), numtext.Count(s.Areas), numtext.Count(s.Joins), s.Expected, s.Z, PValue(s.Permutation.PValue))
 		}
 		d := j.Test.Different
-		fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
+		fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", numtext.Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
 		b.WriteString("  Clustering shows as more same-category joins and fewer different-category joins than expected.\n\n")
 	}
 	if rt := r.Rate; rt != nil {
-		fmt.Fprintf(&b, "rate %s per %s (%s areas, overall rate %s", rt.Events, rt.Population, Count(rt.Areas), Number(rt.MeanRate))
+		fmt.Fprintf(&b, "rate %s per %s (%s areas, overall rate %s", rt.Events, rt.Population, numtext.Count(rt.Areas), Number(rt.MeanRate))
 		if rt.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without counts", Count(rt.Missing))
+			fmt.Fprintf(&b, ", %s without counts", numtext.Count(rt.Missing))
 		}
 		b.WriteString(")\n")
 		head()
@@ -96,7 +97,7 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 	b.WriteString("\n")
 	writeWarnings(&b, r.Warnings)
 	writeCautions(&b, r.Cautions)
-	fmt.Fprintf(&b, "\nseed %d · %s shuffles per test · areatest %s\n", r.Seed, Count(shuffles(r)), r.Version)
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per test · areatest %s\n", r.Seed, numtext.Count(shuffles(r)), r.Version)
 	_, err := io.WriteString(w, b.String())
 	return err
 }
@@ -151,13 +152,13 @@ func writeCautions(b *strings.Builder, cautions []string) {
 func ScreenText(w io.Writer, r *clustering.ScreenResult) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: which columns of %s cluster in space?\n\n", r.Version, r.Input)
-	fmt.Fprintf(&b, "  %s areas; %s, %s; %s, %s without neighbours\n", Count(r.Areas), r.Weights.Kind, r.Weights.Transform,
-		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), Count(r.Weights.Islands))
-	fmt.Fprintf(&b, "  %s shuffles per column; p-values %s, adjusted across %s by %s\n\n", Count(r.Permutations), r.Alternative,
+	fmt.Fprintf(&b, "  %s areas; %s, %s; %s, %s without neighbours\n", numtext.Count(r.Areas), r.Weights.Kind, r.Weights.Transform,
+		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(r.Weights.Islands))
+	fmt.Fprintf(&b, "  %s shuffles per column; p-values %s, adjusted across %s by %s\n\n", numtext.Count(r.Permutations), r.Alternative,
 		plural(len(r.Rows), "column", "columns"), r.Adjustment)
 	fmt.Fprintf(&b, "  %4s  %-22s %7s %9s %7s %9s %9s %9s %9s\n", "rank", "column", "areas", "Moran's I", "z", "p", "adjusted", "Geary's C", "adjusted")
 	for _, row := range r.Rows {
-		fmt.Fprintf(&b, "  %4d  %-22s %7s %9.3f %7.2f %9s %9s %9.3f %9s\n", row.Rank, truncate(row.Name, 22), Count(row.Areas),
+		fmt.Fprintf(&b, "  %4d  %-22s %7s %9.3f %7.2f %9s %9s %9.3f %9s\n", row.Rank, truncate(row.Name, 22), numtext.Count(row.Areas),
 			row.MoransI, row.MoranZ, PValue(row.MoranP), PValue(row.MoranPAdjusted), row.GearysC, PValue(row.GearyPAdjusted))
 	}
 	b.WriteString("\n")

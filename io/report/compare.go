@@ -6,6 +6,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/compare"
 )
 
@@ -15,7 +16,7 @@ const width = 88
 func CompareText(w io.Writer, r *compare.Result) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: does %s differ between the groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
-	fmt.Fprintf(&b, "  input      %s, %s areas, %s tested\n", r.Input.File, Count(r.Input.Areas), Count(r.Input.Tested))
+	fmt.Fprintf(&b, "  input      %s, %s areas, %s tested\n", r.Input.File, numtext.Count(r.Input.Areas), numtext.Count(r.Input.Tested))
 	fmt.Fprintf(&b, "  outcome    %s\n", r.Input.Outcome)
 	fmt.Fprintf(&b, "  groups     %s\n", r.Input.Group)
 	if r.Input.Strata != "" {
@@ -32,7 +33,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 
 	fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", r.Input.Group, "areas", "median", "mean", "sd")
 	for _, g := range r.Groups {
-		fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
+		fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
 	}
 	b.WriteString("\n")
 
@@ -55,7 +56,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
 	for _, t := range r.Tests {
 		interval := "exact"
-		count := Count(t.Permutations)
+		count := numtext.Count(t.Permutations)
 		if !t.Exact {
 			interval = bound(t.Interval[0]) + " to " + bound(t.Interval[1])
 		} else {
@@ -70,13 +71,13 @@ func CompareText(w io.Writer, r *compare.Result) error {
 
 	if f := r.FalsePositiveRate; f != nil {
 		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, the free shuffle (%s shuffles each) called %.1f%% significant at the %g level (95%% interval %.1f–%.1f%%); a sound test calls %g%%.",
-			Count(f.Surrogates), r.Input.Outcome, r.Input.Group, Count(f.Permutations), 100*f.Rate, f.Alpha, 100*f.Interval[0], 100*f.Interval[1], 100*f.Alpha), width, "  ", "  "))
+			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), 100*f.Rate, f.Alpha, 100*f.Interval[0], 100*f.Interval[1], 100*f.Alpha), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	if e := r.EffectiveSampleSize; e != nil {
 		subject := r.Input.Group + "=" + e.Level
 		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, %s; the ordinary t-test, which counts every area as independent, gives %s. This tests the difference in means.",
-			Count(e.Areas), Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, pEquals(e.PValue), pEquals(e.OrdinaryPValue))
+			numtext.Count(e.Areas), numtext.Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, pEquals(e.PValue), pEquals(e.OrdinaryPValue))
 		if e.Capped {
 			text += " (The estimate reached the number of areas, so no reduction was applied.)"
 		}
@@ -88,8 +89,8 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	}
 	a := r.Autocorrelation
 	fmt.Fprintf(&b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
-	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", Count(r.Weights.Areas), Count(r.Weights.Pairs),
-		Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
+	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
+		numtext.Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
 	if a.Outcome.Variable != "" {
 		fmt.Fprintf(&b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
 		for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {
@@ -113,7 +114,7 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	for _, c := range r.Cautions {
 		b.WriteString(Wrap(c, width, "  - ", "    "))
 	}
-	fmt.Fprintf(&b, "\nseed %d · %s shuffles per scheme · areatest %s\n", r.Seed, Count(permutationsAsked(r)), r.Version)
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per scheme · areatest %s\n", r.Seed, numtext.Count(permutationsAsked(r)), r.Version)
 	_, err := io.WriteString(w, b.String())
 	return err
 }

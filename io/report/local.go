@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/weights"
 )
@@ -52,15 +53,15 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 		subject += " against the lag of " + d.Against
 	}
 	fmt.Fprintf(&b, "areatest %s: where does %s cluster?\n\n", d.Version, subject)
-	fmt.Fprintf(&b, "  input       %s, %s areas, %s analysed\n", d.Input, Count(len(d.Areas)), Count(s.Areas))
-	fmt.Fprintf(&b, "  statistic   %s, %s conditional shuffles per area (%s p-values)\n", s.Statistic, Count(s.Permutations), s.Alternative)
+	fmt.Fprintf(&b, "  input       %s, %s areas, %s analysed\n", d.Input, numtext.Count(len(d.Areas)), numtext.Count(s.Areas))
+	fmt.Fprintf(&b, "  statistic   %s, %s conditional shuffles per area (%s p-values)\n", s.Statistic, numtext.Count(s.Permutations), s.Alternative)
 	fmt.Fprintf(&b, "  weights     %s, %s; %s, %s without neighbours\n", d.Weights.Kind, d.Weights.Transform,
-		plural(d.Weights.Pairs, "neighbour pair", "neighbour pairs"), Count(d.Weights.Islands))
-	fmt.Fprintf(&b, "  testing     %s areas at p ≤ %g before adjustment, %s after %s\n\n", Count(d.RawSignificant), s.Alpha,
-		Count(d.AdjustedSignificant), s.Adjustment)
+		plural(d.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(d.Weights.Islands))
+	fmt.Fprintf(&b, "  testing     %s areas at p ≤ %g before adjustment, %s after %s\n\n", numtext.Count(d.RawSignificant), s.Alpha,
+		numtext.Count(d.AdjustedSignificant), s.Adjustment)
 	fmt.Fprintf(&b, "  %-22s %7s\n", "category", "areas")
 	for _, c := range s.Categories {
-		fmt.Fprintf(&b, "  %-22s %7s\n", c.Category, Count(c.Areas))
+		fmt.Fprintf(&b, "  %-22s %7s\n", c.Category, numtext.Count(c.Areas))
 	}
 	b.WriteString("\n")
 	strongest := strongestAreas(d.Areas, top)
@@ -73,7 +74,7 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 		b.WriteString("\n")
 	}
 	b.WriteString(Wrap(fmt.Sprintf("Each area's statistic is compared with %s arrangements in which the area keeps its own value and its neighbours' values are drawn from the other areas. Categories use the %s p-values at %g. With one test per area, some areas pass by chance: the adjusted p-values (%s) keep that in check.",
-		Count(s.Permutations), s.CategoriesFrom, s.Alpha, s.Adjustment), width, "  ", "  "))
+		numtext.Count(s.Permutations), s.CategoriesFrom, s.Alpha, s.Adjustment), width, "  ", "  "))
 	b.WriteString("\n")
 	writeWarnings(&b, d.Warnings)
 	writeCautions(&b, d.Cautions)

@@ -10,6 +10,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/areatest/areatest/internal/numtext"
 )
 
 // JSON writes v as one indented JSON document followed by a newline.
@@ -82,30 +84,10 @@ func Number(v float64) string {
 	return s
 }
 
-// Count writes an integer with thousands separators (9,999).
-func Count(n int) string {
-	s := strconv.Itoa(n)
-	neg := strings.HasPrefix(s, "-")
-	if neg {
-		s = s[1:]
-	}
-	var out []byte
-	for i := range s {
-		if i > 0 && (len(s)-i)%3 == 0 {
-			out = append(out, ',')
-		}
-		out = append(out, s[i])
-	}
-	if neg {
-		return "-" + string(out)
-	}
-	return string(out)
-}
-
 // plural writes a count with the singular or plural noun.
 func plural(n int, one, many string) string {
 	if n == 1 {
 		return "1 " + one
 	}
-	return Count(n) + " " + many
+	return numtext.Count(n) + " " + many
 }

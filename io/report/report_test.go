@@ -1,6 +1,10 @@
 package report
 
-import "testing"
+import (
+	"testing"
+
+	"github.com/areatest/areatest/internal/numtext"
+)
 
 func TestFormatting(t *testing.T) {
 	for _, c := range []struct {
@@ -14,10 +18,10 @@ func TestFormatting(t *testing.T) {
 		{Number(12345.6), "12346"},
 		{Number(0), "0"},
 		{Number(3e-7), "3.000e-07"},
-		{Count(9999), "9,999"},
-		{Count(1234567), "1,234,567"},
-		{Count(-1000), "-1,000"},
-		{Count(12), "12"},
+		{numtext.Count(9999), "9,999"},
+		{numtext.Count(1234567), "1,234,567"},
+		{numtext.Count(-1000), "-1,000"},
+		{numtext.Count(12), "12"},
 		{Wrap("one two three four", 9, "- ", "  "), "- one two\n  three\n  four\n"},
 	} {
 		if c.got != c.want {

@@ -5,6 +5,7 @@ import (
 	"io"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -30,14 +31,14 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 		row("", set)
 	}
 	row("weights", s.Transform)
-	row("areas", Count(s.Areas))
-	row("links", fmt.Sprintf("%s (%s directed links)", plural(s.Pairs, "neighbour pair", "neighbour pairs"), Count(s.Links)))
+	row("areas", numtext.Count(s.Areas))
+	row("links", fmt.Sprintf("%s (%s directed links)", plural(s.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(s.Links)))
 	if s.Areas > 0 {
 		row("neighbours", fmt.Sprintf("mean %.2f, fewest %d%s, most %d%s", s.MeanNeighbours,
 			s.MinNeighbours, idListOf(first(s.FewestIDs, 4), s.Histogram[s.MinNeighbours]),
 			s.MaxNeighbours, idListOf(first(s.MostIDs, 4), s.Histogram[s.MaxNeighbours])))
 	}
-	islands := Count(s.Islands)
+	islands := numtext.Count(s.Islands)
 	if s.Islands > 0 {
 		islands += idListOf(s.IslandIDs, s.Islands)
 	}
@@ -52,7 +53,7 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 		row("connected", fmt.Sprintf("no: %d separate groups of linked areas, sizes %s", linkedGroups, sizeList(s.ComponentSizes[:linkedGroups])))
 	}
 	if s.Asymmetric > 0 {
-		row("asymmetric", fmt.Sprintf("%s links have no link back", Count(s.Asymmetric)))
+		row("asymmetric", fmt.Sprintf("%s links have no link back", numtext.Count(s.Asymmetric)))
 	} else {
 		row("symmetric", "yes")
 	}
@@ -67,7 +68,7 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 				continue
 			}
 			bar := strings.Repeat("█", (c*40+peak-1)/max(peak, 1))
-			fmt.Fprintf(&b, "  %10d %7s  %s\n", k, Count(c), bar)
+			fmt.Fprintf(&b, "  %10d %7s  %s\n", k, numtext.Count(c), bar)
 		}
 	}
 	if len(s.Warnings) > 0 {
@@ -105,7 +106,7 @@ func sizeList(sizes []int) string {
 			parts = append(parts, fmt.Sprintf("… (%d more)", len(sizes)-8))
 			break
 		}
-		parts = append(parts, Count(s))
+		parts = append(parts, numtext.Count(s))
 	}
 	return strings.Join(parts, ", ")
 }

@@ -14,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/groups"
@@ -521,7 +522,7 @@ func recommend(res *Result, opt Options) {
 		b.WriteString("The outcome's spatial pattern makes the free shuffle unreliable here. ")
 	}
 	if e := res.EffectiveSampleSize; e != nil && !e.Capped {
-		fmt.Fprintf(&b, "The %s areas carry about %s areas' worth of independent information. ", thousands(e.Areas), thousands(int(math.Round(e.EffectiveSampleSize))))
+		fmt.Fprintf(&b, "The %s areas carry about %s areas' worth of independent information. ", numtext.Count(e.Areas), numtext.Count(int(math.Round(e.EffectiveSampleSize))))
 	}
 	if fpr != nil {
 		fmt.Fprintf(&b, "On %d outcomes with the same spatial pattern and no link to the grouping, the free shuffle called %.0f%% significant at the %g level (95%% interval %.0f–%.0f%%), where a sound test calls %g%%. ",
@@ -865,13 +866,4 @@ func naturalLess(a, b string) bool {
 		return false
 	}
 	return a < b
-}
-
-// thousands writes an integer with thousands separators, as the reports do.
-func thousands(n int) string {
-	s := strconv.Itoa(n)
-	for i := len(s) - 3; i > 0; i -= 3 {
-		s = s[:i] + "," + s[i:]
-	}
-	return s
 }

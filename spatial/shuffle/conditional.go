@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // Conditional permutation (Anselin 1995, Geogr. Anal. 27:93–115, section
@@ -174,7 +176,7 @@ func RunLocal(p LocalPlan, f LocalFactory) ([]LocalResult, error) {
 	}
 	errs := make([]error, n)
 	blocks := (n + LocalBlockSize - 1) / LocalBlockSize
-	ForBlocks(blocks, p.Workers, func() func(int) {
+	parallel.ForBlocks(blocks, p.Workers, func() func(int) {
 		w := newLocalWorker(n, maxDeg, f())
 		return func(b int) {
 			for i := b * LocalBlockSize; i < min((b+1)*LocalBlockSize, n); i++ {

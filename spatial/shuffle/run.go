@@ -7,6 +7,8 @@ import (
 	"math/big"
 	"sort"
 	"sync/atomic"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // Evaluator computes a statistic for one arrangement of labels. It may keep
@@ -400,7 +402,7 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 		}
 	}
 	var done atomic.Int64
-	ForBlocks(blocks, p.Workers, func() func(int) {
+	parallel.ForBlocks(blocks, p.Workers, func() func(int) {
 		eval := f()
 		labels := make([]int32, len(p.Labels))
 		vals := make([]float64, k)

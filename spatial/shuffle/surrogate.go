@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sync/atomic"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // SurrogatePlan describes a test whose null distribution comes from
@@ -80,7 +82,7 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 		null = make([]float64, B)
 	}
 	var done atomic.Int64
-	ForBlocks(blocks, p.Workers, func() func(int) {
+	parallel.ForBlocks(blocks, p.Workers, func() func(int) {
 		draw, eval := newDraw(), newEval()
 		y := make([]float64, n)
 		var rng Stream

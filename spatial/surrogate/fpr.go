@@ -6,6 +6,7 @@ import (
 	"runtime"
 	"sync/atomic"
 
+	"github.com/areatest/areatest/internal/parallel"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
@@ -100,7 +101,7 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 	rejected := make([]bool, S)
 	errs := make([]error, blocks)
 	var done atomic.Int64
-	shuffle.ForBlocks(blocks, opt.Workers, func() func(int) {
+	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
 		s := o.b.NewScratch()
 		y := make([]float64, n)
 		// One groups.Data per worker, re-sorted for each surrogate; the
