@@ -60,13 +60,9 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, e
 			return nil, warnings, err
 		}
 	} else {
-		pts, err := RepresentativePoints(geoms, s.Points)
+		pts, metric, err := s.Locate(geoms)
 		if err != nil {
 			return nil, nil, err
-		}
-		metric := DetectMetric(geoms)
-		if s.Planar {
-			metric = Planar
 		}
 		switch {
 		case s.KNN > 0:
@@ -91,6 +87,33 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, e
 		}
 	}
 	return g, warnings, nil
+}
+
+// Locate returns the representative point of each area and the metric
+// distances between them are measured in, as the spec's point-based rules
+// use them: the one place that chooses both.
+func (s Spec) Locate(geoms []orb.MultiPolygon) ([]orb.Point, Metric, error) {
+	pts, err := RepresentativePoints(geoms, s.Points)
+	if err != nil {
+		return nil, 0, err
+	}
+	metric := DetectMetric(geoms)
+	if s.Planar {
+		metric = Planar
+	}
+	return pts, metric, nil
+}
+
+// DistanceClasses cuts the distances between the areas' representative
+// points (chosen as for the spec's point-based rules) into k classes of the
+// given width: the graphs of a correlogram over distance (see the package
+// function DistanceClasses).
+func (s Spec) DistanceClasses(geoms []orb.MultiPolygon, width float64, k int) ([]*Graph, error) {
+	pts, metric, err := s.Locate(geoms)
+	if err != nil {
+		return nil, err
+	}
+	return DistanceClasses(pts, width, k, metric)
 }
 
 // Units names the distance units of the spec's rule for a layer: kilometres

@@ -43,6 +43,7 @@ type clusterFlags struct {
 	permutations, workers                  int
 	seed                                   uint64
 	weights                                weightFlags
+	spec                                   weights.Spec // set by prepare
 }
 
 func (c *clusterFlags) register(fs *pflag.FlagSet, formats string) {
@@ -90,6 +91,7 @@ func (c *clusterFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, fo
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
+	c.spec = spec
 	g, warnings, err := c.weights.graph(lay, spec)
 	for _, w := range warnings {
 		warn(stderr, w)
@@ -173,16 +175,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	in.Lags = lags
 	if lagWidth > 0 {
 		in.Lags = 0
-		spec, _, _, _ := c.weights.spec()
-		pts, err := weights.RepresentativePoints(lay.Geoms, spec.Points)
-		if err != nil {
-			return fmt.Errorf("%s: %v", lay.Source, err)
-		}
-		metric := weights.DetectMetric(lay.Geoms)
-		if spec.Planar {
-			metric = weights.Planar
-		}
-		if in.DistanceClasses, err = weights.DistanceClasses(pts, lagWidth, lags, metric); err != nil {
+		if in.DistanceClasses, err = c.spec.DistanceClasses(lay.Geoms, lagWidth, lags); err != nil {
 			return fmt.Errorf("%s: %v", lay.Source, err)
 		}
 	}
