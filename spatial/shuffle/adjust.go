@@ -1,10 +1,10 @@
 package shuffle
 
 import (
-	"fmt"
 	"math"
 	"sort"
-	"strings"
+
+	"github.com/areatest/areatest/internal/choice"
 )
 
 // Method is a way of adjusting a family of p-values for multiple testing.
@@ -47,19 +47,11 @@ func (m Method) String() string {
 // ParseMethod reads a method name: none, bonferroni, holm,
 // benjamini-hochberg (or bh) and benjamini-yekutieli (or by), in any case.
 func ParseMethod(s string) (Method, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "none":
-		return None, nil
-	case "bonferroni":
-		return Bonferroni, nil
-	case "holm":
-		return Holm, nil
-	case "benjamini-hochberg", "bh":
-		return BenjaminiHochberg, nil
-	case "benjamini-yekutieli", "by":
-		return BenjaminiYekutieli, nil
-	}
-	return None, fmt.Errorf("adjustment must be none, bonferroni, holm, benjamini-hochberg (bh) or benjamini-yekutieli (by), not %q", s)
+	return choice.Parse("adjustment", s,
+		choice.Name[Method]{Name: "none", Value: None}, choice.Name[Method]{Name: "bonferroni", Value: Bonferroni},
+		choice.Name[Method]{Name: "holm", Value: Holm},
+		choice.Name[Method]{Name: "benjamini-hochberg", Value: BenjaminiHochberg}, choice.Name[Method]{Name: "bh", Value: BenjaminiHochberg},
+		choice.Name[Method]{Name: "benjamini-yekutieli", Value: BenjaminiYekutieli}, choice.Name[Method]{Name: "by", Value: BenjaminiYekutieli})
 }
 
 // Adjust returns the adjusted p-values of p under method, in the order of p.

@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/bits"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/parallel"
 )
 
@@ -30,16 +31,10 @@ import (
 // Only RunLocal knows Folded; Run and RunMany reject it.
 const Folded Alternative = 3
 
-// ParseLocalAlternative reads "folded", "two-sided", "greater" or "less".
+// ParseLocalAlternative reads "folded", "two-sided", "greater" or "less",
+// in any case.
 func ParseLocalAlternative(s string) (Alternative, error) {
-	if s == "folded" {
-		return Folded, nil
-	}
-	a, err := ParseAlternative(s)
-	if err != nil {
-		return Folded, fmt.Errorf("alternative must be folded, two-sided, greater or less, not %q", s)
-	}
-	return a, nil
+	return choice.Parse("alternative", s, append([]choice.Name[Alternative]{{Name: "folded", Value: Folded}}, alternatives...)...)
 }
 
 // LocalEvaluator computes area i's statistic when the areas drawn fill its

@@ -1,9 +1,9 @@
 package shuffle
 
 import (
-	"fmt"
-
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/areatest/areatest/internal/choice"
 )
 
 // Alternative is the direction of a test.
@@ -30,17 +30,12 @@ func (a Alternative) String() string {
 	return "two-sided"
 }
 
-// ParseAlternative reads "two-sided", "greater" or "less".
+// alternatives are the names ParseAlternative reads.
+var alternatives = []choice.Name[Alternative]{{Name: "two-sided", Value: TwoSided}, {Name: "greater", Value: Greater}, {Name: "less", Value: Less}}
+
+// ParseAlternative reads "two-sided", "greater" or "less", in any case.
 func ParseAlternative(s string) (Alternative, error) {
-	switch s {
-	case "two-sided":
-		return TwoSided, nil
-	case "greater":
-		return Greater, nil
-	case "less":
-		return Less, nil
-	}
-	return TwoSided, fmt.Errorf("alternative must be two-sided, greater or less, not %q", s)
+	return choice.Parse("alternative", s, alternatives...)
 }
 
 // ClopperPearson returns the exact (Clopper & Pearson 1934) confidence

@@ -1,13 +1,3 @@
-// Package shuffle is the one place where areatest draws null distributions:
-// free and within-strata label shuffles, exact enumeration of every distinct
-// arrangement when there are few enough, permutation p-values with their
-// Monte Carlo uncertainty, and the seeded random streams behind them.
-//
-// Every test in the tool goes through Run. A statistic never loops over
-// permutations itself: it hands Run a Factory of evaluators, and Run decides
-// how the arrangements are produced. Work is split into fixed blocks of draws;
-// block k always uses the stream derived from (seed, k), so results do not
-// depend on how many goroutines share the blocks.
 package shuffle
 
 import (

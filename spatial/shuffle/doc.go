@@ -1,0 +1,31 @@
+// Package shuffle is the one place where areatest draws null
+// distributions. A statistic never loops over permutations itself: it hands
+// this package evaluators, and the package decides how the arrangements are
+// produced.
+//
+// The schemes, one entry point each:
+//   - Run and RunMany: label shuffles, free or within strata, with exact
+//     enumeration of every distinct arrangement when there are few enough
+//     (RunMany shares each draw among several statistics);
+//   - NewFreedmanLane: shuffles of reduced-model residuals, for a group
+//     effect adjusted for covariates (Freedman & Lane 1983);
+//   - RunLocal: conditional permutation per area (Anselin 1995), each area
+//     with its own stream;
+//   - RunSurrogates: null values from surrogate outcomes made elsewhere
+//     (spatial/surrogate), finished like the other schemes.
+//
+// Around them: permutation p-values (1 + b)/(1 + B) with Clopper–Pearson
+// intervals for their Monte Carlo uncertainty (Phipson & Smyth 2010),
+// multiple-testing adjustment (Method, Adjust: Holm, Benjamini–Hochberg,
+// Benjamini–Yekutieli), and the seeded random streams (Stream).
+//
+// Reproducibility: work is cut into fixed blocks of draws, scheduled by
+// internal/parallel; block k always uses the stream derived from (seed,
+// purpose, k), so results do not depend on how many goroutines share the
+// blocks.
+//
+// Checks: the unit tests here enumerate small cases exactly (Fisher's tea
+// tasting, p = 1/70) and check the adjustments against their published
+// definitions; tests/scipy_test.go compares exact and Monte Carlo p-values
+// with values stored from scipy (tests/testdata/scipy).
+package shuffle
