@@ -24,8 +24,9 @@
 // purpose, k), so results do not depend on how many goroutines share the
 // blocks.
 //
-// Checks: the unit tests here enumerate small cases exactly (Fisher's tea
-// tasting, p = 1/70) and check the adjustments against their published
+// Checks: the unit tests here enumerate small cases exactly and check the
+// adjustments on small cases worked by hand from their published
 // definitions; tests/scipy_test.go compares exact and Monte Carlo p-values
-// with values stored from scipy (tests/testdata/scipy).
+// with values stored from scipy (tests/testdata/scipy, with the scripts
+// that made them) and runs Fisher's tea tasting (p = 1/70).
 package shuffle
