@@ -1,6 +1,3 @@
-// Package autocorr measures how a variable clusters on the neighbour graph:
-// global Moran's I with its analytic moments and its permutation test through
-// the shared shuffle machinery.
 package autocorr
 
 import (
