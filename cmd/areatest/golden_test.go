@@ -85,8 +85,8 @@ func TestGoldenReports(t *testing.T) {
 				t.Fatalf("exit %d: %s", r.code, r.stderr)
 			}
 			golden := filepath.Join(goldenDir(t), c.name)
-			testkit.Golden(t, golden+".out", []byte(r.stdout))
-			testkit.Golden(t, golden+".err", []byte(r.stderr))
+			testkit.Golden(t, golden+".stdout", []byte(r.stdout))
+			testkit.Golden(t, golden+".stderr", []byte(r.stderr))
 			for _, f := range c.files {
 				b, err := os.ReadFile(f)
 				if err != nil {
