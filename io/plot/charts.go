@@ -96,9 +96,7 @@ func newChart(xlabel, ylabel string) *gplot.Plot {
 // legend row and note.
 type chartFrame struct {
 	w, h    float64 // pixels
-	title   []string
-	sub     []string
-	note    []string
+	text    frameText
 	legend  []legendItem
 	legRows [][]legendItem
 }
@@ -112,20 +110,12 @@ type legendItem struct {
 
 func newFrame(ff *fontFaces, opt PlotOptions, w, h int, legend []legendItem) chartFrame {
 	fr := chartFrame{w: float64(w), h: float64(h), legend: legend}
+	fr.text = wrapFrameText(ff, opt.Title, opt.Subtitle, opt.Note, fr.w)
 	tw := fr.w - 2*margin
-	if opt.Title != "" {
-		fr.title = ff.wrap(opt.Title, true, titleSize, tw)
-	}
-	if opt.Subtitle != "" {
-		fr.sub = ff.wrap(opt.Subtitle, false, subSize, tw)
-	}
-	if opt.Note != "" {
-		fr.note = ff.wrap(opt.Note, false, noteSize, tw)
-	}
 	var row []legendItem
 	rowW := 0.0
 	for _, it := range legend {
-		iw := 26 + ff.width(false, labelSize, it.label) + 22
+		iw := it.width(ff)
 		if len(row) > 0 && rowW+iw > tw {
 			fr.legRows = append(fr.legRows, row)
 			row, rowW = nil, 0
@@ -139,8 +129,14 @@ func newFrame(ff *fontFaces, opt PlotOptions, w, h int, legend []legendItem) cha
 	return fr
 }
 
+// width is the room the item takes in its row: key, label and the gap to
+// the next item.
+func (it legendItem) width(ff *fontFaces) float64 {
+	return 26 + ff.width(false, labelSize, it.label) + 22
+}
+
 func (fr chartFrame) headerH() float64 {
-	h := float64(len(fr.title))*27 + float64(len(fr.sub))*19
+	h := fr.text.headH()
 	if h > 0 {
 		h += 10
 	}
@@ -152,8 +148,8 @@ func (fr chartFrame) footerH() float64 {
 	if len(fr.legRows) > 0 {
 		h += float64(len(fr.legRows))*rowH + 12
 	}
-	if len(fr.note) > 0 {
-		h += float64(len(fr.note))*15 + 10
+	if len(fr.text.note) > 0 {
+		h += fr.text.noteH() + 10
 	}
 	return h
 }
@@ -162,42 +158,40 @@ func (fr chartFrame) footerH() float64 {
 // returns the canvas left for the plot.
 func (fr chartFrame) draw(ff *fontFaces, c draw.Canvas) draw.Canvas {
 	top := func(yPx float64) vg.Length { return px(fr.h - yPx) } // from the top, in pixels
-	y := margin
-	for _, t := range fr.title {
-		c.FillText(textStyle(titleSize, true, inkTitle), vg.Point{X: px(margin), Y: top(y + 21)}, t)
-		y += 27
+	put := func(l textLine) {
+		c.FillText(textStyle(l.size, l.bold, l.c), vg.Point{X: px(margin), Y: top(l.y)}, l.s)
 	}
-	for _, t := range fr.sub {
-		c.FillText(textStyle(subSize, false, inkText), vg.Point{X: px(margin), Y: top(y + 15)}, t)
-		y += 19
+	for _, l := range fr.text.head() {
+		put(l)
 	}
-	yb := fr.h - margin - fr.footerH()
-	if len(fr.legRows) > 0 {
-		ly := yb + 12
-		for _, row := range fr.legRows {
-			x := margin
-			for _, it := range row {
-				cy := top(ly + rowH/2)
-				switch it.kind {
-				case 0:
-					c.DrawGlyph(draw.GlyphStyle{Color: it.c, Radius: px(4.5), Shape: rimmedDot{rim: darker(it.c, 0.4, 1)}}, vg.Point{X: px(x + 10), Y: cy})
-				case 1:
-					c.StrokeLine2(draw.LineStyle{Color: it.c, Width: px(2.2)}, px(x), cy, px(x+20), cy)
-				case 2:
-					c.FillPolygon(it.c, []vg.Point{{X: px(x + 2), Y: cy - px(6)}, {X: px(x + 18), Y: cy - px(6)}, {X: px(x + 18), Y: cy + px(6)}, {X: px(x + 2), Y: cy + px(6)}})
-				}
-				c.FillText(textStyle(labelSize, false, inkText), vg.Point{X: px(x + 26), Y: top(ly + rowH/2 + 4.5)}, it.label)
-				x += 26 + ff.width(false, labelSize, it.label) + 22
-			}
-			ly += rowH
+	ly := fr.h - margin - fr.footerH() + 12
+	for _, row := range fr.legRows {
+		x := margin
+		for _, it := range row {
+			cy := top(ly + rowH/2)
+			it.drawKey(c, x, cy)
+			c.FillText(textStyle(labelSize, false, inkText), vg.Point{X: px(x + 26), Y: top(ly + rowH/2 + 4.5)}, it.label)
+			x += it.width(ff)
 		}
+		ly += rowH
 	}
-	ny := fr.h - margin - float64(len(fr.note))*15
-	for _, t := range fr.note {
-		c.FillText(textStyle(noteSize, false, inkMuted), vg.Point{X: px(margin), Y: top(ny + 11)}, t)
-		ny += 15
+	for _, l := range fr.text.foot(fr.h) {
+		put(l)
 	}
 	return draw.Crop(c, px(margin-6), -px(margin), px(margin+fr.footerH()), -px(margin+fr.headerH()))
+}
+
+// drawKey draws the item's dot, line or bar at x pixels from the left,
+// centred on the height cy.
+func (it legendItem) drawKey(c draw.Canvas, x float64, cy vg.Length) {
+	switch it.kind {
+	case 0:
+		c.DrawGlyph(draw.GlyphStyle{Color: it.c, Radius: px(4.5), Shape: rimmedDot{rim: darker(it.c, 0.4, 1)}}, vg.Point{X: px(x + 10), Y: cy})
+	case 1:
+		c.StrokeLine2(draw.LineStyle{Color: it.c, Width: px(2.2)}, px(x), cy, px(x+20), cy)
+	case 2:
+		c.FillPolygon(it.c, []vg.Point{{X: px(x + 2), Y: cy - px(6)}, {X: px(x + 18), Y: cy - px(6)}, {X: px(x + 18), Y: cy + px(6)}, {X: px(x + 2), Y: cy + px(6)}})
+	}
 }
 
 // render draws the frame and the plot onto a canvas of the format and
@@ -252,8 +246,8 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *gplot.Plot, 
 
 func chartSize(opt PlotOptions, dw, dh int) (int, int, error) {
 	w, h := opt.Width, opt.Height
-	if w < 0 || h < 0 || w > maxSide || h > maxSide {
-		return 0, 0, fmt.Errorf("plot: picture size %d×%d out of range (0 to %d pixels a side; 0 picks one)", w, h, maxSide)
+	if err := checkSize(w, h); err != nil {
+		return 0, 0, err
 	}
 	if w == 0 {
 		w = dw

@@ -42,6 +42,15 @@ type MapOptions struct {
 // gigabytes of pixels.
 const maxSide = 20000
 
+// checkSize checks the size asked for a picture; 0 leaves a side to the
+// drawing.
+func checkSize(w, h int) error {
+	if w < 0 || h < 0 || w > maxSide || h > maxSide {
+		return fmt.Errorf("plot: picture size %d×%d out of range (0 to %d pixels a side; 0 picks one)", w, h, maxSide)
+	}
+	return nil
+}
+
 const (
 	defaultWidth = 1000
 	margin       = 24.0
