@@ -406,10 +406,11 @@ func (ap *areaPainter) markers(isl islands) {
 			continue
 		}
 		b := isl.boxes[p]
-		st := ap.classStyle(ap.spec.class[ap.fl.partArea[p]])
-		if ap.spec.class[ap.fl.partArea[p]] < 0 {
-			st = ap.classStyle(ap.missingClass())
+		c := ap.spec.class[ap.fl.partArea[p]]
+		if c < 0 {
+			c = ap.missingClass()
 		}
+		st := ap.classStyle(c)
 		st.stroke, st.strokeW = markerRim, 0.9
 		ap.cv.circle((b.x0+b.x1)/2, (b.y0+b.y1)/2, markerR, st)
 	}
