@@ -11,9 +11,10 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/paulmach/orb"
+
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
-	"github.com/paulmach/orb"
 )
 
 func demoLayer(t *testing.T) *layer.Layer {
