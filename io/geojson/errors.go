@@ -19,12 +19,21 @@ type Error struct {
 	Feature int
 	// ID is the feature's id when it was known at the time of the error.
 	ID string
+	// Line and Column locate a JSON syntax error in the input (1-based,
+	// columns in characters) when the input could be read again to count
+	// them; 0 otherwise.
+	Line, Column int
 	// Msg says what is wrong, without the source and feature prefix.
 	Msg string
+	// Skippable says the feature has no polygon geometry (none, null, empty
+	// or of another type): Options.SkipBadGeometry would have left it out,
+	// with a warning, instead of failing. Broken geometry is not skippable.
+	Skippable bool
 	// Err is the underlying cause (a JSON syntax error, a read error), if any.
 	Err error
 }
 
+// Error gives the one-line message: source, feature and what is wrong.
 func (e *Error) Error() string {
 	var b strings.Builder
 	b.WriteString(e.Source)
@@ -63,7 +72,12 @@ func (rd *reader) jsonError(err error, feature int, id string, fromToken bool) *
 	var se *json.SyntaxError
 	switch {
 	case errors.As(err, &se):
-		at := rd.syntaxPosition(se, fromToken)
+		idx := rd.syntaxOffset(se, fromToken)
+		line, col, ok := rd.lineColumn(idx)
+		at := fmt.Sprintf("byte offset %d", idx)
+		if ok {
+			at = fmt.Sprintf("line %d, column %d", line, col)
+		}
 		msg := se.Error()
 		if c := badChar(msg); c == "N" || c == "I" {
 			msg += " (NaN and Infinity are not JSON numbers)"
@@ -73,6 +87,9 @@ func (rd *reader) jsonError(err error, feature int, id string, fromToken bool) *
 		}
 		e := rd.fail(feature, id, "not valid JSON at %s: %s", at, msg)
 		e.Err = err
+		if ok {
+			e.Line, e.Column = line, col
+		}
 		return e
 	case errors.Is(err, io.ErrUnexpectedEOF):
 		e := rd.fail(feature, id, "the input ends inside a JSON value (is the file cut short?)")
@@ -116,11 +133,10 @@ func (rd *reader) formatHint() string {
 	return ""
 }
 
-// syntaxPosition says where a syntax error lies, as "line L, column C" when
-// the input can be read again from the start, else as a byte offset.
-func (rd *reader) syntaxPosition(se *json.SyntaxError, fromToken bool) string {
+// syntaxOffset finds the byte offset of a syntax error in the input.
+func (rd *reader) syntaxOffset(se *json.SyntaxError, fromToken bool) int64 {
 	base := rd.dec.InputOffset()
-	idx := int64(-1)
+	var idx int64
 	if fromToken && se.Offset == base {
 		idx = base
 	} else {
@@ -136,11 +152,7 @@ func (rd *reader) syntaxPosition(se *json.SyntaxError, fromToken bool) string {
 			idx = se.Offset
 		}
 	}
-	idx += rd.bomLen
-	if line, col, ok := rd.lineColumn(idx); ok {
-		return fmt.Sprintf("line %d, column %d", line, col)
-	}
-	return fmt.Sprintf("byte offset %d", idx)
+	return idx + rd.bomLen
 }
 
 // lineColumn counts lines up to byte idx by reading the input again; only

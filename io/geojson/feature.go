@@ -11,9 +11,6 @@ import (
 	"github.com/areatest/areatest/io/layer"
 )
 
-// skipHint tells how to get past a feature without polygon geometry.
-const skipHint = " (use --skip-bad-geometry to leave such features out)"
-
 // maxSkipNotes is how many left-out features are named one by one.
 const maxSkipNotes = 5
 
@@ -59,70 +56,29 @@ func (fs *featureState) init(opt Options) {
 }
 
 // readFeature decodes the next element of "features" and adds it to the
-// layer, leaves it out, or reports why it cannot be read.
+// layer, leaves it out, or reports why it cannot be read. The checks come
+// in a fixed order — the feature's type, its id, its properties, its
+// geometry, then the id it gets — so a feature with several faults is
+// reported for the same one every time.
 func (rd *reader) readFeature() error {
 	fs := &rd.feat
 	fs.pos++
 	pos := fs.pos
-
-	if err := rd.dec.Decode(&fs.raw); err != nil {
-		return rd.jsonError(err, pos, "", false)
-	}
-	if firstByte(fs.raw) != '{' {
-		return rd.fail(pos, "", "is %s, not a Feature object", jsonKind(fs.raw))
-	}
-	members, err := scanObject(fs.raw, fs.members[:0])
-	fs.members = members
+	fm, err := rd.decodeFeature(pos)
 	if err != nil {
-		return rd.fail(pos, "", "%v", err)
+		return err
 	}
-	var typ, idRaw, geomRaw, propsRaw []byte
-	for _, m := range members {
-		switch string(m.key) {
-		case "type":
-			typ = m.raw
-		case "id":
-			idRaw = m.raw
-		case "geometry":
-			geomRaw = m.raw
-		case "properties":
-			propsRaw = m.raw
-		}
-	}
-	featureID, idErr := parseFeatureID(idRaw)
-
-	if typ == nil {
-		return rd.fail(pos, featureID, `has no "type" member; a feature needs "type": "Feature"`)
-	}
-	if typ[0] != '"' {
-		return rd.fail(pos, featureID, `member "type" is %s; a feature needs "type": "Feature"`, jsonKind(typ))
-	}
-	if t := unquote(typ); t != "Feature" {
-		switch {
-		case geometryTypes[t]:
-			return rd.fail(pos, featureID, `is a bare %s geometry, not a Feature; wrap it as {"type": "Feature", "geometry": ..., "properties": ...}`, t)
-		case strings.EqualFold(t, "Feature"):
-			return rd.fail(pos, featureID, `has type %q; GeoJSON type names are case-sensitive: "Feature"`, t)
-		}
-		return rd.fail(pos, featureID, `has type %q; expected "Feature"`, t)
+	featureID, idErr := parseFeatureID(fm.id)
+	if err := rd.checkFeatureType(pos, featureID, fm.typ); err != nil {
+		return err
 	}
 	if idErr != "" {
 		return rd.fail(pos, "", "%s", idErr)
 	}
-
-	var cells []cell
-	switch firstByte(propsRaw) {
-	case 0, 'n':
-	case '{':
-		cells, err = scanObject(propsRaw, fs.cells[:0])
-		fs.cells = cells
-		if err != nil {
-			return rd.fail(pos, featureID, `"properties" is %v`, err)
-		}
-	default:
-		return rd.fail(pos, featureID, `"properties" is %s; expected an object or null`, jsonKind(propsRaw))
+	cells, err := rd.properties(pos, featureID, fm.props)
+	if err != nil {
+		return err
 	}
-
 	// The label in messages is the id the area would get, when known.
 	id, label := featureID, featureID
 	var colErr string
@@ -132,37 +88,133 @@ func (rd *reader) readFeature() error {
 			label = id
 		}
 	}
-
-	mp, skippable, msg := fs.geometry(geomRaw, pos, label)
+	mp, skippable, msg := fs.geometry(fm.geom, pos, label)
 	if msg != "" {
-		if !skippable {
-			return rd.fail(pos, label, "%s", msg)
-		}
-		if !fs.opt.SkipBadGeometry {
-			return rd.fail(pos, label, "%s", msg+skipHint)
-		}
-		fs.nSkipped++
-		if len(fs.skipNotes) < maxSkipNotes {
-			fs.skipNotes = append(fs.skipNotes, (&Error{Source: rd.name, Feature: pos, ID: label, Msg: "left out: " + msg}).Error())
-		}
-		return nil
+		return rd.badGeometry(pos, label, msg, skippable)
 	}
+	if colErr != "" {
+		return rd.fail(pos, featureID, "%s", colErr)
+	}
+	if id, err = rd.areaID(pos, id, featureID); err != nil {
+		return err
+	}
+	fs.addRow(id, mp, cells)
+	return nil
+}
 
-	if fs.opt.IDColumn != "" {
-		if colErr != "" {
-			return rd.fail(pos, featureID, "%s", colErr)
+// featureMembers are the members of a Feature object the reader uses, as
+// raw JSON; nil when absent.
+type featureMembers struct{ typ, id, geom, props []byte }
+
+// decodeFeature reads the next feature's bytes and picks out its members.
+func (rd *reader) decodeFeature(pos int) (featureMembers, error) {
+	fs := &rd.feat
+	var fm featureMembers
+	if err := rd.dec.Decode(&fs.raw); err != nil {
+		return fm, rd.jsonError(err, pos, "", false)
+	}
+	if firstByte(fs.raw) != '{' {
+		return fm, rd.fail(pos, "", "is %s, not a Feature object", jsonKind(fs.raw))
+	}
+	members, err := scanObject(fs.raw, fs.members[:0])
+	fs.members = members
+	if err != nil {
+		e := rd.fail(pos, "", "%v", err)
+		e.Err = err
+		return fm, e
+	}
+	for _, m := range members {
+		switch string(m.key) {
+		case "type":
+			fm.typ = m.raw
+		case "id":
+			fm.id = m.raw
+		case "geometry":
+			fm.geom = m.raw
+		case "properties":
+			fm.props = m.raw
 		}
-	} else if featureID == "" {
+	}
+	return fm, nil
+}
+
+// checkFeatureType checks that the "type" member says "Feature", and
+// recognises the usual slips.
+func (rd *reader) checkFeatureType(pos int, featureID string, typ []byte) error {
+	if typ == nil {
+		return rd.fail(pos, featureID, `has no "type" member; a feature needs "type": "Feature"`)
+	}
+	if typ[0] != '"' {
+		return rd.fail(pos, featureID, `member "type" is %s; a feature needs "type": "Feature"`, jsonKind(typ))
+	}
+	t := unquote(typ)
+	switch {
+	case t == "Feature":
+		return nil
+	case geometryTypes[t]:
+		return rd.fail(pos, featureID, `is a bare %s geometry, not a Feature; wrap it as {"type": "Feature", "geometry": ..., "properties": ...}`, t)
+	case strings.EqualFold(t, "Feature"):
+		return rd.fail(pos, featureID, `has type %q; GeoJSON type names are case-sensitive: "Feature"`, t)
+	}
+	return rd.fail(pos, featureID, `has type %q; expected "Feature"`, t)
+}
+
+// properties splits the "properties" member into cells; absent and null
+// give none.
+func (rd *reader) properties(pos int, featureID string, raw []byte) ([]cell, error) {
+	fs := &rd.feat
+	switch firstByte(raw) {
+	case 0, 'n':
+		return nil, nil
+	case '{':
+		cells, err := scanObject(raw, fs.cells[:0])
+		fs.cells = cells
+		if err != nil {
+			e := rd.fail(pos, featureID, `"properties" is %v`, err)
+			e.Err = err
+			return nil, e
+		}
+		return cells, nil
+	}
+	return nil, rd.fail(pos, featureID, `"properties" is %s; expected an object or null`, jsonKind(raw))
+}
+
+// badGeometry reports a feature whose geometry makes no area, or leaves it
+// out with a warning when the problem is one Options.SkipBadGeometry
+// passes over and the option is set.
+func (rd *reader) badGeometry(pos int, label, msg string, skippable bool) error {
+	fs := &rd.feat
+	if !skippable || !fs.opt.SkipBadGeometry {
+		e := rd.fail(pos, label, "%s", msg)
+		e.Skippable = skippable
+		return e
+	}
+	fs.nSkipped++
+	if len(fs.skipNotes) < maxSkipNotes {
+		fs.skipNotes = append(fs.skipNotes, (&Error{Source: rd.name, Feature: pos, ID: label, Msg: "left out: " + msg}).Error())
+	}
+	return nil
+}
+
+// areaID settles the id of the area a feature becomes: from the id column
+// (id), from the "id" member (featureID), or its position when no feature
+// has an id, never a mix of the last two; ids are unique.
+func (rd *reader) areaID(pos int, id, featureID string) (string, error) {
+	fs := &rd.feat
+	const mixed = `has no "id", while feature %d has one (id %q); give every feature an id, or take the ids from a property`
+	switch {
+	case fs.opt.IDColumn != "":
+	case featureID == "":
 		if fs.firstWith != 0 {
-			return rd.fail(pos, "", `has no "id", while feature %d has one (id %q); give every feature an id, or take the ids from a property`, fs.firstWith, fs.firstWithID)
+			return "", rd.fail(pos, "", mixed, fs.firstWith, fs.firstWithID)
 		}
 		if fs.firstWithout == 0 {
 			fs.firstWithout = pos
 		}
 		id = strconv.Itoa(pos)
-	} else {
+	default:
 		if fs.firstWithout != 0 {
-			return rd.fail(fs.firstWithout, "", `has no "id", while feature %d has one (id %q); give every feature an id, or take the ids from a property`, pos, featureID)
+			return "", rd.fail(fs.firstWithout, "", mixed, pos, featureID)
 		}
 		if fs.firstWith == 0 {
 			fs.firstWith, fs.firstWithID = pos, featureID
@@ -170,12 +222,17 @@ func (rd *reader) readFeature() error {
 	}
 	if prev, dup := fs.seen[id]; dup {
 		if fs.opt.IDColumn != "" {
-			return rd.fail(pos, id, "has the same %q value as feature %d; ids must be unique", fs.opt.IDColumn, prev)
+			return "", rd.fail(pos, id, "has the same %q value as feature %d; ids must be unique", fs.opt.IDColumn, prev)
 		}
-		return rd.fail(pos, id, "has the same id as feature %d; ids must be unique", prev)
+		return "", rd.fail(pos, id, "has the same id as feature %d; ids must be unique", prev)
 	}
 	fs.seen[id] = pos
+	return id, nil
+}
 
+// addRow appends an area: its id, its geometry and its properties, with
+// every column it lacks marked missing.
+func (fs *featureState) addRow(id string, mp orb.MultiPolygon, cells []cell) {
 	row := len(fs.ids)
 	fs.ids = append(fs.ids, id)
 	fs.geoms = append(fs.geoms, mp)
@@ -187,7 +244,6 @@ func (rd *reader) readFeature() error {
 			b.addMissing()
 		}
 	}
-	return nil
 }
 
 // geometry checks a feature's geometry member and converts it. skippable

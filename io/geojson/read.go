@@ -1,48 +1,3 @@
-// Package geojson reads a GeoJSON FeatureCollection (RFC 7946) of polygon
-// features into a layer.Layer: one area per feature, with an id, a
-// MultiPolygon geometry and one column per property.
-//
-// The reader streams: it walks the top-level object token by token and
-// decodes one feature at a time, so memory grows with the layer it builds,
-// not with the size of the file. Members of the top-level object may come in
-// any order; members it has no use for are skipped. Member names and type
-// names are matched exactly, as RFC 7946 spells them. A leading UTF-8
-// byte-order mark is ignored.
-//
-// Decided behaviours:
-//
-//   - Ids come from the feature "id" member (string or number), or from the
-//     property named by Options.IDColumn. When no feature has an id and no
-//     IDColumn is given, areas are numbered 1, 2, … by their position in the
-//     "features" array, with a warning; when only some features have one,
-//     that is an error naming the first feature without.
-//   - Numbers used as ids, or rendered as text, are written in their shortest
-//     exact form (48201, not 4.8201e+04); integer literals too long for a
-//     float64 keep their digits.
-//   - Polygon and MultiPolygon become orb.MultiPolygon (a Polygon is one
-//     part); holes are kept and rings are kept in the order and winding
-//     given. A ring whose last position differs from its first is closed,
-//     with one warning for the whole file. A ring with fewer than 4 positions
-//     after closing is an error. Positions may carry a third value
-//     (altitude), which is dropped.
-//   - Coordinates outside [-180, 180] × [-90, 90] are an error that calls the
-//     file projected; if the file carries a legacy "crs" member naming a
-//     system other than WGS84 lon/lat, the message quotes it. Such a member
-//     with in-range coordinates gives a warning, and coordinates are read as
-//     lon/lat anyway, as RFC 7946 requires.
-//   - With Options.SkipBadGeometry, features whose geometry is missing, null,
-//     empty, or of a type other than Polygon/MultiPolygon are left out with
-//     warnings; broken geometry (short rings, bad nesting, projected or
-//     non-finite coordinates) is always an error.
-//   - Property values that are absent, null, empty, or one of NA, N/A, NaN,
-//     null (any case, spaces trimmed) are missing. A column is Number when all
-//     its other values are JSON numbers or strings holding a finite number,
-//     except that a numeric string with a leading zero ("01001") marks the
-//     column as codes, so it stays Text. Otherwise the column is Text:
-//     booleans as true/false, numbers in shortest form, and objects or arrays
-//     as compact JSON text.
-//
-// The package never prints; warnings are returned to the caller.
 package geojson
 
 import (
@@ -180,84 +135,104 @@ func (rd *reader) run() (*layer.Layer, error) {
 	if d, ok := tok.(json.Delim); !ok || d != '{' {
 		return nil, rd.fail(0, "", "the input is %s, not a GeoJSON FeatureCollection object", tokenKind(tok))
 	}
-
-	var (
-		typ          string
-		haveType     bool
-		haveFeatures bool
-		pending      *Error // a projected-coordinates error waiting for a "crs" member that may follow
-	)
+	var top topLevel
 	for rd.dec.More() {
 		tok, err := rd.dec.Token()
 		if err != nil {
 			return nil, rd.jsonError(err, 0, "", true)
 		}
 		key, _ := tok.(string)
-		switch key {
-		case "type":
-			var raw json.RawMessage
-			if err := rd.dec.Decode(&raw); err != nil {
-				return nil, rd.jsonError(err, 0, "", false)
-			}
-			if firstByte(raw) != '"' || json.Unmarshal(raw, &typ) != nil {
-				return nil, rd.fail(0, "", `the top-level "type" member is %s; expected "FeatureCollection"`, jsonKind(raw))
-			}
-			haveType = true
-			if typ != "FeatureCollection" && pending == nil {
-				return nil, rd.notCollection(typ)
-			}
-		case "features":
-			if haveFeatures {
-				return nil, rd.fail(0, "", `the top-level object has two "features" members`)
-			}
-			haveFeatures = true
-			if err := rd.readFeatures(); err != nil {
-				var ge *Error
-				if !errors.As(err, &ge) || !rd.feat.projected {
-					return nil, err
-				}
-				// Keep walking: a "crs" member after the features would
-				// explain the coordinates.
-				pending = ge
-			}
-		case "crs":
-			var c crsMember
-			if err := rd.dec.Decode(&c); err != nil {
-				var te *json.UnmarshalTypeError
-				if !errors.As(err, &te) {
-					return nil, rd.jsonError(err, 0, "", false)
-				}
-			}
-			rd.crs = c.label()
-		default:
-			var skip skipValue
-			if err := rd.dec.Decode(&skip); err != nil {
-				return nil, rd.jsonError(err, 0, "", false)
-			}
+		if err := rd.member(key, &top); err != nil {
+			return nil, err
 		}
 	}
+	if err := rd.endTop(top); err != nil {
+		return nil, err
+	}
+	return rd.finish()
+}
+
+// topLevel is what the walk has found in the top-level object so far.
+type topLevel struct {
+	haveType, haveFeatures bool
+	// pending is a projected-coordinates error waiting for a "crs" member
+	// that may follow and explain it.
+	pending *Error
+}
+
+// member reads the value of the top-level member key.
+func (rd *reader) member(key string, top *topLevel) error {
+	switch key {
+	case "type":
+		var raw json.RawMessage
+		if err := rd.dec.Decode(&raw); err != nil {
+			return rd.jsonError(err, 0, "", false)
+		}
+		var typ string
+		if firstByte(raw) != '"' || json.Unmarshal(raw, &typ) != nil {
+			return rd.fail(0, "", `the top-level "type" member is %s; expected "FeatureCollection"`, jsonKind(raw))
+		}
+		top.haveType = true
+		if typ != "FeatureCollection" && top.pending == nil {
+			return rd.notCollection(typ)
+		}
+	case "features":
+		if top.haveFeatures {
+			return rd.fail(0, "", `the top-level object has two "features" members`)
+		}
+		top.haveFeatures = true
+		if err := rd.readFeatures(); err != nil {
+			var ge *Error
+			if !errors.As(err, &ge) || !rd.feat.projected {
+				return err
+			}
+			// Keep walking: a "crs" member after the features would
+			// explain the coordinates.
+			top.pending = ge
+		}
+	case "crs":
+		var c crsMember
+		if err := rd.dec.Decode(&c); err != nil {
+			var te *json.UnmarshalTypeError
+			if !errors.As(err, &te) {
+				return rd.jsonError(err, 0, "", false)
+			}
+		}
+		rd.crs = c.label()
+	default:
+		var skip skipValue
+		if err := rd.dec.Decode(&skip); err != nil {
+			return rd.jsonError(err, 0, "", false)
+		}
+	}
+	return nil
+}
+
+// endTop reads the closing brace and checks that nothing follows it and
+// that the object was a FeatureCollection with features.
+func (rd *reader) endTop(top topLevel) error {
 	if _, err := rd.dec.Token(); err != nil { // the closing brace
-		if pending != nil {
-			return nil, rd.foldCRS(pending)
+		if top.pending != nil {
+			return rd.foldCRS(top.pending)
 		}
-		return nil, rd.jsonError(err, 0, "", true)
+		return rd.jsonError(err, 0, "", true)
 	}
-	if pending != nil {
-		return nil, rd.foldCRS(pending)
+	if top.pending != nil {
+		return rd.foldCRS(top.pending)
 	}
 	end := rd.dec.InputOffset() + rd.bomLen
 	if _, err := rd.dec.Token(); err != io.EOF {
-		return nil, rd.fail(0, "", "there is more data after the top-level object, which ends at byte offset %d; expected one FeatureCollection", end)
+		return rd.fail(0, "", "there is more data after the top-level object, which ends at byte offset %d; expected one FeatureCollection", end)
 	}
 	switch {
-	case !haveType && !haveFeatures:
-		return nil, rd.fail(0, "", `the top-level object has neither "type" nor "features"; expected a GeoJSON FeatureCollection`)
-	case !haveType:
-		return nil, rd.fail(0, "", `the top-level object has no "type" member; a GeoJSON FeatureCollection needs "type": "FeatureCollection"`)
-	case !haveFeatures:
-		return nil, rd.fail(0, "", `the FeatureCollection has no "features" member`)
+	case !top.haveType && !top.haveFeatures:
+		return rd.fail(0, "", `the top-level object has neither "type" nor "features"; expected a GeoJSON FeatureCollection`)
+	case !top.haveType:
+		return rd.fail(0, "", `the top-level object has no "type" member; a GeoJSON FeatureCollection needs "type": "FeatureCollection"`)
+	case !top.haveFeatures:
+		return rd.fail(0, "", `the FeatureCollection has no "features" member`)
 	}
-	return rd.finish()
+	return nil
 }
 
 // notCollection explains a top-level object of the wrong type.

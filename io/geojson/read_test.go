@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -37,6 +38,11 @@ func feat(id, geometry, props string) string {
 func poly(coords string) string { return `{"type":"Polygon","coordinates":` + coords + `}` }
 
 func sq(id string) string { return feat(id, poly(square), `{}`) }
+
+// skippable in a TestReadErrors case says the error must be marked
+// Skippable (Options.SkipBadGeometry would pass over the feature); every
+// other error must not be.
+const skippable = "\x00skippable"
 
 func TestReadErrors(t *testing.T) {
 	withCRS := `{"type":"FeatureCollection","features":[` + feat(`"a"`, poly(`[[[512345.25,4200000],[512400,4200000],[512400,4200100],[512345.25,4200000]]]`), `{}`) + `,` + sq(`"b"`) + `],"crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::32615"}}}`
@@ -76,18 +82,18 @@ func TestReadErrors(t *testing.T) {
 		{"geometry in place of a feature", fc(sq(`1`), poly(square)), Options{}, []string{"counties.geojson: feature 2: ", "bare Polygon geometry, not a Feature"}},
 		{"feature type not a string", fc(`{"type":1}`), Options{}, []string{"counties.geojson: feature 1: ", `member "type" is a JSON number`}},
 		{"geometry not an object", fc(feat(`"a"`, `"x"`, `{}`)), Options{}, []string{`counties.geojson: feature 1 (id "a"): `, `"geometry" is a JSON string`}},
-		{"null geometry", fc(sq(`"a"`), feat(`"b"`, `null`, `{}`)), Options{}, []string{`counties.geojson: feature 2 (id "b"): `, "no geometry", "--skip-bad-geometry"}},
-		{"missing geometry", fc(`{"type":"Feature","id":"b","properties":{}}`), Options{}, []string{`counties.geojson: feature 1 (id "b"): `, "no geometry", "--skip-bad-geometry"}},
+		{"null geometry", fc(sq(`"a"`), feat(`"b"`, `null`, `{}`)), Options{}, []string{`counties.geojson: feature 2 (id "b"): `, "no geometry", skippable}},
+		{"missing geometry", fc(`{"type":"Feature","id":"b","properties":{}}`), Options{}, []string{`counties.geojson: feature 1 (id "b"): `, "no geometry", skippable}},
 		{"point", fc(feat(`"48201"`, `{"type":"Point","coordinates":[1,2]}`, `{}`)), Options{},
-			[]string{`counties.geojson: feature 1 (id "48201"): geometry is a Point; areas must be Polygon or MultiPolygon (use --skip-bad-geometry to leave such features out)`}},
-		{"multipoint", fc(feat(`"a"`, `{"type":"MultiPoint","coordinates":[[1,2]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a MultiPoint", "--skip-bad-geometry"}},
-		{"linestring", fc(feat(`"a"`, `{"type":"LineString","coordinates":[[1,2],[3,4]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a LineString", "--skip-bad-geometry"}},
-		{"multilinestring", fc(feat(`"a"`, `{"type":"MultiLineString","coordinates":[[[1,2],[3,4]]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a MultiLineString", "--skip-bad-geometry"}},
-		{"geometrycollection", fc(feat(`"a"`, `{"type":"GeometryCollection","geometries":[`+poly(square)+`]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a GeometryCollection", "--skip-bad-geometry"}},
-		{"unknown geometry type", fc(feat(`"a"`, `{"type":"polygon","coordinates":`+square+`}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, `"polygon"`, "case-sensitive"}},
-		{"geometry without type", fc(feat(`"a"`, `{"coordinates":`+square+`}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, `geometry has no "type"`}},
-		{"polygon without coordinates", fc(feat(`"a"`, `{"type":"Polygon"}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "no coordinates", "--skip-bad-geometry"}},
-		{"empty polygon", fc(feat(`"a"`, poly(`[]`), `{}`)), Options{}, []string{`feature 1 (id "a")`, "Polygon geometry is empty", "--skip-bad-geometry"}},
+			[]string{`counties.geojson: feature 1 (id "48201"): geometry is a Point; areas must be Polygon or MultiPolygon`, skippable}},
+		{"multipoint", fc(feat(`"a"`, `{"type":"MultiPoint","coordinates":[[1,2]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a MultiPoint", skippable}},
+		{"linestring", fc(feat(`"a"`, `{"type":"LineString","coordinates":[[1,2],[3,4]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a LineString", skippable}},
+		{"multilinestring", fc(feat(`"a"`, `{"type":"MultiLineString","coordinates":[[[1,2],[3,4]]]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a MultiLineString", skippable}},
+		{"geometrycollection", fc(feat(`"a"`, `{"type":"GeometryCollection","geometries":[`+poly(square)+`]}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "geometry is a GeometryCollection", skippable}},
+		{"unknown geometry type", fc(feat(`"a"`, `{"type":"polygon","coordinates":`+square+`}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, `"polygon"`, "case-sensitive", skippable}},
+		{"geometry without type", fc(feat(`"a"`, `{"coordinates":`+square+`}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, `geometry has no "type"`, skippable}},
+		{"polygon without coordinates", fc(feat(`"a"`, `{"type":"Polygon"}`, `{}`)), Options{}, []string{`feature 1 (id "a")`, "no coordinates", skippable}},
+		{"empty polygon", fc(feat(`"a"`, poly(`[]`), `{}`)), Options{}, []string{`feature 1 (id "a")`, "Polygon geometry is empty", skippable}},
 		{"projected", fc(sq(`"a"`), feat(`"b"`, poly(`[[[512345.25,4200000],[512400,4200000],[512400,4200100],[512345.25,4200000]]]`), `{}`)), Options{},
 			[]string{`counties.geojson: feature 2 (id "b"): `, "[512345.25, 4200000]", "looks projected", "lon/lat WGS84", "RFC 7946"}},
 		{"projected with crs after the features", withCRS, Options{}, []string{`counties.geojson: feature 1 (id "a"): `, "looks projected", `"urn:ogc:def:crs:EPSG::32615"`}},
@@ -141,10 +147,19 @@ func TestReadErrors(t *testing.T) {
 			}
 			var ge *Error
 			if !errors.As(err, &ge) {
-				t.Errorf("error %T is not an *Error", err)
+				t.Fatalf("error %T is not an *Error", err)
+			}
+			if strings.Contains(msg, "--") {
+				t.Errorf("error %q names a command-line flag", msg)
+			}
+			if want := slices.Contains(tc.want, skippable); ge.Skippable != want {
+				t.Errorf("error %q: Skippable %v, want %v", msg, ge.Skippable, want)
+			}
+			if at := fmt.Sprintf("JSON at line %d, column %d", ge.Line, ge.Column); (ge.Line > 0) != strings.Contains(msg, "JSON at line") || ge.Line > 0 && !strings.Contains(msg, at) {
+				t.Errorf("error %q: Line %d, Column %d", msg, ge.Line, ge.Column)
 			}
 			for _, w := range tc.want {
-				if !strings.Contains(msg, w) {
+				if w != skippable && !strings.Contains(msg, w) {
 					t.Errorf("error %q lacks %q", msg, w)
 				}
 			}

@@ -1,6 +1,3 @@
-// Package layer holds the in-memory table that every reader produces and every
-// later stage consumes: one row per area, with an id, a polygon geometry and
-// attribute columns. Nothing in this package parses files.
 package layer
 
 import (
@@ -35,10 +32,15 @@ func (k Kind) String() string {
 // null, empty or a missing-value word, in which case Num[i] (or Str[i]) is
 // meaningless (missing numbers are stored as NaN).
 type Column struct {
-	Name    string
-	Kind    Kind
-	Num     []float64
-	Str     []string
+	// Name is the attribute's name as the input spells it (case kept).
+	Name string
+	// Kind says which of Num and Str holds the values.
+	Kind Kind
+	// Num holds the values of a Number column, one per area; nil for Text.
+	Num []float64
+	// Str holds the values of a Text column, one per area; nil for Number.
+	Str []string
+	// Missing marks, per area, a value the area lacks.
 	Missing []bool
 }
 
@@ -79,9 +81,12 @@ func FormatNumber(v float64) string {
 type Layer struct {
 	// Source names where the layer came from (a path, or "-" for stdin), for
 	// error messages and reports.
-	Source  string
-	IDs     []string
-	Geoms   []orb.MultiPolygon
+	Source string
+	// IDs name the areas, one per area, all different.
+	IDs []string
+	// Geoms holds each area's polygons, in the coordinates of the input.
+	Geoms []orb.MultiPolygon
+	// Columns are the attributes, in the order the input first names them.
 	Columns []*Column
 	// IDColumn is the attribute the ids came from; "" when they came from the
 	// feature ids, "#" when they are feature positions.

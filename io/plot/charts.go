@@ -2,6 +2,7 @@ package plot
 
 import (
 	"bytes"
+	"cmp"
 	"fmt"
 	"image/color"
 	"io"
@@ -96,9 +97,7 @@ func newChart(xlabel, ylabel string) *gplot.Plot {
 // legend row and note.
 type chartFrame struct {
 	w, h    float64 // pixels
-	title   []string
-	sub     []string
-	note    []string
+	text    frameText
 	legend  []legendItem
 	legRows [][]legendItem
 }
@@ -112,20 +111,12 @@ type legendItem struct {
 
 func newFrame(ff *fontFaces, opt PlotOptions, w, h int, legend []legendItem) chartFrame {
 	fr := chartFrame{w: float64(w), h: float64(h), legend: legend}
+	fr.text = wrapFrameText(ff, opt.Title, opt.Subtitle, opt.Note, fr.w)
 	tw := fr.w - 2*margin
-	if opt.Title != "" {
-		fr.title = ff.wrap(opt.Title, true, titleSize, tw)
-	}
-	if opt.Subtitle != "" {
-		fr.sub = ff.wrap(opt.Subtitle, false, subSize, tw)
-	}
-	if opt.Note != "" {
-		fr.note = ff.wrap(opt.Note, false, noteSize, tw)
-	}
 	var row []legendItem
 	rowW := 0.0
 	for _, it := range legend {
-		iw := 26 + ff.width(false, labelSize, it.label) + 22
+		iw := it.width(ff)
 		if len(row) > 0 && rowW+iw > tw {
 			fr.legRows = append(fr.legRows, row)
 			row, rowW = nil, 0
@@ -139,8 +130,14 @@ func newFrame(ff *fontFaces, opt PlotOptions, w, h int, legend []legendItem) cha
 	return fr
 }
 
+// width is the room the item takes in its row: key, label and the gap to
+// the next item.
+func (it legendItem) width(ff *fontFaces) float64 {
+	return 26 + ff.width(false, labelSize, it.label) + 22
+}
+
 func (fr chartFrame) headerH() float64 {
-	h := float64(len(fr.title))*27 + float64(len(fr.sub))*19
+	h := fr.text.headH()
 	if h > 0 {
 		h += 10
 	}
@@ -152,8 +149,8 @@ func (fr chartFrame) footerH() float64 {
 	if len(fr.legRows) > 0 {
 		h += float64(len(fr.legRows))*rowH + 12
 	}
-	if len(fr.note) > 0 {
-		h += float64(len(fr.note))*15 + 10
+	if len(fr.text.note) > 0 {
+		h += fr.text.noteH() + 10
 	}
 	return h
 }
@@ -162,42 +159,40 @@ func (fr chartFrame) footerH() float64 {
 // returns the canvas left for the plot.
 func (fr chartFrame) draw(ff *fontFaces, c draw.Canvas) draw.Canvas {
 	top := func(yPx float64) vg.Length { return px(fr.h - yPx) } // from the top, in pixels
-	y := margin
-	for _, t := range fr.title {
-		c.FillText(textStyle(titleSize, true, inkTitle), vg.Point{X: px(margin), Y: top(y + 21)}, t)
-		y += 27
+	put := func(l textLine) {
+		c.FillText(textStyle(l.size, l.bold, l.c), vg.Point{X: px(margin), Y: top(l.y)}, l.s)
 	}
-	for _, t := range fr.sub {
-		c.FillText(textStyle(subSize, false, inkText), vg.Point{X: px(margin), Y: top(y + 15)}, t)
-		y += 19
+	for _, l := range fr.text.head() {
+		put(l)
 	}
-	yb := fr.h - margin - fr.footerH()
-	if len(fr.legRows) > 0 {
-		ly := yb + 12
-		for _, row := range fr.legRows {
-			x := margin
-			for _, it := range row {
-				cy := top(ly + rowH/2)
-				switch it.kind {
-				case 0:
-					c.DrawGlyph(draw.GlyphStyle{Color: it.c, Radius: px(4.5), Shape: rimmedDot{rim: darker(it.c, 0.4, 1)}}, vg.Point{X: px(x + 10), Y: cy})
-				case 1:
-					c.StrokeLine2(draw.LineStyle{Color: it.c, Width: px(2.2)}, px(x), cy, px(x+20), cy)
-				case 2:
-					c.FillPolygon(it.c, []vg.Point{{X: px(x + 2), Y: cy - px(6)}, {X: px(x + 18), Y: cy - px(6)}, {X: px(x + 18), Y: cy + px(6)}, {X: px(x + 2), Y: cy + px(6)}})
-				}
-				c.FillText(textStyle(labelSize, false, inkText), vg.Point{X: px(x + 26), Y: top(ly + rowH/2 + 4.5)}, it.label)
-				x += 26 + ff.width(false, labelSize, it.label) + 22
-			}
-			ly += rowH
+	ly := fr.h - margin - fr.footerH() + 12
+	for _, row := range fr.legRows {
+		x := margin
+		for _, it := range row {
+			cy := top(ly + rowH/2)
+			it.drawKey(c, x, cy)
+			c.FillText(textStyle(labelSize, false, inkText), vg.Point{X: px(x + 26), Y: top(ly + rowH/2 + 4.5)}, it.label)
+			x += it.width(ff)
 		}
+		ly += rowH
 	}
-	ny := fr.h - margin - float64(len(fr.note))*15
-	for _, t := range fr.note {
-		c.FillText(textStyle(noteSize, false, inkMuted), vg.Point{X: px(margin), Y: top(ny + 11)}, t)
-		ny += 15
+	for _, l := range fr.text.foot(fr.h) {
+		put(l)
 	}
 	return draw.Crop(c, px(margin-6), -px(margin), px(margin+fr.footerH()), -px(margin+fr.headerH()))
+}
+
+// drawKey draws the item's dot, line or bar at x pixels from the left,
+// centred on the height cy.
+func (it legendItem) drawKey(c draw.Canvas, x float64, cy vg.Length) {
+	switch it.kind {
+	case 0:
+		c.DrawGlyph(draw.GlyphStyle{Color: it.c, Radius: px(4.5), Shape: rimmedDot{rim: darker(it.c, 0.4, 1)}}, vg.Point{X: px(x + 10), Y: cy})
+	case 1:
+		c.StrokeLine2(draw.LineStyle{Color: it.c, Width: px(2.2)}, px(x), cy, px(x+20), cy)
+	case 2:
+		c.FillPolygon(it.c, []vg.Point{{X: px(x + 2), Y: cy - px(6)}, {X: px(x + 18), Y: cy - px(6)}, {X: px(x + 18), Y: cy + px(6)}, {X: px(x + 2), Y: cy + px(6)}})
+	}
 }
 
 // render draws the frame and the plot onto a canvas of the format and
@@ -250,10 +245,12 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *gplot.Plot, 
 	return err
 }
 
-func chartSize(opt PlotOptions, dw, dh int) (int, int, error) {
-	w, h := opt.Width, opt.Height
-	if w < 0 || h < 0 || w > maxSide || h > maxSide {
-		return 0, 0, fmt.Errorf("plot: picture size %d×%d out of range (0 to %d pixels a side; 0 picks one)", w, h, maxSide)
+// chartSetup checks the size asked for a chart, filling a side left 0
+// with its default, and loads the fonts.
+func chartSetup(opt PlotOptions, dw, dh int) (w, h int, ff *fontFaces, err error) {
+	w, h = opt.Width, opt.Height
+	if err := checkSize(w, h); err != nil {
+		return 0, 0, nil, err
 	}
 	if w == 0 {
 		w = dw
@@ -261,7 +258,11 @@ func chartSize(opt PlotOptions, dw, dh int) (int, int, error) {
 	if h == 0 {
 		h = dh
 	}
-	return w, h, nil
+	ff, err = loadFonts()
+	if err != nil {
+		return 0, 0, nil, err
+	}
+	return w, h, ff, nil
 }
 
 // formatStat writes a statistic for a label: two decimals from 0.1 up,
@@ -301,52 +302,16 @@ func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, leg
 	if math.IsNaN(slope) || math.IsInf(slope, 0) {
 		return fmt.Errorf("plot: the slope must be a finite number, got %v", slope)
 	}
-	W, H, err := chartSize(opt, 760, 820)
+	W, H, ff, err := chartSetup(opt, 760, 820)
 	if err != nil {
 		return err
 	}
-	ff, err := loadFonts()
+	sg, err := groupPoints(z, lag, categories, legend)
 	if err != nil {
 		return err
 	}
-	nGroups := len(legend) + 1 // the last group: no category
-	groups := make([]plotter.XYs, nGroups)
-	R := 1.0
-	n := 0
-	for i := range z {
-		if math.IsNaN(z[i]) || math.IsNaN(lag[i]) {
-			continue
-		}
-		if math.IsInf(z[i], 0) || math.IsInf(lag[i], 0) {
-			return fmt.Errorf("plot: point %d is not finite (%v, %v)", i+1, z[i], lag[i])
-		}
-		g := nGroups - 1
-		if categories != nil {
-			c := categories[i]
-			if c < -1 || c >= len(legend) {
-				return fmt.Errorf("plot: point %d has category %d; the legend has %d (0 to %d, or −1 for none)", i+1, c, len(legend), len(legend)-1)
-			}
-			if c >= 0 {
-				g = c
-			}
-		}
-		groups[g] = append(groups[g], plotter.XY{X: z[i], Y: lag[i]})
-		R = math.Max(R, math.Max(math.Abs(z[i]), math.Abs(lag[i])))
-		n++
-	}
-	if n == 0 {
-		return fmt.Errorf("plot: no point has both a value and a spatial lag")
-	}
-	R *= 1.06
-
-	xl, yl := opt.XLabel, opt.YLabel
-	if xl == "" {
-		xl = "value (standardised)"
-	}
-	if yl == "" {
-		yl = "spatial lag: mean of the neighbours (standardised)"
-	}
-	p := newChart(xl, yl)
+	R := sg.reach * 1.06
+	p := newChart(cmp.Or(opt.XLabel, "value (standardised)"), cmp.Or(opt.YLabel, "spatial lag: mean of the neighbours (standardised)"))
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -R, R, -R, R
 
 	guide := draw.LineStyle{Color: guideInk, Width: px(1), Dashes: []vg.Length{px(5), px(4)}}
@@ -356,56 +321,113 @@ func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, leg
 		p.Add(l)
 	}
 	p.Add(quadrantLabels{R: R})
-
-	// Big clouds get smaller, fainter dots so that density still shows.
-	radius, alpha := 3.4, 0.85
-	switch {
-	case n > 20000:
-		radius, alpha = 1.5, 0.45
-	case n > 3000:
-		radius, alpha = 2.2, 0.6
-	}
-	order := make([]int, nGroups)
-	for g := range order {
-		order[g] = g
-	}
-	// Common groups first, so that rare ones are not buried.
-	sort.SliceStable(order, func(a, b int) bool { return len(groups[order[a]]) > len(groups[order[b]]) })
-	colorOf := func(g int) color.RGBA {
-		if g < len(legend) {
-			return legend[g].Color
-		}
-		return pointGrey
-	}
-	for _, g := range order {
-		if len(groups[g]) == 0 {
-			continue
-		}
-		s, err := plotter.NewScatter(groups[g])
-		if err != nil {
-			return err
-		}
-		c := colorOf(g)
-		s.GlyphStyle = draw.GlyphStyle{Color: withAlpha(c, alpha), Radius: px(radius), Shape: rimmedDot{rim: darker(c, 0.4, alpha)}}
-		p.Add(s)
+	if err := sg.add(p); err != nil {
+		return err
 	}
 	l, _ := plotter.NewLine(plotter.XYs{{X: -R, Y: -R * slope}, {X: R, Y: R * slope}})
 	l.LineStyle = draw.LineStyle{Color: lineInk, Width: px(2.2)}
 	p.Add(l)
 
 	items := []legendItem{{label: "slope = Moran's I = " + formatStat(slope), c: lineInk, kind: 1}}
-	for g := range nGroups {
-		if len(groups[g]) == 0 || (g == nGroups-1 && categories == nil) {
+	items = append(items, sg.legendItems(categories != nil)...)
+	fr := newFrame(ff, opt, W, H, items)
+	return render(w, f, fr, ff, p, true)
+}
+
+// scatterGroups are the points of a Moran scatter by category: group g is
+// legend[g], the last group the points without a category.
+type scatterGroups struct {
+	pts    []plotter.XYs
+	legend []Category
+	n      int     // points in all
+	reach  float64 // the largest |z| or |lag|, at least 1
+}
+
+// groupPoints sorts the points where both z and lag are known into their
+// groups.
+func groupPoints(z, lag []float64, categories []int, legend []Category) (scatterGroups, error) {
+	sg := scatterGroups{pts: make([]plotter.XYs, len(legend)+1), legend: legend, reach: 1}
+	for i := range z {
+		if math.IsNaN(z[i]) || math.IsNaN(lag[i]) {
+			continue
+		}
+		if math.IsInf(z[i], 0) || math.IsInf(lag[i], 0) {
+			return sg, fmt.Errorf("plot: point %d is not finite (%v, %v)", i+1, z[i], lag[i])
+		}
+		g := len(legend)
+		if categories != nil {
+			c := categories[i]
+			if c < -1 || c >= len(legend) {
+				return sg, fmt.Errorf("plot: point %d has category %d; the legend has %d (0 to %d, or −1 for none)", i+1, c, len(legend), len(legend)-1)
+			}
+			if c >= 0 {
+				g = c
+			}
+		}
+		sg.pts[g] = append(sg.pts[g], plotter.XY{X: z[i], Y: lag[i]})
+		sg.reach = math.Max(sg.reach, math.Max(math.Abs(z[i]), math.Abs(lag[i])))
+		sg.n++
+	}
+	if sg.n == 0 {
+		return sg, fmt.Errorf("plot: no point has both a value and a spatial lag")
+	}
+	return sg, nil
+}
+
+func (sg scatterGroups) color(g int) color.RGBA {
+	if g < len(sg.legend) {
+		return sg.legend[g].Color
+	}
+	return pointGrey
+}
+
+// add puts the groups on p as dots, the common groups first so that rare
+// ones are not buried; big clouds get smaller, fainter dots so that
+// density still shows.
+func (sg scatterGroups) add(p *gplot.Plot) error {
+	radius, alpha := 3.4, 0.85
+	switch {
+	case sg.n > 20000:
+		radius, alpha = 1.5, 0.45
+	case sg.n > 3000:
+		radius, alpha = 2.2, 0.6
+	}
+	order := make([]int, len(sg.pts))
+	for g := range order {
+		order[g] = g
+	}
+	sort.SliceStable(order, func(a, b int) bool { return len(sg.pts[order[a]]) > len(sg.pts[order[b]]) })
+	for _, g := range order {
+		if len(sg.pts[g]) == 0 {
+			continue
+		}
+		s, err := plotter.NewScatter(sg.pts[g])
+		if err != nil {
+			return err
+		}
+		c := sg.color(g)
+		s.GlyphStyle = draw.GlyphStyle{Color: withAlpha(c, alpha), Radius: px(radius), Shape: rimmedDot{rim: darker(c, 0.4, alpha)}}
+		p.Add(s)
+	}
+	return nil
+}
+
+// legendItems lists the groups that have points, with their counts; the
+// points without a category only when there are categories at all.
+func (sg scatterGroups) legendItems(categorised bool) []legendItem {
+	var items []legendItem
+	none := len(sg.pts) - 1
+	for g, pts := range sg.pts {
+		if len(pts) == 0 || (g == none && !categorised) {
 			continue
 		}
 		name := "no category"
-		if g < len(legend) {
-			name = legend[g].Name
+		if g < len(sg.legend) {
+			name = sg.legend[g].Name
 		}
-		items = append(items, legendItem{label: fmt.Sprintf("%s (%s)", name, numtext.Count(len(groups[g]))), c: colorOf(g)})
+		items = append(items, legendItem{label: fmt.Sprintf("%s (%s)", name, numtext.Count(len(pts))), c: sg.color(g)})
 	}
-	fr := newFrame(ff, opt, W, H, items)
-	return render(w, f, fr, ff, p, true)
+	return items
 }
 
 // rimmedDot is a filled circle with a darker rim, so that dots in pale
@@ -512,11 +534,7 @@ func Histogram(w io.Writer, f Format, null []float64, observed float64, opt Plot
 	if math.IsNaN(observed) || math.IsInf(observed, 0) {
 		return fmt.Errorf("plot: the observed value must be a finite number, got %v", observed)
 	}
-	W, H, err := chartSize(opt, 900, 560)
-	if err != nil {
-		return err
-	}
-	ff, err := loadFonts()
+	W, H, ff, err := chartSetup(opt, 900, 560)
 	if err != nil {
 		return err
 	}
@@ -536,14 +554,7 @@ func Histogram(w io.Writer, f Format, null []float64, observed float64, opt Plot
 	slices.Sort(vals)
 	bins := histBins(vals)
 
-	xl, yl := opt.XLabel, opt.YLabel
-	if xl == "" {
-		xl = "statistic"
-	}
-	if yl == "" {
-		yl = "shuffles"
-	}
-	p := newChart(xl, yl)
+	p := newChart(cmp.Or(opt.XLabel, "statistic"), cmp.Or(opt.YLabel, "shuffles"))
 	h := &plotter.Histogram{Bins: bins, Width: bins[0].Max - bins[0].Min, FillColor: barFill}
 	h.LineStyle = draw.LineStyle{Color: color.White, Width: px(0.8)}
 	p.Add(h)

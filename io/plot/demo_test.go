@@ -8,8 +8,9 @@ import (
 	"slices"
 	"testing"
 
-	"github.com/areatest/areatest/io/geojson"
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/io/geojson"
 )
 
 // TestDemoPictures draws the demo region's maps and plots into the folder
@@ -62,68 +63,13 @@ func TestDemoPictures(t *testing.T) {
 			})
 		})
 	}
-	// Made-up categories: the top and bottom tenths of the rate as
-	// clusters, a few areas at random as outliers.
-	vals := slices.Clone(rate.Num)
-	known := slices.DeleteFunc(slices.Clone(vals), math.IsNaN)
-	slices.Sort(known)
-	hi, lo := known[len(known)*9/10], known[len(known)/10]
 	rng := rand.New(rand.NewPCG(1, 2))
-	cats := make([]int, len(vals))
-	for i, v := range vals {
-		switch {
-		case rate.Missing[i]:
-			cats[i] = -1
-		case v >= hi:
-			cats[i] = HighHigh
-		case v <= lo:
-			cats[i] = LowLow
-		case rng.IntN(20) == 0:
-			cats[i] = HighLow
-		case rng.IntN(20) == 0:
-			cats[i] = LowHigh
-		default:
-			cats[i] = NotSignificant
-		}
-	}
-	// A queen neighbour graph from shared vertices (the demo region's
-	// neighbours share bit-identical vertices), the row-standardised lag
-	// and Moran's I, for the scatter.
-	z, lag, nb := demoLag(lay.Geoms, vals)
-	var szl, szz float64
-	for i := range z {
-		if !math.IsNaN(lag[i]) && !math.IsNaN(z[i]) {
-			szl += z[i] * lag[i]
-			szz += z[i] * z[i]
-		}
-	}
-	moran := szl / szz
-	// The permutation distribution of one area's local statistic
-	// z_i · (mean of z over |N_i| other areas drawn at random).
-	area := 0
-	for i := range z {
-		if !math.IsNaN(lag[i]) && z[i]*lag[i] > z[area]*lag[area] {
-			area = i
-		}
-	}
-	var pool []float64
-	for j := range z {
-		if j != area && !math.IsNaN(z[j]) {
-			pool = append(pool, z[j])
-		}
-	}
-	null := make([]float64, 9999)
-	for b := range null {
-		rng.Shuffle(len(pool), func(a, c int) { pool[a], pool[c] = pool[c], pool[a] })
-		var s float64
-		for _, v := range pool[:len(nb[area])] {
-			s += v
-		}
-		null[b] = z[area] * s / float64(len(nb[area]))
-	}
+	cats := demoCategories(rate.Num, rate.Missing, rng)
+	z, lag, nb := demoLag(lay.Geoms, rate.Num)
+	area, null := demoNull(z, lag, nb, rng)
 	for _, ext := range []string{".png", ".svg"} {
 		write("scatter"+ext, func(f *os.File, fm Format) error {
-			return MoranScatter(f, fm, z, lag, cats, LocalCategories(), moran, PlotOptions{
+			return MoranScatter(f, fm, z, lag, cats, LocalCategories(), demoMoran(z, lag), PlotOptions{
 				Title: "Rate against the mean rate of the neighbours", Subtitle: "Halvaren, queen contiguity, row-standardised",
 				XLabel: "rate (standardised)", YLabel: "mean rate of the neighbours (standardised)", Note: note,
 			})
@@ -140,6 +86,74 @@ func TestDemoPictures(t *testing.T) {
 			})
 		})
 	}
+}
+
+// demoCategories makes up local categories for the demo pictures: the top
+// and bottom tenths of the values as clusters, a few areas at random as
+// outliers.
+func demoCategories(vals []float64, missing []bool, rng *rand.Rand) []int {
+	known := slices.DeleteFunc(slices.Clone(vals), math.IsNaN)
+	slices.Sort(known)
+	hi, lo := known[len(known)*9/10], known[len(known)/10]
+	cats := make([]int, len(vals))
+	for i, v := range vals {
+		switch {
+		case missing[i]:
+			cats[i] = -1
+		case v >= hi:
+			cats[i] = HighHigh
+		case v <= lo:
+			cats[i] = LowLow
+		case rng.IntN(20) == 0:
+			cats[i] = HighLow
+		case rng.IntN(20) == 0:
+			cats[i] = LowHigh
+		default:
+			cats[i] = NotSignificant
+		}
+	}
+	return cats
+}
+
+// demoMoran is Moran's I from the standardised values and their
+// row-standardised lag, over the areas that have both: the slope of the
+// scatter.
+func demoMoran(z, lag []float64) float64 {
+	var szl, szz float64
+	for i := range z {
+		if !math.IsNaN(lag[i]) && !math.IsNaN(z[i]) {
+			szl += z[i] * lag[i]
+			szz += z[i] * z[i]
+		}
+	}
+	return szl / szz
+}
+
+// demoNull picks the area with the largest local statistic z_i · lag_i
+// and draws its permutation distribution: z_i times the mean of z over
+// |N_i| other areas drawn at random, 9,999 times.
+func demoNull(z, lag []float64, nb [][]int, rng *rand.Rand) (area int, null []float64) {
+	for i := range z {
+		if !math.IsNaN(lag[i]) && z[i]*lag[i] > z[area]*lag[area] {
+			area = i
+		}
+	}
+	var pool []float64
+	for j := range z {
+		if j != area && !math.IsNaN(z[j]) {
+			pool = append(pool, z[j])
+		}
+	}
+	null = make([]float64, 9999)
+	for b := range null {
+		rng.Shuffle(len(pool), func(a, c int) { pool[a], pool[c] = pool[c], pool[a] })
+		var s float64
+		for _, v := range pool[:len(nb[area])] {
+			s += v
+		}
+		null[b] = z[area] * s / float64(len(nb[area]))
+	}
+	return area, null
 }
 
 // demoLag standardises v (NaN stays NaN) and averages it over each area's

@@ -5,6 +5,17 @@
 // indices — and knows nothing of statistics or files; the caller picks SVG
 // or PNG, usually with FormatFromPath, and gives an io.Writer.
 //
+// # Where to start
+//
+// The entry points are Choropleth and CategoryMap (maps.go), which turn
+// values or categories into a mapSpec for drawMap (mapdraw.go): it projects
+// and flattens the layer (project.go, layer.go), measures the legend, lays
+// the picture out and paints it through the canvas interface (canvas.go),
+// whose backends are svg.go and raster.go. Classes and Breaks (classes.go)
+// cut values into classes; palette.go holds the colours and text.go the
+// font metrics and the title, subtitle and note that maps and charts
+// share. MoranScatter and Histogram (charts.go) are the charts.
+//
 // # How maps are drawn
 //
 // A map is laid out once, in pixels, and then drawn through a small canvas

@@ -6,8 +6,9 @@ import (
 	"math"
 	"regexp"
 
-	"github.com/areatest/areatest/io/plot"
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/io/plot"
 )
 
 func ExampleChoropleth() {

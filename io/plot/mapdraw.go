@@ -92,7 +92,7 @@ func (lg legendBox) widthCols(cols int) float64 {
 // mapLayout is where everything goes, in pixels.
 type mapLayout struct {
 	w, h              int
-	title, sub, note  []string
+	text              frameText
 	headerH, footerH  float64
 	scale, mapX, mapY float64
 	mapW, mapH        float64
@@ -100,24 +100,17 @@ type mapLayout struct {
 	legCols           int
 }
 
-func textBlocks(ff *fontFaces, opt MapOptions, width float64) (title, sub, note []string, headerH, footerH float64) {
-	tw := width - 2*margin
-	if opt.Title != "" {
-		title = ff.wrap(opt.Title, true, titleSize, tw)
-		headerH += float64(len(title)) * 27
-	}
-	if opt.Subtitle != "" {
-		sub = ff.wrap(opt.Subtitle, false, subSize, tw)
-		headerH += float64(len(sub)) * 19
-	}
-	if headerH > 0 {
+// textBlocks wraps the map's text to the picture's width and gives the
+// room it takes above and below the map.
+func textBlocks(ff *fontFaces, opt MapOptions, width float64) (text frameText, headerH, footerH float64) {
+	text = wrapFrameText(ff, opt.Title, opt.Subtitle, opt.Note, width)
+	if headerH = text.headH(); headerH > 0 {
 		headerH += 14
 	}
-	if opt.Note != "" {
-		note = ff.wrap(opt.Note, false, noteSize, tw)
-		footerH = float64(len(note))*15 + 12
+	if len(text.note) > 0 {
+		footerH = text.noteH() + 12
 	}
-	return
+	return text, headerH, footerH
 }
 
 // layoutMap sizes the picture (when a side is left 0) and places the map
@@ -130,7 +123,7 @@ func layoutMap(ff *fontFaces, lw, lh float64, lg legendBox, opt MapOptions) (map
 	if W == 0 && H > 0 {
 		// Width from height: guess the text at the default width, then
 		// give the map its aspect beside the legend.
-		_, _, _, hh, fh := textBlocks(ff, opt, defaultWidth)
+		_, hh, fh := textBlocks(ff, opt, defaultWidth)
 		mh := H - 2*margin - hh - fh
 		W = math.Round(2*margin + mh*aspect + legendGap + lg.w)
 		W = min(max(W, 320), maxSide)
@@ -138,7 +131,7 @@ func layoutMap(ff *fontFaces, lw, lh float64, lg legendBox, opt MapOptions) (map
 	if W == 0 {
 		W = defaultWidth
 	}
-	title, sub, note, hh, fh := textBlocks(ff, opt, W)
+	text, hh, fh := textBlocks(ff, opt, W)
 	if H == 0 {
 		if aspect < 1.6 {
 			s := besideFits(W) / lw
@@ -150,7 +143,7 @@ func layoutMap(ff *fontFaces, lw, lh float64, lg legendBox, opt MapOptions) (map
 		}
 		H = math.Ceil(min(max(H, 240), 1.5*W, maxSide))
 	}
-	L := mapLayout{w: int(W), h: int(H), title: title, sub: sub, note: note, headerH: hh, footerH: fh}
+	L := mapLayout{w: int(W), h: int(H), text: text, headerH: hh, footerH: fh}
 	availH := H - 2*margin - hh - fh
 
 	// Beside: legend to the right of the map.
@@ -220,12 +213,14 @@ func outlineFor(median float64) outline {
 	return outline{own: true, w: 0.6}
 }
 
+// drawMap lays out and draws a map of either kind: the page, the areas
+// class by class, the markers of islets, then the text and the legend.
 func drawMap(w io.Writer, f Format, spec mapSpec, opt MapOptions) error {
 	if err := f.check(); err != nil {
 		return err
 	}
-	if opt.Width < 0 || opt.Height < 0 || opt.Width > maxSide || opt.Height > maxSide {
-		return fmt.Errorf("plot: picture size %d×%d out of range (0 to %d pixels a side; 0 picks one)", opt.Width, opt.Height, maxSide)
+	if err := checkSize(opt.Width, opt.Height); err != nil {
+		return err
 	}
 	if opt.IDs != nil && len(opt.IDs) != len(spec.geoms) {
 		return fmt.Errorf("plot: %d ids for %d areas", len(opt.IDs), len(spec.geoms))
@@ -249,37 +244,6 @@ func drawMap(w io.Writer, f Format, spec mapSpec, opt MapOptions) error {
 	}
 	fl.toPixels(L.mapX, L.mapY, L.scale)
 
-	nAreas := len(spec.geoms)
-	sizes := make([]float64, nAreas)
-	for i := range nAreas {
-		b := fl.ringsBox(fl.areaRing[i], fl.areaRing[i+1])
-		sizes[i] = math.Sqrt(math.Max(b.x1-b.x0, 0.01) * math.Max(b.y1-b.y0, 0.01))
-	}
-	sorted := slices.Clone(sizes)
-	sort.Float64s(sorted)
-	median := sorted[len(sorted)/2]
-	ol := outlineFor(median)
-
-	nParts := len(fl.partArea)
-	boxes := make([]bbox, nParts)
-	for p := range nParts {
-		boxes[p] = fl.ringsBox(fl.partRing[p], fl.partRing[p+1])
-	}
-	tiny := func(p int) bool {
-		b := boxes[p]
-		return math.Max(b.x1-b.x0, b.y1-b.y0) < tinyPart
-	}
-	// Without outlines between areas, an island in a pale class would
-	// melt into the white page: isolated parts of any size are looked for
-	// then, and their areas outlined.
-	alone := fl.isolation(boxes, func(p int) bool { return ol.own || tiny(p) })
-	ringed := make([]bool, nAreas)
-	for p, a := range alone {
-		if a {
-			ringed[fl.partArea[p]] = true
-		}
-	}
-
 	var cv canvas
 	switch f {
 	case SVG:
@@ -288,104 +252,175 @@ func drawMap(w io.Writer, f Format, spec mapSpec, opt MapOptions) error {
 		cv = newRasterCanvas(w, L.w, L.h, ff)
 	}
 	cv.rect(0, 0, float64(L.w), float64(L.h), style{fill: white})
+	ol := outlineFor(fl.medianSize())
+	isl := findIslands(fl, ol)
+	ap := &areaPainter{cv: cv, fl: fl, spec: spec, ol: ol}
+	ap.areas(isl)
+	ap.markers(isl)
+	putLines(cv, L.text.head())
+	drawLegend(cv, lg, L)
+	putLines(cv, L.text.foot(float64(L.h)))
+	return cv.finish()
+}
 
-	// Classes with many areas first, so that the few areas of a rare class
-	// are drawn last and are not overpainted at their edges; missing data
-	// last of all.
-	nc := len(spec.fills)
-	members := make([][]int32, nc+1)
-	for i, c := range spec.class {
+// medianSize is the median size of the areas in pixels, each the geometric
+// mean of the sides of its box.
+func (fl *flatLayer) medianSize() float64 {
+	nAreas := len(fl.areaRing) - 1
+	sizes := make([]float64, nAreas)
+	for i := range nAreas {
+		b := fl.ringsBox(fl.areaRing[i], fl.areaRing[i+1])
+		sizes[i] = math.Sqrt(math.Max(b.x1-b.x0, 0.01) * math.Max(b.y1-b.y0, 0.01))
+	}
+	sort.Float64s(sizes)
+	return sizes[len(sizes)/2]
+}
+
+// islands are the parts of areas that no other area comes near.
+type islands struct {
+	boxes  []bbox // per part, in pixels
+	alone  []bool // per part
+	ringed []bool // per area: it has a part that is alone
+}
+
+// findIslands looks for isolated parts. Without outlines between areas an
+// island in a pale class would melt into the white page, so parts of any
+// size are looked at then; otherwise only tiny parts, which get a marker.
+func findIslands(fl *flatLayer, ol outline) islands {
+	nParts := len(fl.partArea)
+	isl := islands{boxes: make([]bbox, nParts), ringed: make([]bool, len(fl.areaRing)-1)}
+	for p := range nParts {
+		isl.boxes[p] = fl.ringsBox(fl.partRing[p], fl.partRing[p+1])
+	}
+	isl.alone = fl.isolation(isl.boxes, func(p int) bool { return ol.own || isl.tiny(p) })
+	for p, a := range isl.alone {
+		if a {
+			isl.ringed[fl.partArea[p]] = true
+		}
+	}
+	return isl
+}
+
+func (isl islands) tiny(p int) bool {
+	b := isl.boxes[p]
+	return math.Max(b.x1-b.x0, b.y1-b.y0) < tinyPart
+}
+
+// areaPainter draws the areas of a laid-out map onto its canvas.
+type areaPainter struct {
+	cv   canvas
+	fl   *flatLayer // in pixels
+	spec mapSpec
+	ol   outline
+	ends []int // scratch: ring ends of the area being drawn
+}
+
+// missingClass is the class number drawing gives areas without data: one
+// past the last class.
+func (ap *areaPainter) missingClass() int { return len(ap.spec.fills) }
+
+// drawOrder groups the areas by class and orders the classes: those with
+// many areas first, so that the few areas of a rare class are drawn last
+// and are not overpainted at their edges; missing data last of all.
+func (ap *areaPainter) drawOrder() (members [][]int32, order []int) {
+	nc := ap.missingClass()
+	members = make([][]int32, nc+1)
+	for i, c := range ap.spec.class {
 		if c < 0 {
 			c = nc
 		}
 		members[c] = append(members[c], int32(i))
 	}
-	order := make([]int, nc)
+	order = make([]int, nc)
 	for j := range order {
 		order[j] = j
 	}
 	sort.SliceStable(order, func(a, b int) bool { return len(members[order[a]]) > len(members[order[b]]) })
-	order = append(order, nc)
+	return members, append(order, nc)
+}
 
-	classStyle := func(c int) style {
-		if c == nc {
-			return style{hatch: true, stroke: hatchInk, strokeW: 0.6}
-		}
-		st := style{fill: spec.fills[c], strokeW: ol.w, stroke: ol.c}
-		if ol.own {
-			st.stroke = spec.fills[c]
-		}
-		return st
+// classStyle is how areas of class c are painted; c may be missingClass.
+func (ap *areaPainter) classStyle(c int) style {
+	if c == ap.missingClass() {
+		return style{hatch: true, stroke: hatchInk, strokeW: 0.6}
 	}
-	var ends []int
-	drawGroup := func(st style, areas []int32) {
-		if len(areas) == 0 {
-			return
-		}
-		cv.group(st)
-		for _, i := range areas {
-			r0, r1 := fl.areaRing[i], fl.areaRing[i+1]
-			base := fl.ringStart(r0)
-			ends = ends[:0]
-			for r := r0; r < r1; r++ {
-				ends = append(ends, fl.ringEnd[r]-base)
-			}
-			tip := ""
-			if spec.tip != nil {
-				tip = spec.tip(int(i))
-			}
-			cv.area(fl.pts[base:fl.ringEnd[r1-1]], ends, fl.ringHole[r0:r1], tip)
-		}
-		cv.endGroup()
+	st := style{fill: ap.spec.fills[c], strokeW: ap.ol.w, stroke: ap.ol.c}
+	if ap.ol.own {
+		st.stroke = ap.spec.fills[c]
 	}
+	return st
+}
+
+// areas draws every area in its class's style. When areas are outlined in
+// their own colour, those with an isolated part get a dark outline, in a
+// group of their own after the others of the class.
+func (ap *areaPainter) areas(isl islands) {
+	members, order := ap.drawOrder()
 	for _, c := range order {
 		plain, isles := members[c], []int32(nil)
-		if ol.own && c != nc {
-			// Areas with an isolated part get a dark outline of their own.
+		if ap.ol.own && c != ap.missingClass() {
 			plain = nil
 			for _, i := range members[c] {
-				if ringed[i] {
+				if isl.ringed[i] {
 					isles = append(isles, i)
 				} else {
 					plain = append(plain, i)
 				}
 			}
 		}
-		drawGroup(classStyle(c), plain)
-		st := classStyle(c)
+		ap.group(ap.classStyle(c), plain)
+		st := ap.classStyle(c)
 		st.stroke, st.strokeW = markerRim, 0.7
-		drawGroup(st, isles)
+		ap.group(st, isles)
 	}
-	for p, a := range alone {
-		if !a || !tiny(p) {
+}
+
+// group draws areas in one style, with their tooltips.
+func (ap *areaPainter) group(st style, areas []int32) {
+	if len(areas) == 0 {
+		return
+	}
+	fl := ap.fl
+	ap.cv.group(st)
+	for _, i := range areas {
+		r0, r1 := fl.areaRing[i], fl.areaRing[i+1]
+		base := fl.ringStart(r0)
+		ap.ends = ap.ends[:0]
+		for r := r0; r < r1; r++ {
+			ap.ends = append(ap.ends, fl.ringEnd[r]-base)
+		}
+		tip := ""
+		if ap.spec.tip != nil {
+			tip = ap.spec.tip(int(i))
+		}
+		ap.cv.area(fl.pts[base:fl.ringEnd[r1-1]], ap.ends, fl.ringHole[r0:r1], tip)
+	}
+	ap.cv.endGroup()
+}
+
+// markers puts a disc in its area's style on each tiny isolated part, on
+// top of the areas.
+func (ap *areaPainter) markers(isl islands) {
+	for p, a := range isl.alone {
+		if !a || !isl.tiny(p) {
 			continue
 		}
-		b := boxes[p]
-		st := classStyle(spec.class[fl.partArea[p]])
-		if spec.class[fl.partArea[p]] < 0 {
-			st = classStyle(nc)
+		b := isl.boxes[p]
+		c := ap.spec.class[ap.fl.partArea[p]]
+		if c < 0 {
+			c = ap.missingClass()
 		}
+		st := ap.classStyle(c)
 		st.stroke, st.strokeW = markerRim, 0.9
-		cv.circle((b.x0+b.x1)/2, (b.y0+b.y1)/2, markerR, st)
+		ap.cv.circle((b.x0+b.x1)/2, (b.y0+b.y1)/2, markerR, st)
 	}
+}
 
-	// Text.
-	y := margin
-	for _, t := range L.title {
-		cv.text(margin, y+21, t, titleSize, true, inkTitle, anchorStart)
-		y += 27
+// putLines draws lines of frame text at the left margin.
+func putLines(cv canvas, lines []textLine) {
+	for _, l := range lines {
+		cv.text(margin, l.y, l.s, l.size, l.bold, l.c, anchorStart)
 	}
-	for _, t := range L.sub {
-		cv.text(margin, y+15, t, subSize, false, inkText, anchorStart)
-		y += 19
-	}
-	drawLegend(cv, lg, L)
-	y = float64(L.h) - margin - L.footerH + 12
-	for _, t := range L.note {
-		cv.text(margin, y+11, t, noteSize, false, inkMuted, anchorStart)
-		y += 15
-	}
-	return cv.finish()
 }
 
 func drawLegend(cv canvas, lg legendBox, L mapLayout) {

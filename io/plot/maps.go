@@ -1,6 +1,7 @@
 package plot
 
 import (
+	"cmp"
 	"fmt"
 	"image/color"
 	"io"
@@ -42,6 +43,15 @@ type MapOptions struct {
 // gigabytes of pixels.
 const maxSide = 20000
 
+// checkSize checks the size asked for a picture; 0 leaves a side to the
+// drawing.
+func checkSize(w, h int) error {
+	if w < 0 || h < 0 || w > maxSide || h > maxSide {
+		return fmt.Errorf("plot: picture size %d×%d out of range (0 to %d pixels a side; 0 picks one)", w, h, maxSide)
+	}
+	return nil
+}
+
 const (
 	defaultWidth = 1000
 	margin       = 24.0
@@ -80,8 +90,8 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 	if missing != nil && len(missing) != len(geoms) {
 		return fmt.Errorf("plot: %d missing flags for %d areas", len(missing), len(geoms))
 	}
-	known := make([]float64, 0, len(values))
 	isMissing := func(i int) bool { return (missing != nil && missing[i]) || math.IsNaN(values[i]) }
+	known := make([]float64, 0, len(values))
 	for i, v := range values {
 		if isMissing(i) {
 			continue
@@ -91,7 +101,6 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 		}
 		known = append(known, v)
 	}
-	spec := mapSpec{geoms: geoms, class: make([]int, len(geoms))}
 	var breaks []float64
 	if len(known) > 0 {
 		var err error
@@ -101,44 +110,10 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 	} else if k < 2 || k > MaxClasses {
 		return fmt.Errorf("plot: number of classes must be between 2 and %d, got %d", MaxClasses, k)
 	}
-	nc := len(breaks)
-	lo := make([]float64, nc)
-	hi := make([]float64, nc)
-	count := make([]int, nc)
-	for j := range lo {
-		lo[j], hi[j] = math.Inf(1), math.Inf(-1)
-	}
-	nMissing := 0
-	for i, v := range values {
-		if isMissing(i) {
-			spec.class[i] = -1
-			nMissing++
-			continue
-		}
-		j := classOf(breaks, v)
-		spec.class[i] = j
-		count[j]++
-		lo[j], hi[j] = math.Min(lo[j], v), math.Max(hi[j], v)
-	}
-	var fills []color.RGBA
-	switch {
-	case nc >= 2:
-		fills, _ = Sequential(nc)
-	case nc == 1:
-		// One distinct value: a middle tone, neither "low" nor "high".
-		fills = []color.RGBA{rampColor(0.5)}
-	}
-	labels := rangeLabels(lo, hi)
-	for j := range nc {
-		spec.entries = append(spec.entries, legendEntry{label: labels[j], count: count[j], st: style{fill: fills[j]}})
-	}
-	spec.fills = fills
-	spec.missing = nMissing
-	spec.heading = opt.LegendTitle
-	if spec.heading == "" {
-		spec.heading = variable
-	}
-	switch nc {
+	spec := classify(values, isMissing, breaks)
+	spec.geoms = geoms
+	spec.heading = cmp.Or(opt.LegendTitle, variable)
+	switch nc := len(breaks); nc {
 	case 0:
 		spec.subheading = "no values"
 	case 1:
@@ -155,6 +130,43 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 		}
 	}
 	return drawMap(w, f, spec, opt)
+}
+
+// classify puts each value in its class of breaks, or in none (−1) where
+// it is missing, and gives each class its colour and its legend entry:
+// the range of the values in it and their number.
+func classify(values []float64, isMissing func(i int) bool, breaks []float64) mapSpec {
+	nc := len(breaks)
+	spec := mapSpec{class: make([]int, len(values))}
+	lo := make([]float64, nc)
+	hi := make([]float64, nc)
+	count := make([]int, nc)
+	for j := range lo {
+		lo[j], hi[j] = math.Inf(1), math.Inf(-1)
+	}
+	for i, v := range values {
+		if isMissing(i) {
+			spec.class[i] = -1
+			spec.missing++
+			continue
+		}
+		j := classOf(breaks, v)
+		spec.class[i] = j
+		count[j]++
+		lo[j], hi[j] = math.Min(lo[j], v), math.Max(hi[j], v)
+	}
+	switch {
+	case nc >= 2:
+		spec.fills, _ = Sequential(nc)
+	case nc == 1:
+		// One distinct value: a middle tone, neither "low" nor "high".
+		spec.fills = []color.RGBA{rampColor(0.5)}
+	}
+	labels := rangeLabels(lo, hi)
+	for j := range nc {
+		spec.entries = append(spec.entries, legendEntry{label: labels[j], count: count[j], st: style{fill: spec.fills[j]}})
+	}
+	return spec
 }
 
 // CategoryMap draws each area in the colour of its category: cats[i] is an
@@ -299,6 +311,11 @@ func formatNum(v float64, d int) string {
 
 // groupDigits puts commas between the thousands of the whole part of the
 // unsigned decimal s when that part has at least from digits.
+//
+// It is not numtext.Count, which groups every count from 1,000 up: axis and
+// legend values are measurements, where a four-digit value such as a year
+// reads wrong with a comma, and s is already formatted with its decimals
+// (its whole part may be longer than any integer type holds).
 func groupDigits(s string, from int) string {
 	intPart, frac := s, ""
 	for i := range s {

@@ -11,9 +11,10 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/paulmach/orb"
+
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
-	"github.com/paulmach/orb"
 )
 
 func demoLayer(t *testing.T) *layer.Layer {
@@ -402,6 +403,15 @@ func TestTinyIsletsGetAMarker(t *testing.T) {
 	}
 	if doc := readSVG(t, buf.Bytes()); doc.circles != 0 {
 		t.Errorf("%d markers for an area with a neighbour", doc.circles)
+	}
+	// An isolated islet without data gets a hatched marker.
+	g[1] = square(150, 50, 0.05)
+	buf.Reset()
+	if err := CategoryMap(&buf, SVG, g, []int{0, -1}, LocalCategories(), MapOptions{Width: 800}); err != nil {
+		t.Fatal(err)
+	}
+	if doc := readSVG(t, buf.Bytes()); doc.circles != 1 || !bytes.Contains(buf.Bytes(), []byte(`<circle cx="`)) || !bytes.Contains(buf.Bytes(), []byte(`fill="url(#`+hatchID+`)" stroke="#2b2b2b"`)) {
+		t.Errorf("%d markers for an islet without data, want 1, hatched", doc.circles)
 	}
 }
 

@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"unicode/utf8"
 )
 
 // hatchID names the missing-data pattern; the prefix keeps it from
@@ -34,52 +35,35 @@ func newSVGCanvas(out io.Writer, width, height int) *svgCanvas {
 	fmt.Fprintf(c.w, `<?xml version="1.0" encoding="UTF-8"?>
 <svg xmlns="http://www.w3.org/2000/svg" width="%d" height="%d" viewBox="0 0 %d %d" font-family="%s">
 <defs><pattern id="%s" patternUnits="userSpaceOnUse" width="%g" height="%g"><rect width="%g" height="%g" fill="%s"/><path d="M-1 1l2-2M0 %g l%g-%gM%g %gl2-2" stroke="%s" stroke-width="%g"/></pattern></defs>
-`, width, height, width, height, xmlAttr(fontFamily),
+`, width, height, width, height, xmlEscape(fontFamily, true),
 		hatchID, hatchStep, hatchStep, hatchStep, hatchStep, hex(hatchPaper),
 		hatchStep, hatchStep, hatchStep, hatchStep-1, hatchStep+1, hex(hatchInk), hatchWidth)
 	return c
 }
 
-// xmlAttr escapes s for an attribute value, dropping the control
-// characters XML 1.0 does not allow at all.
-func xmlAttr(s string) string {
+// xmlEscape escapes s for an attribute value (attr) or for character data,
+// dropping the control characters XML 1.0 does not allow at all. '&' and
+// '<' are escaped in both; both quotes in attributes, whichever quote
+// delimits them, and '>' in text, where titles keep their quotes as typed.
+func xmlEscape(s string, attr bool) string {
 	var b []byte
 	for _, r := range s {
 		if !xmlAllowed(r) {
 			continue
 		}
-		switch r {
-		case '&':
+		switch {
+		case r == '&':
 			b = append(b, "&amp;"...)
-		case '<':
+		case r == '<':
 			b = append(b, "&lt;"...)
-		case '"':
+		case r == '"' && attr:
 			b = append(b, "&quot;"...)
-		case '\'':
+		case r == '\'' && attr:
 			b = append(b, "&apos;"...)
-		default:
-			b = append(b, string(r)...)
-		}
-	}
-	return string(b)
-}
-
-// xmlText escapes s for character data.
-func xmlText(s string) string {
-	var b []byte
-	for _, r := range s {
-		if !xmlAllowed(r) {
-			continue
-		}
-		switch r {
-		case '&':
-			b = append(b, "&amp;"...)
-		case '<':
-			b = append(b, "&lt;"...)
-		case '>':
+		case r == '>' && !attr:
 			b = append(b, "&gt;"...)
 		default:
-			b = append(b, string(r)...)
+			b = utf8.AppendRune(b, r)
 		}
 	}
 	return string(b)
@@ -163,7 +147,7 @@ func (c *svgCanvas) area(pts []pt, ends []int, _ []bool, tip string) {
 	b = append(b, '"')
 	if tip != "" {
 		b = append(b, "><title>"...)
-		b = append(b, xmlText(tip)...)
+		b = append(b, xmlEscape(tip, false)...)
 		b = append(b, "</title></path>\n"...)
 	} else {
 		b = append(b, "/>\n"...)
@@ -215,7 +199,7 @@ func (c *svgCanvas) text(x, y float64, s string, size float64, bold bool, col co
 		attrs += ` font-weight="bold"`
 	}
 	fmt.Fprintf(c.w, "<text x=\"%s\" y=\"%s\" font-size=\"%s\" fill=\"%s\"%s>%s</text>\n",
-		num(x), num(y), num(size), hex(col), attrs, xmlText(s))
+		num(x), num(y), num(size), hex(col), attrs, xmlEscape(s, false))
 }
 
 func (c *svgCanvas) finish() error {

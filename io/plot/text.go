@@ -2,6 +2,7 @@ package plot
 
 import (
 	"fmt"
+	"image/color"
 	"strings"
 	"sync"
 
@@ -124,4 +125,76 @@ func (f *fontFaces) ellipsize(s string, bold bool, size, w float64) string {
 		}
 	}
 	return "…"
+}
+
+// frameText is the text around a picture, wrapped to its width: the title
+// and subtitle above, the note at the foot. Maps and charts both set it
+// through here, so their titles and notes look alike.
+type frameText struct{ title, sub, note []string }
+
+// Line heights of the frame text, in pixels.
+const (
+	titleLineH = 27.0
+	subLineH   = 19.0
+	noteLineH  = 15.0
+)
+
+func wrapFrameText(ff *fontFaces, title, subtitle, note string, width float64) frameText {
+	tw := width - 2*margin
+	var t frameText
+	if title != "" {
+		t.title = ff.wrap(title, true, titleSize, tw)
+	}
+	if subtitle != "" {
+		t.sub = ff.wrap(subtitle, false, subSize, tw)
+	}
+	if note != "" {
+		t.note = ff.wrap(note, false, noteSize, tw)
+	}
+	return t
+}
+
+// headH is the height of the title and subtitle lines; noteH that of the
+// note. The pictures add their own space between text and drawing.
+func (t frameText) headH() float64 {
+	return float64(len(t.title))*titleLineH + float64(len(t.sub))*subLineH
+}
+
+func (t frameText) noteH() float64 { return float64(len(t.note)) * noteLineH }
+
+// textLine is one line of frame text in place: y is its baseline, in
+// pixels from the top of the picture, and x the left margin.
+type textLine struct {
+	y    float64
+	s    string
+	size float64
+	bold bool
+	c    color.RGBA
+}
+
+// head places the title and the subtitle from the top margin down.
+func (t frameText) head() []textLine {
+	var lines []textLine
+	y := margin
+	for _, s := range t.title {
+		lines = append(lines, textLine{y: y + 21, s: s, size: titleSize, bold: true, c: inkTitle})
+		y += titleLineH
+	}
+	for _, s := range t.sub {
+		lines = append(lines, textLine{y: y + 15, s: s, size: subSize, c: inkText})
+		y += subLineH
+	}
+	return lines
+}
+
+// foot places the note so that it ends at the bottom margin of a picture
+// h pixels high.
+func (t frameText) foot(h float64) []textLine {
+	var lines []textLine
+	y := h - margin - t.noteH()
+	for _, s := range t.note {
+		lines = append(lines, textLine{y: y + 11, s: s, size: noteSize, c: inkMuted})
+		y += noteLineH
+	}
+	return lines
 }

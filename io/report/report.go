@@ -1,6 +1,3 @@
-// Package report renders result structs for people and programs: a plain
-// text report for the terminal and a JSON document. Both are views of the
-// same struct; neither computes anything.
 package report
 
 import (
@@ -83,6 +80,9 @@ func Number(v float64) string {
 	}
 	return s
 }
+
+// The helpers below only lay out and format values they are given; the
+// numbers in a report are computed by the packages that own the results.
 
 // plural writes a count with the singular or plural noun.
 func plural(n int, one, many string) string {

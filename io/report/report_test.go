@@ -1,10 +1,6 @@
 package report
 
-import (
-	"testing"
-
-	"github.com/areatest/areatest/internal/numtext"
-)
+import "testing"
 
 func TestFormatting(t *testing.T) {
 	for _, c := range []struct {
@@ -18,10 +14,9 @@ func TestFormatting(t *testing.T) {
 		{Number(12345.6), "12346"},
 		{Number(0), "0"},
 		{Number(3e-7), "3.000e-07"},
-		{numtext.Count(9999), "9,999"},
-		{numtext.Count(1234567), "1,234,567"},
-		{numtext.Count(-1000), "-1,000"},
-		{numtext.Count(12), "12"},
+		{plural(1, "area", "areas"), "1 area"},
+		{plural(0, "area", "areas"), "0 areas"},
+		{plural(12345, "area", "areas"), "12,345 areas"},
 		{Wrap("one two three four", 9, "- ", "  "), "- one two\n  three\n  four\n"},
 	} {
 		if c.got != c.want {

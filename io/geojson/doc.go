@@ -1,0 +1,61 @@
+// Package geojson reads a GeoJSON FeatureCollection (RFC 7946) of polygon
+// features into a layer.Layer: one area per feature, with an id, a
+// MultiPolygon geometry and one column per property.
+//
+// The reader streams: it walks the top-level object token by token and
+// decodes one feature at a time, so memory grows with the layer it builds,
+// not with the size of the file. Members of the top-level object may come in
+// any order; members it has no use for are skipped. Member names and type
+// names are matched exactly, as RFC 7946 spells them. A leading UTF-8
+// byte-order mark is ignored.
+//
+// Decided behaviours:
+//
+//   - Ids come from the feature "id" member (string or number), or from the
+//     property named by Options.IDColumn. When no feature has an id and no
+//     IDColumn is given, areas are numbered 1, 2, … by their position in the
+//     "features" array, with a warning; when only some features have one,
+//     that is an error naming the first feature without.
+//   - Numbers used as ids, or rendered as text, are written in their shortest
+//     exact form (48201, not 4.8201e+04); integer literals too long for a
+//     float64 keep their digits.
+//   - Polygon and MultiPolygon become orb.MultiPolygon (a Polygon is one
+//     part); holes are kept and rings are kept in the order and winding
+//     given. A ring whose last position differs from its first is closed,
+//     with one warning for the whole file. A ring with fewer than 4 positions
+//     after closing is an error. Positions may carry a third value
+//     (altitude), which is dropped.
+//   - Coordinates outside [-180, 180] × [-90, 90] are an error that calls the
+//     file projected; if the file carries a legacy "crs" member naming a
+//     system other than WGS84 lon/lat, the message quotes it. Such a member
+//     with in-range coordinates gives a warning, and coordinates are read as
+//     lon/lat anyway, as RFC 7946 requires.
+//   - With Options.SkipBadGeometry, features whose geometry is missing, null,
+//     empty, or of a type other than Polygon/MultiPolygon are left out with
+//     warnings; without it, the error for such a feature is marked
+//     Error.Skippable, so that a caller can say how to get past it. Broken
+//     geometry (short rings, bad nesting, projected or non-finite
+//     coordinates) is always an error.
+//   - Property values that are absent, null, empty, or one of NA, N/A, NaN,
+//     null (any case, spaces trimmed) are missing. A column is Number when all
+//     its other values are JSON numbers or strings holding a finite number,
+//     except that a numeric string with a leading zero ("01001") marks the
+//     column as codes, so it stays Text. Otherwise the column is Text:
+//     booleans as true/false, numbers in shortest form, and objects or arrays
+//     as compact JSON text.
+//
+// The package never prints; warnings are returned to the caller, and every
+// error Read returns is an *Error with the source, the feature, its id and,
+// for a JSON syntax error in a file, the line and column.
+//
+// # Where to start
+//
+// Read (read.go) is the entry point; ReadFile opens a file for it. The
+// reader walks the top-level object (reader.run), streams the "features"
+// array through readFeature (feature.go), which checks each feature in a
+// fixed order and hands its geometry to geomParser (geometry.go) and its
+// properties to the column builders (props.go); finish turns what was
+// gathered into the layer. errors.go builds the messages. Write and
+// AppendGeometry (write.go) go the other way, a layer and result columns
+// out as GeoJSON.
+package geojson

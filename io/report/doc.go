@@ -1,0 +1,19 @@
+// Package report renders results for people and programs: it lays out and
+// formats what the result structs hold and computes nothing of its own.
+// The reports it renders:
+//
+//   - CompareText: the report of `areatest compare` (a compare.Result).
+//   - AutocorrText: the report of `areatest autocorr` (a clustering.Result).
+//   - ScreenText and ScreenCSV: the ranked table of `areatest screen` (a
+//     clustering.ScreenResult), for the terminal and as CSV.
+//   - LocalText and LocalCSV: the summary and the per-area table of
+//     `areatest local` (a LocalDocument).
+//   - WeightsText: the summary of a neighbour graph for `areatest weights`
+//     (a WeightsDocument).
+//   - JSON: any of these results as one indented JSON document.
+//
+// The JSON is the result structs' own: their field tags, in spatial/… and
+// weights/ or, for LocalDocument and WeightsDocument, here, decide its
+// names and shape, so the text report and the JSON are two views of one
+// struct. Wrap, PValue and Number (report.go) are the shared text helpers.
+package report
