@@ -141,22 +141,30 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return usagef("--%s is required (see areatest compare --help)", req.name)
 		}
 	}
+	return c.run(stdout, stderr, []string{c.input, c.weights.file}, func() (*layer.Layer, []string, error) {
+		return readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	})
+}
+
+// run checks the flags, reads the layer, runs the comparison on it and
+// writes the result; inputs are the files the output must not overwrite.
+func (c *compareFlags) run(stdout, stderr io.Writer, inputs []string, read func() (*layer.Layer, []string, error)) error {
 	opt, spec, err := c.options()
 	if err != nil {
 		return err
 	}
-	lay, warnings, err := readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	lay, warnings, err := read()
 	if err != nil {
 		return err
 	}
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
-	res, err := compareLayer(lay, &c, opt, spec, stderr)
+	res, err := compareLayer(lay, c, opt, spec, stderr)
 	if err != nil {
 		return err
 	}
-	return emitCompare(res, &c, stdout, stderr, []string{c.input, c.weights.file})
+	return emitCompare(res, c, stdout, stderr, inputs)
 }
 
 // readLayer reads a GeoJSON layer from a path, or from stdin for "-".
