@@ -7,6 +7,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
+	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
@@ -173,14 +174,14 @@ func TestSurrogateStatesIslandsAndTest(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	gs, err := surrogate.NewGroupStatistic(groups.DiffMeans, lab, 2)
+	gs, err := compare.NewGroupStatistic(groups.DiffMeans, lab, 2)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if v := gs.Value(y); v != observed {
 		t.Fatalf("surrogate evaluator %v, groups %v", v, observed)
 	}
-	spec, err := surrogate.GroupTest(o, gs, observed, shuffle.SurrogatePlan{Scheme: "spectral", Draws: 999, Seed: 1, Purpose: 3, Scale: scale})
+	spec, err := compare.GroupTest(o, gs, observed, shuffle.SurrogatePlan{Scheme: "spectral", Draws: 999, Seed: 1, Purpose: 3, Scale: scale})
 	if err != nil {
 		t.Fatal(err)
 	}

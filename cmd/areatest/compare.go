@@ -1,12 +1,14 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"runtime"
 
 	"github.com/spf13/pflag"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
@@ -41,20 +43,17 @@ Examples:
 // compareFlags are the settings shared by compare and demo.
 type compareFlags struct {
 	input, id, outcome, group, strata string
-	statistic, alternative            string
-	contrast                          []string
+	statistic, alternative, zones     string
+	format, output                    string
+	contrast, covariates              []string
 	permutations, workers             int
+	surrogates, fpChecks, fpShuffles  int
 	seed                              uint64
 	alpha                             float64
-	format, output                    string
 	skipBadGeometry                   bool
-	covariates                        []string
-	zones                             string
-	surrogates, fpChecks, fpShuffles  int
 	weights                           weightFlags
-	// Set by options from the weight flags.
-	transform   weights.Transform
-	keepIslands bool
+	transform                         weights.Transform // set by options
+	keepIslands                       bool              // set by options
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
@@ -86,7 +85,8 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 // options checks the flag values and turns them into library options and
 // the recipe of the neighbour graph.
 func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
-	var opt compare.Options
+	opt := compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
+		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
 	rule, transform, keep, err := c.weights.spec()
 	if err != nil {
 		return opt, rule, err
@@ -102,35 +102,31 @@ func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
 	if opt.Alternative, err = shuffle.ParseAlternative(c.alternative); err != nil {
 		return opt, rule, usagef("--alternative: %v", err)
 	}
-	if len(c.contrast) != 0 && len(c.contrast) != 2 {
+	zones, zonesErr := choice.Parse("--zones", c.zones, choice.Name[bool]{Name: "auto", Value: true}, choice.Name[bool]{Name: "none"})
+	_, formatErr := c.json()
+	switch {
+	case len(c.contrast) != 0 && len(c.contrast) != 2:
 		return opt, rule, usagef("--contrast takes two levels, A,B (got %d)", len(c.contrast))
-	}
-	if c.permutations < 1 {
+	case c.permutations < 1:
 		return opt, rule, usagef("--permutations must be at least 1")
-	}
-	if c.workers < 1 {
+	case c.workers < 1:
 		return opt, rule, usagef("--workers must be at least 1")
-	}
-	if c.zones != "auto" && c.zones != "none" {
-		return opt, rule, usagef("--zones must be auto or none, not %q", c.zones)
-	}
-	opt.Zones = c.zones == "auto"
-	if c.surrogates < 0 || c.fpChecks < 0 || c.fpShuffles < 1 {
+	case zonesErr != nil:
+		return opt, rule, usagef("%v", zonesErr)
+	case c.surrogates < 0 || c.fpChecks < 0 || c.fpShuffles < 1:
 		return opt, rule, usagef("--surrogates and --false-positive-check must not be negative, --check-shuffles at least 1")
-	}
-	opt.Surrogates, opt.FalsePositives, opt.FalsePositiveShuffles = c.surrogates, c.fpChecks, c.fpShuffles
-	if !(c.alpha > 0 && c.alpha < 1) {
+	case !(c.alpha > 0 && c.alpha < 1):
 		return opt, rule, usagef("--alpha must be between 0 and 1")
+	case formatErr != nil:
+		return opt, rule, usagef("%v", formatErr)
 	}
-	if c.format != "text" && c.format != "json" {
-		return opt, rule, usagef("--format must be text or json, not %q", c.format)
-	}
-	opt.Contrast = c.contrast
-	opt.Permutations = c.permutations
-	opt.Seed = c.seed
-	opt.Workers = c.workers
-	opt.Alpha = c.alpha
+	opt.Zones = zones
 	return opt, rule, nil
+}
+
+// json reports whether --format asks for JSON (otherwise text).
+func (c *compareFlags) json() (bool, error) {
+	return choice.Parse("--format", c.format, choice.Name[bool]{Name: "text"}, choice.Name[bool]{Name: "json", Value: true})
 }
 
 func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -145,22 +141,30 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return usagef("--%s is required (see areatest compare --help)", req.name)
 		}
 	}
+	return c.run(stdout, stderr, []string{c.input, c.weights.file}, func() (*layer.Layer, []string, error) {
+		return readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	})
+}
+
+// run checks the flags, reads the layer, runs the comparison on it and
+// writes the result; inputs are the files the output must not overwrite.
+func (c *compareFlags) run(stdout, stderr io.Writer, inputs []string, read func() (*layer.Layer, []string, error)) error {
 	opt, spec, err := c.options()
 	if err != nil {
 		return err
 	}
-	lay, warnings, err := readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	lay, warnings, err := read()
 	if err != nil {
 		return err
 	}
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
-	res, err := compareLayer(lay, &c, opt, spec, stderr)
+	res, err := compareLayer(lay, c, opt, spec, stderr)
 	if err != nil {
 		return err
 	}
-	return emitCompare(res, &c, stdout, stderr, []string{c.input, c.weights.file})
+	return emitCompare(res, c, stdout, stderr, inputs)
 }
 
 // readLayer reads a GeoJSON layer from a path, or from stdin for "-".
@@ -172,69 +176,110 @@ func readLayer(path string, stdin io.Reader, opt geojson.Options) (*layer.Layer,
 }
 
 // compareLayer pulls the named columns out of the layer, builds the
-// neighbour graph and runs the comparison, with warnings and a progress bar
-// on stderr.
+// neighbour graph and runs the comparison, with the graph's warnings and a
+// progress bar on stderr.
 func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec, stderr io.Writer) (*compare.Result, error) {
-	bar := newProgress(stderr)
-	opt.Progress = bar.stage
-	res, warnings, err := compareGraphAndRun(lay, c, opt, spec)
-	bar.finish()
+	in, err := compareInput(lay, c)
+	if err != nil {
+		return nil, err
+	}
+	var res *compare.Result
+	graph, warnings, err := c.weights.graph(lay, spec)
+	if err == nil {
+		in.Graph, in.Transform, in.KeepIslands = graph, c.transform, c.keepIslands
+		bar := newProgress(stderr)
+		opt.Progress = bar.stage
+		if res, err = compare.Run(in, opt); err != nil {
+			err = fmt.Errorf("%s: %w", lay.Source, flagAdvice(err))
+		}
+		bar.finish()
+	}
 	for _, w := range warnings {
 		warn(stderr, w)
 	}
-	return res, err
+	if err != nil {
+		return nil, err
+	}
+	res.Version, res.Input.File = Version, lay.Source
+	return res, nil
 }
 
-func compareGraphAndRun(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec) (*compare.Result, []string, error) {
+// compareInput pulls the outcome, group, covariate and strata columns out
+// of the layer.
+func compareInput(lay *layer.Layer, c *compareFlags) (compare.Input, error) {
+	var in compare.Input
 	outcome, err := lay.Column(c.outcome)
 	if err != nil {
-		return nil, nil, err
+		return in, err
 	}
 	if outcome.Kind != layer.Number {
-		return nil, nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
+		return in, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
 			lay.Source, c.outcome, firstValue(outcome), firstID(lay, outcome))
 	}
 	group, err := lay.Column(c.group)
 	if err != nil {
-		return nil, nil, err
+		return in, err
 	}
 	if c.group == c.outcome {
-		return nil, nil, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+		return in, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
 	}
-	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
+	in = compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
 		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
 	for _, name := range c.covariates {
 		cov, err := lay.Column(name)
 		if err != nil {
-			return nil, nil, err
+			return in, err
 		}
 		if cov.Kind != layer.Number {
-			return nil, nil, fmt.Errorf("%s: covariate %q is not numeric (first non-number value %q in area %s)", lay.Source, name, firstValue(cov), firstID(lay, cov))
+			return in, fmt.Errorf("%s: covariate %q is not numeric (first non-number value %q in area %s)", lay.Source, name, firstValue(cov), firstID(lay, cov))
 		}
 		if name == c.outcome || name == c.group {
-			return nil, nil, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
+			return in, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
 		}
 		in.Covariates = append(in.Covariates, compare.Covariate{Name: name, Values: cov.Num, Missing: cov.Missing})
 	}
 	if c.strata != "" {
 		strata, err := lay.Column(c.strata)
 		if err != nil {
-			return nil, nil, err
+			return in, err
 		}
 		in.StrataName, in.Strata, in.StrataMissing = c.strata, labels(strata), strata.Missing
 	}
-	var warnings []string
-	if in.Graph, warnings, err = c.weights.graph(lay, spec); err != nil {
-		return nil, warnings, err
+	return in, nil
+}
+
+// advised is a library error worded in terms of the command's flags.
+type advised struct {
+	msg string
+	err error
+}
+
+func (a *advised) Error() string { return a.msg }
+func (a *advised) Unwrap() error { return a.err }
+
+// flagAdvice words the comparison's errors about its settings in terms of
+// the flags that set them.
+func flagAdvice(err error) error {
+	var ce *compare.ContrastError
+	var le *compare.LevelError
+	var te *compare.TwoGroupError
+	switch {
+	case errors.As(err, &ce):
+		return &advised{"--contrast " + ce.Facts(), err}
+	case errors.As(err, &le):
+		return &advised{"--contrast " + le.Facts(), err}
+	case errors.As(err, &te):
+		return &advised{te.Facts() + "; use kruskal-wallis or anova-f, or pick two with --contrast", err}
 	}
-	in.Transform, in.KeepIslands = c.transform, c.keepIslands
-	res, err := compare.Run(in, opt)
-	if err != nil {
-		return nil, warnings, fmt.Errorf("%s: %v", lay.Source, err)
+	return err
+}
+
+// wordNotice words the comparison's notices in terms of the flags.
+func wordNotice(n compare.Notice) string {
+	if n == compare.SurrogatesWithCovariates {
+		return "Spectral surrogates and the false-positive check are not run with --covariates: the adjusted statistic would need surrogates of the residuals, which this version does not make."
 	}
-	res.Version = Version
-	res.Input.File = lay.Source
-	return res, warnings, nil
+	return n.String()
 }
 
 func labels(c *layer.Column) []string {
@@ -263,15 +308,18 @@ func firstID(l *layer.Layer, c *layer.Column) string {
 	return "?"
 }
 
-// emitCompare writes the result in the chosen format.
+// emitCompare writes the result in the chosen format; with JSON on stdout
+// the warnings go to stderr as well, where a reader of the terminal sees
+// them.
 func emitCompare(res *compare.Result, c *compareFlags, stdout, stderr io.Writer, inputs []string) error {
-	if c.format == "json" {
+	json, _ := c.json() // checked by options
+	if json {
 		for _, w := range res.Warnings {
 			warn(stderr, w)
 		}
 	}
 	return writeOutput(c.output, stdout, inputs, func(w io.Writer) error {
-		if c.format == "json" {
+		if json {
 			return report.JSON(w, res)
 		}
 		return report.CompareText(w, res)

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/samples"
 )
 
@@ -50,21 +51,8 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stderr, "wrote %s; try: areatest compare --input %s --outcome rate --group policy --strata province\n", path, path)
 		return nil
 	}
-	opt, spec, err := c.options()
-	if err != nil {
-		return err
-	}
-	lay, warnings, err := geojson.Read(bytes.NewReader(samples.RegionGeoJSON), "built-in "+samples.RegionFile, geojson.Options{})
-	if err != nil {
-		return err
-	}
-	for _, w := range warnings {
-		warn(stderr, w)
-	}
 	c.outcome, c.group, c.strata = "rate", "policy", "province"
-	res, err := compareLayer(lay, &c, opt, spec, stderr)
-	if err != nil {
-		return err
-	}
-	return emitCompare(res, &c, stdout, stderr, nil)
+	return c.run(stdout, stderr, nil, func() (*layer.Layer, []string, error) {
+		return geojson.Read(bytes.NewReader(samples.RegionGeoJSON), "built-in "+samples.RegionFile, geojson.Options{})
+	})
 }

@@ -15,45 +15,63 @@ const width = 88
 // CompareText writes the plain text report of a comparison.
 func CompareText(w io.Writer, r *compare.Result) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "areatest %s: does %s differ between the groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
-	fmt.Fprintf(&b, "  input      %s, %s areas, %s tested\n", r.Input.File, numtext.Count(r.Input.Areas), numtext.Count(r.Input.Tested))
-	fmt.Fprintf(&b, "  outcome    %s\n", r.Input.Outcome)
-	fmt.Fprintf(&b, "  groups     %s\n", r.Input.Group)
+	compareHeader(&b, r)
+	compareGroups(&b, r)
+	compareTests(&b, r)
+	compareChecks(&b, r)
+	compareAdvice(&b, r)
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per scheme · areatest %s\n", r.Seed, numtext.Count(permutationsAsked(r)), r.Version)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// compareHeader writes the question, the input and the areas left out.
+func compareHeader(b *strings.Builder, r *compare.Result) {
+	fmt.Fprintf(b, "areatest %s: does %s differ between the groups of %s?\n\n", r.Version, r.Input.Outcome, r.Input.Group)
+	fmt.Fprintf(b, "  input      %s, %s areas, %s tested\n", r.Input.File, numtext.Count(r.Input.Areas), numtext.Count(r.Input.Tested))
+	fmt.Fprintf(b, "  outcome    %s\n", r.Input.Outcome)
+	fmt.Fprintf(b, "  groups     %s\n", r.Input.Group)
 	if r.Input.Strata != "" {
-		fmt.Fprintf(&b, "  strata     %s\n", r.Input.Strata)
+		fmt.Fprintf(b, "  strata     %s\n", r.Input.Strata)
 	}
 	for i, e := range r.Excluded {
 		head := "  left out  "
 		if i > 0 {
 			head = "            "
 		}
-		fmt.Fprintf(&b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idList(e.IDs, 6))
+		fmt.Fprintf(b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idList(e.IDs, 6))
 	}
 	b.WriteString("\n")
+}
 
-	fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", r.Input.Group, "areas", "median", "mean", "sd")
+// compareGroups writes the table of groups and the observed statistic.
+func compareGroups(b *strings.Builder, r *compare.Result) {
+	fmt.Fprintf(b, "  %-22s %7s %12s %12s %12s\n", r.Input.Group, "areas", "median", "mean", "sd")
 	for _, g := range r.Groups {
-		fmt.Fprintf(&b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
+		fmt.Fprintf(b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
 	}
 	b.WriteString("\n")
-
 	s := r.Statistic
 	switch {
 	case len(s.Contrast) == 2 && s.InOutcomeUnits:
-		fmt.Fprintf(&b, "  %s, %s − %s: %s (units of %s)\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed), r.Input.Outcome)
+		fmt.Fprintf(b, "  %s, %s − %s: %s (units of %s)\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed), r.Input.Outcome)
 	case len(s.Contrast) == 2:
-		fmt.Fprintf(&b, "  %s, %s against %s: %s\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
+		fmt.Fprintf(b, "  %s, %s against %s: %s\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
 	default:
-		fmt.Fprintf(&b, "  %s across %d groups: %s\n", capitalise(s.Label), len(r.Groups), Number(s.Observed))
+		fmt.Fprintf(b, "  %s across %d groups: %s\n", capitalise(s.Label), len(r.Groups), Number(s.Observed))
 	}
 	b.WriteString("\n")
+}
 
+// compareTests writes the covariate adjustment and the table of null
+// models with its footnote.
+func compareTests(b *strings.Builder, r *compare.Result) {
 	if a := r.Adjusted; a != nil {
 		b.WriteString(Wrap(fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical %s. The shuffles below test this adjusted statistic.",
 			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), pEquals(a.ClassicalP)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
+	fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
 	for _, t := range r.Tests {
 		interval := "exact"
 		count := numtext.Count(t.Permutations)
@@ -62,13 +80,17 @@ func CompareText(w io.Writer, r *compare.Result) error {
 		} else {
 			count += " (all)"
 		}
-		fmt.Fprintf(&b, "  %-30s %10s   %-21s %12s\n", truncate(t.Scheme, 30), PValue(t.PValue), interval, count)
+		fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", truncate(t.Scheme, 30), PValue(t.PValue), interval, count)
 	}
 	if len(r.Tests) > 0 {
 		b.WriteString(Wrap(testFootnote(r), width, "  ", "  "))
 	}
 	b.WriteString("\n")
+}
 
+// compareChecks writes the false-positive check, the effective sample size
+// and the spatial check.
+func compareChecks(b *strings.Builder, r *compare.Result) {
 	if f := r.FalsePositiveRate; f != nil {
 		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, the free shuffle (%s shuffles each) called %.1f%% significant at the %g level (95%% interval %.1f–%.1f%%); a sound test calls %g%%.",
 			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), 100*f.Rate, f.Alpha, 100*f.Interval[0], 100*f.Interval[1], 100*f.Alpha), width, "  ", "  "))
@@ -88,17 +110,20 @@ func CompareText(w io.Writer, r *compare.Result) error {
 		b.WriteString("\n")
 	}
 	a := r.Autocorrelation
-	fmt.Fprintf(&b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
-	fmt.Fprintf(&b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
+	fmt.Fprintf(b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
+	fmt.Fprintf(b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
 		numtext.Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
 	if a.Outcome.Variable != "" {
-		fmt.Fprintf(&b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
+		fmt.Fprintf(b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
 		for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {
-			fmt.Fprintf(&b, "  %-24s %10.3f %10.3f %10s\n", truncate(m.Variable, 24), m.MoransI, m.Expected, PValue(m.PValue))
+			fmt.Fprintf(b, "  %-24s %10.3f %10.3f %10s\n", truncate(m.Variable, 24), m.MoransI, m.Expected, PValue(m.PValue))
 		}
 	}
 	b.WriteString("\n")
+}
 
+// compareAdvice writes the p-value to read, the warnings and the cautions.
+func compareAdvice(b *strings.Builder, r *compare.Result) {
 	if r.Recommended.Scheme != "" {
 		b.WriteString(Wrap(fmt.Sprintf("Read: %s, %s. %s", r.Recommended.Scheme, pEquals(r.Recommended.PValue), r.Recommended.Reason), width, "  → ", "    "))
 		b.WriteString("\n")
@@ -114,9 +139,6 @@ func CompareText(w io.Writer, r *compare.Result) error {
 	for _, c := range r.Cautions {
 		b.WriteString(Wrap(c, width, "  - ", "    "))
 	}
-	fmt.Fprintf(&b, "\nseed %d · %s shuffles per scheme · areatest %s\n", r.Seed, numtext.Count(permutationsAsked(r)), r.Version)
-	_, err := io.WriteString(w, b.String())
-	return err
 }
 
 func testFootnote(r *compare.Result) string {

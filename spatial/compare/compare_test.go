@@ -87,7 +87,8 @@ func TestThreeGroups(t *testing.T) {
 	s := groups.DiffMeans
 	o := opts()
 	o.Statistic = &s
-	if _, err := Run(input(y, g), o); err == nil || !strings.Contains(err.Error(), "--contrast") {
+	var te *TwoGroupError
+	if _, err := Run(input(y, g), o); !errors.As(err, &te) || len(te.Levels) != 3 || !strings.Contains(err.Error(), "contrast") {
 		t.Fatalf("two-group statistic on three groups: %v", err)
 	}
 	// With a contrast the third group is left out and counted.
@@ -125,7 +126,8 @@ func TestExclusionsAndDataErrors(t *testing.T) {
 	}
 	o := opts()
 	o.Contrast = []string{"a", "z"}
-	if _, err := Run(input(y, []string{"a", "a", "b", "b", "b", "b"}), o); err == nil || !strings.Contains(err.Error(), `"z"`) {
+	var le *LevelError
+	if _, err := Run(input(y, []string{"a", "a", "b", "b", "b", "b"}), o); !errors.As(err, &le) || le.Level != "z" || !strings.Contains(err.Error(), `"z"`) {
 		t.Fatalf("unknown contrast level: %v", err)
 	}
 }

@@ -1,11 +1,3 @@
-// Package groups holds the statistics that compare an outcome across groups
-// of areas: for two groups the difference in medians or means, Welch's t and
-// the rank sum; for two or more, the Kruskal–Wallis H and the one-way F.
-//
-// The outcome is sorted once (Prepare); an arrangement is then only a vector
-// of group labels in that sorted order, which is what the shuffle machinery
-// permutes. Evaluating a statistic for an arrangement walks the vector once
-// and allocates nothing.
 package groups
 
 import (
@@ -14,6 +6,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -68,16 +61,14 @@ func (s Statistic) InOutcomeUnits() bool { return statNames[s].unitful }
 // by nature.
 func (s Statistic) Directional() bool { return s.TwoGroupsOnly() }
 
-// ParseStatistic reads a statistic's command-line name.
+// ParseStatistic reads a statistic's command-line name (case and
+// surrounding space ignored).
 func ParseStatistic(name string) (Statistic, error) {
-	var all []string
+	names := make([]choice.Name[Statistic], len(statNames))
 	for i, s := range statNames {
-		if s.flag == name {
-			return Statistic(i), nil
-		}
-		all = append(all, s.flag)
+		names[i] = choice.Name[Statistic]{Name: s.flag, Value: Statistic(i)}
 	}
-	return 0, fmt.Errorf("unknown statistic %q (choose one of %v)", name, all)
+	return choice.Parse("statistic", name, names...)
 }
 
 // Data is an outcome prepared for group tests: values sorted ascending with
@@ -197,110 +188,150 @@ func (d *Data) Observed(s Statistic) float64 { return d.Value(s, d.Labels) }
 // Factory returns evaluators of s for the shuffle machinery. For two-group
 // statistics group 0 is A and group 1 is B, so differences read A − B.
 func (d *Data) Factory(s Statistic) shuffle.Factory {
-	n := len(d.Y)
 	switch s {
 	case DiffMedians:
-		nA, nB := d.Sizes[0], d.Sizes[1]
-		a1, a2 := (nA-1)/2, nA/2
-		b1, b2 := (nB-1)/2, nB/2
-		first := [2]int{a1, b1}
-		second := [2]int{a2, b2}
-		last := [2]int{a2, b2}
-		return func() shuffle.Evaluator {
-			return func(lab []int32) float64 {
-				// Walk the sorted values, counting each group, until both
-				// middle elements of both groups have been passed. The
-				// per-group state sits in arrays indexed by the label, so
-				// the loop has no branch on the (random) label.
-				var count [2]int
-				var sum [2]float64
-				for i := 0; i < n; i++ {
-					l := lab[i] & 1
-					c := count[l]
-					hits := b2f(c == first[l]) + b2f(c == second[l])
-					sum[l] += hits * d.Y[i]
-					count[l] = c + 1
-					if count[0] > last[0] && count[1] > last[1] {
-						break
-					}
-				}
-				return (sum[0] - sum[1]) / 2
-			}
-		}
+		return d.diffMedians()
 	case DiffMeans:
-		nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
-		return func() shuffle.Evaluator {
-			return func(lab []int32) float64 {
-				// Multiplying by an indicator instead of branching: labels
-				// arrive in random order, so a branch would be mispredicted
-				// half the time.
-				var sa float64
-				for i, l := range lab {
-					sa += d.centred[i] * inA[l&1]
-				}
-				// The centred values sum to zero, so group B's sum is −sa.
-				return sa/nA + sa/nB
-			}
-		}
+		return d.diffMeans()
 	case WelchT:
-		nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
-		return func() shuffle.Evaluator {
-			return func(lab []int32) float64 {
-				var sa, qa float64
-				for i, l := range lab {
-					c := d.centred[i] * inA[l&1]
-					sa += c
-					qa += c * c
-				}
-				sb, qb := -sa, d.ssTotal-qa
-				ma, mb := sa/nA, sb/nB
-				va := (qa - nA*ma*ma) / (nA - 1)
-				vb := (qb - nB*mb*mb) / (nB - 1)
-				return (ma - mb) / math.Sqrt(va/nA+vb/nB)
-			}
-		}
+		return d.welchT()
 	case RankSum:
-		nA := float64(d.Sizes[0])
-		return func() shuffle.Evaluator {
-			return func(lab []int32) float64 {
-				var r float64
-				for i, l := range lab {
-					r += d.Ranks[i] * inA[l&1]
-				}
-				return r - nA*(nA+1)/2
-			}
-		}
+		return d.rankSum()
 	case KruskalWallis:
-		N := float64(n)
-		return func() shuffle.Evaluator {
-			sums := make([]float64, d.K)
-			return func(lab []int32) float64 {
-				// The tie correction is read here, not when the factory is
-				// made, because Reprepare can change the ties.
-				correction := 1 - d.tieTerm/(N*N*N-N)
-				h := d.betweenGroups(lab, d.Ranks, sums)
-				h = 12/(N*(N+1))*h - 3*(N+1)
-				if correction <= 0 { // every value tied: no information
-					return 0
-				}
-				return h / correction
-			}
-		}
+		return d.kruskalWallis()
 	case OneWayF:
-		N, K := float64(n), float64(d.K)
-		return func() shuffle.Evaluator {
-			sums := make([]float64, d.K)
-			return func(lab []int32) float64 {
-				between := d.betweenGroups(lab, d.centred, sums)
-				within := d.ssTotal - between
-				if within <= 0 {
-					return math.Inf(1)
-				}
-				return (between / (K - 1)) / (within / (N - K))
-			}
-		}
+		return d.oneWayF()
 	}
 	panic(fmt.Sprintf("groups: unknown statistic %d", s))
+}
+
+// OnOutcomes returns an evaluator of s for outcomes that change while each
+// area keeps its group (the surrogate nulls, where the outcome moves and
+// the labels stay): it re-sorts each outcome into d (Reprepare) and
+// evaluates the areas' own labels, so the value is the one Observed gives
+// and an evaluation allocates nothing. It changes d; make one Data per
+// goroutine. An outcome Reprepare refuses (a non-finite value) gives NaN.
+func (d *Data) OnOutcomes(s Statistic) shuffle.OutcomeEvaluator {
+	eval := d.Factory(s)()
+	return func(y []float64) float64 {
+		if d.Reprepare(y) != nil {
+			return math.NaN()
+		}
+		return eval(d.Labels)
+	}
+}
+
+func (d *Data) diffMedians() shuffle.Factory {
+	n := len(d.Y)
+	nA, nB := d.Sizes[0], d.Sizes[1]
+	a1, a2 := (nA-1)/2, nA/2
+	b1, b2 := (nB-1)/2, nB/2
+	first := [2]int{a1, b1}
+	second := [2]int{a2, b2}
+	last := [2]int{a2, b2}
+	return func() shuffle.Evaluator {
+		return func(lab []int32) float64 {
+			// Walk the sorted values, counting each group, until both
+			// middle elements of both groups have been passed. The
+			// per-group state sits in arrays indexed by the label, so
+			// the loop has no branch on the (random) label.
+			var count [2]int
+			var sum [2]float64
+			for i := 0; i < n; i++ {
+				l := lab[i] & 1
+				c := count[l]
+				hits := b2f(c == first[l]) + b2f(c == second[l])
+				sum[l] += hits * d.Y[i]
+				count[l] = c + 1
+				if count[0] > last[0] && count[1] > last[1] {
+					break
+				}
+			}
+			return (sum[0] - sum[1]) / 2
+		}
+	}
+}
+
+func (d *Data) diffMeans() shuffle.Factory {
+	nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
+	return func() shuffle.Evaluator {
+		return func(lab []int32) float64 {
+			// Multiplying by an indicator instead of branching: labels
+			// arrive in random order, so a branch would be mispredicted
+			// half the time.
+			var sa float64
+			for i, l := range lab {
+				sa += d.centred[i] * inA[l&1]
+			}
+			// The centred values sum to zero, so group B's sum is −sa.
+			return sa/nA + sa/nB
+		}
+	}
+}
+
+func (d *Data) welchT() shuffle.Factory {
+	nA, nB := float64(d.Sizes[0]), float64(d.Sizes[1])
+	return func() shuffle.Evaluator {
+		return func(lab []int32) float64 {
+			var sa, qa float64
+			for i, l := range lab {
+				c := d.centred[i] * inA[l&1]
+				sa += c
+				qa += c * c
+			}
+			sb, qb := -sa, d.ssTotal-qa
+			ma, mb := sa/nA, sb/nB
+			va := (qa - nA*ma*ma) / (nA - 1)
+			vb := (qb - nB*mb*mb) / (nB - 1)
+			return (ma - mb) / math.Sqrt(va/nA+vb/nB)
+		}
+	}
+}
+
+func (d *Data) rankSum() shuffle.Factory {
+	nA := float64(d.Sizes[0])
+	return func() shuffle.Evaluator {
+		return func(lab []int32) float64 {
+			var r float64
+			for i, l := range lab {
+				r += d.Ranks[i] * inA[l&1]
+			}
+			return r - nA*(nA+1)/2
+		}
+	}
+}
+
+func (d *Data) kruskalWallis() shuffle.Factory {
+	N := float64(len(d.Y))
+	return func() shuffle.Evaluator {
+		sums := make([]float64, d.K)
+		return func(lab []int32) float64 {
+			// The tie correction is read here, not when the factory is
+			// made, because Reprepare can change the ties.
+			correction := 1 - d.tieTerm/(N*N*N-N)
+			h := d.betweenGroups(lab, d.Ranks, sums)
+			h = 12/(N*(N+1))*h - 3*(N+1)
+			if correction <= 0 { // every value tied: no information
+				return 0
+			}
+			return h / correction
+		}
+	}
+}
+
+func (d *Data) oneWayF() shuffle.Factory {
+	N, K := float64(len(d.Y)), float64(d.K)
+	return func() shuffle.Evaluator {
+		sums := make([]float64, d.K)
+		return func(lab []int32) float64 {
+			between := d.betweenGroups(lab, d.centred, sums)
+			within := d.ssTotal - between
+			if within <= 0 {
+				return math.Inf(1)
+			}
+			return (between / (K - 1)) / (within / (N - K))
+		}
+	}
 }
 
 // betweenGroups returns Σ_g S_g²/n_g, where S_g sums v over the positions

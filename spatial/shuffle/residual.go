@@ -69,38 +69,70 @@ type FreedmanLane struct {
 // linear combination of the intercept and the others (nor may the grouping
 // be one of the covariates'): such a design has no unique fit.
 func NewFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int) (*FreedmanLane, error) {
+	if err := checkFreedmanLane(y, covariates, labels, k); err != nil {
+		return nil, err
+	}
+	n, p, q := len(y), 1+len(covariates), k-1
+	design := flDesign(covariates, labels, p, q)
+	diag, err := orthonormalise(design, p, q)
+	if err != nil {
+		return nil, err
+	}
+	f := &FreedmanLane{n: n, p: p, q: q, df: n - p - q, sign: 1}
+	if q == 1 && diag[p] < 0 {
+		f.sign = -1
+	}
+	f.fit(y, design)
+	return f, nil
+}
+
+// checkFreedmanLane checks the sizes and values of the inputs.
+func checkFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int) error {
 	n := len(y)
 	if len(labels) != n {
-		return nil, fmt.Errorf("shuffle: %d group labels for %d outcome values", len(labels), n)
+		return fmt.Errorf("shuffle: %d group labels for %d outcome values", len(labels), n)
 	}
 	if k < 2 {
-		return nil, fmt.Errorf("shuffle: need at least two groups, have %d", k)
+		return fmt.Errorf("shuffle: need at least two groups, have %d", k)
 	}
-	p, q := 1+len(covariates), k-1
-	if n-p-q < 1 {
-		return nil, fmt.Errorf("shuffle: %d areas are too few for an intercept, %d covariate(s) and %d groups: the model needs more areas than coefficients", n, len(covariates), k)
+	if n-1-len(covariates)-(k-1) < 1 {
+		return fmt.Errorf("shuffle: %d areas are too few for an intercept, %d covariate(s) and %d groups: the model needs more areas than coefficients", n, len(covariates), k)
 	}
 	for i, v := range y {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("shuffle: outcome value %d is %v", i, v)
+			return fmt.Errorf("shuffle: outcome value %d is %v", i, v)
 		}
 	}
 	sizes := make([]int, k)
 	for i, l := range labels {
 		if l < 0 || int(l) >= k {
-			return nil, fmt.Errorf("shuffle: group label %d of area %d is out of range 0..%d", l, i, k-1)
+			return fmt.Errorf("shuffle: group label %d of area %d is out of range 0..%d", l, i, k-1)
 		}
 		sizes[l]++
 	}
 	for g, s := range sizes {
 		if s == 0 {
-			return nil, fmt.Errorf("shuffle: group %d has no area", g)
+			return fmt.Errorf("shuffle: group %d has no area", g)
 		}
 	}
+	for c, col := range covariates {
+		if len(col) != n {
+			return fmt.Errorf("shuffle: covariate %d has %d values for %d areas", c+1, len(col), n)
+		}
+		for i, v := range col {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return fmt.Errorf("shuffle: covariate %d, value %d is %v", c+1, i, v)
+			}
+		}
+	}
+	return nil
+}
 
-	// The full design F = [1, covariates, indicators of groups 0..k−2].
-	m := p + q
-	design := mat.NewDense(n, m, nil)
+// flDesign builds the full design F = [1, covariates, indicators of groups
+// 0..k−2], p columns for the intercept and covariates, q for the groups.
+func flDesign(covariates [][]float64, labels []int32, p, q int) *mat.Dense {
+	n := len(labels)
+	design := mat.NewDense(n, p+q, nil)
 	for i := 0; i < n; i++ {
 		design.Set(i, 0, 1)
 		if g := int(labels[i]); g < q {
@@ -108,23 +140,23 @@ func NewFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int)
 		}
 	}
 	for c, col := range covariates {
-		if len(col) != n {
-			return nil, fmt.Errorf("shuffle: covariate %d has %d values for %d areas", c+1, len(col), n)
-		}
 		for i, v := range col {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, fmt.Errorf("shuffle: covariate %d, value %d is %v", c+1, i, v)
-			}
 			design.Set(i, 1+c, v)
 		}
 	}
+	return design
+}
+
+// orthonormalise overwrites the design with the thin Q of its Householder
+// QR and returns the diagonal of R. Householder QR keeps the nested column
+// spaces: the first p columns of Q span Z, the next q the part of the
+// indicators orthogonal to Z. A design without a unique fit is an error.
+func orthonormalise(design *mat.Dense, p, q int) ([]float64, error) {
+	m := p + q
 	norms := make([]float64, m)
 	for j := 0; j < m; j++ {
 		norms[j] = mat.Norm(design.ColView(j), 2)
 	}
-
-	// Householder QR keeps the nested column spaces: the first p columns of
-	// Q span Z, the next q the part of the indicators orthogonal to Z.
 	raw := design.RawMatrix()
 	tau := make([]float64, m)
 	work := []float64{0}
@@ -156,9 +188,14 @@ func NewFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int)
 	lapack64.Orgqr(raw, tau, work, -1)
 	work = make([]float64, int(work[0]))
 	lapack64.Orgqr(raw, tau, work, len(work))
-	Q := design // now the thin n×m Q
+	return diag, nil
+}
 
-	f := &FreedmanLane{n: n, p: p, q: q, df: n - p - q, resid: make([]float64, n), fitted: make([]float64, n), sign: 1}
+// fit computes the residuals and fitted values of the reduced model and
+// stores Q without its first column, from the thin n×m Q.
+func (f *FreedmanLane) fit(y []float64, Q *mat.Dense) {
+	n, p := f.n, f.p
+	f.resid, f.fitted = make([]float64, n), make([]float64, n)
 	// ê = y − Q_Z Q_Zᵀ y, projected twice ("twice is enough": the second
 	// pass removes what rounding left in the span of Z).
 	copy(f.resid, y)
@@ -177,9 +214,7 @@ func NewFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int)
 		f.fitted[i] = y[i] - f.resid[i]
 		f.ss += f.resid[i] * f.resid[i]
 	}
-	if q == 1 && diag[p] < 0 {
-		f.sign = -1
-	}
+	m := p + f.q
 	w := m - 1
 	f.basis = make([]float64, n*w)
 	for i := 0; i < n; i++ {
@@ -187,7 +222,6 @@ func NewFreedmanLane(y []float64, covariates [][]float64, labels []int32, k int)
 			f.basis[i*w+j-1] = Q.At(i, j)
 		}
 	}
-	return f, nil
 }
 
 // Len returns the number of areas.

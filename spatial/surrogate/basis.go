@@ -1,18 +1,3 @@
-// Package surrogate draws surrogate outcomes that keep an outcome's spatial
-// structure and break its link to anything else, by Moran spectral
-// randomisation (Wagner & Dray 2015, Methods Ecol. Evol. 6:1169–1178): the
-// outcome is written in the eigenvectors of the doubly-centred symmetrised
-// weights Ω = M W* M (W* = (W + Wᵀ)/2, M = I − 11ᵀ/n; the Moran eigenvector
-// maps of Dray, Legendre & Peres-Neto 2006, Ecol. Model. 196:483–493), and
-// a surrogate keeps the magnitude of every coefficient but draws its sign at
-// random. The surrogate has the outcome's mean, variance and Moran's I —
-// Moran's I of a centred z is (n/S0)·Σ_k λ_k c_k² / Σ_k c_k², which the
-// signs do not touch — but no link to a grouping fixed beforehand.
-//
-// The package also measures how often an ordinary label shuffle rejects a
-// true null on such surrogates (FalsePositives), and evaluates the group
-// statistics of spatial/groups on outcomes that change from draw to draw
-// (GroupStatistic).
 package surrogate
 
 import (

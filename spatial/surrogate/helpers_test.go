@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -137,4 +138,31 @@ func ksDistance(a, b []float64) float64 {
 		d = math.Max(d, math.Abs(float64(i)/float64(len(x))-float64(j)/float64(len(y))))
 	}
 	return d
+}
+
+// groupTest is the spectral surrogate test of a two-group statistic with
+// the grouping lab held fixed, as the comparison runs it
+// (compare.GroupTest, which imports this package and so cannot be used
+// here).
+func groupTest(tb testing.TB, o *Outcome, stat groups.Statistic, lab []int32, observed float64, p shuffle.SurrogatePlan) shuffle.Result {
+	if _, err := groups.Prepare(make([]float64, len(lab)), lab, 2); err != nil {
+		tb.Fatal(err)
+	}
+	res, err := shuffle.RunSurrogates(p, observed, o.NewDraw, func() shuffle.OutcomeEvaluator {
+		d, _ := groups.Prepare(make([]float64, len(lab)), lab, 2) // checked above
+		return d.OnOutcomes(stat)
+	}, o.Len())
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return res
+}
+
+// groupValue is the observed value of a two-group statistic.
+func groupValue(tb testing.TB, stat groups.Statistic, y []float64, lab []int32) float64 {
+	d, err := groups.Prepare(y, lab, 2)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return d.Observed(stat)
 }

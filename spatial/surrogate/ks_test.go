@@ -21,15 +21,8 @@ func nullOf(t *testing.T, g *weights.Graph, opt Options, y []float64, lab []int3
 	if err != nil {
 		t.Fatal(err)
 	}
-	gs, err := NewGroupStatistic(groups.DiffMedians, lab, 2)
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := GroupTest(o, gs, gs.Value(y), shuffle.SurrogatePlan{Draws: draws, Seed: 3, Purpose: purpose, KeepNull: true})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return res
+	return groupTest(t, o, groups.DiffMedians, lab, groupValue(t, groups.DiffMedians, y, lab),
+		shuffle.SurrogatePlan{Draws: draws, Seed: 3, Purpose: purpose, KeepNull: true})
 }
 
 // The sparse path's null distribution of the difference in medians matches

@@ -3,8 +3,8 @@ package surrogate
 import (
 	"math"
 	"runtime"
-	"sync"
 
+	"github.com/areatest/areatest/internal/parallel"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -180,24 +180,16 @@ func centreColumns(x []float64, n, p int) {
 	}
 }
 
-// parallelRows runs f over [0, n) in contiguous chunks on all cores, when
-// the work (n·perRow operations) is large enough to pay for the goroutines.
+// parallelRows runs f over [0, n) in contiguous chunks, one per core, when
+// the work (n·perRow operations) is large enough to pay for the goroutines;
+// otherwise in one call on this goroutine.
 func parallelRows(n, perRow int, f func(lo, hi int)) {
 	workers := runtime.GOMAXPROCS(0)
 	if workers == 1 || n*perRow < 200_000 {
 		f(0, n)
 		return
 	}
-	chunk := (n + workers - 1) / workers
-	var wg sync.WaitGroup
-	for lo := 0; lo < n; lo += chunk {
-		wg.Add(1)
-		go func(lo, hi int) {
-			defer wg.Done()
-			f(lo, hi)
-		}(lo, min(lo+chunk, n))
-	}
-	wg.Wait()
+	parallel.ForRanges(n, (n+workers-1)/workers, workers, f)
 }
 
 func dot(a, b []float64) float64 {

@@ -78,15 +78,8 @@ func (s simulation) run(tb testing.TB) rates {
 			tb.Fatal(err)
 		}
 		r.residualShareMean += o.ResidualShare() / float64(s.layers)
-		gs, err := NewGroupStatistic(groups.DiffMedians, lab, 2)
-		if err != nil {
-			tb.Fatal(err)
-		}
-		spec, err := GroupTest(o, gs, observed, shuffle.SurrogatePlan{Draws: s.draws, Seed: s.seed,
+		spec := groupTest(tb, o, groups.DiffMedians, lab, observed, shuffle.SurrogatePlan{Draws: s.draws, Seed: s.seed,
 			Purpose: uint64(2*l + 2), Scale: scale})
-		if err != nil {
-			tb.Fatal(err)
-		}
 		if free.PValue <= alpha {
 			r.free++
 		}

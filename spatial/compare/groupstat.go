@@ -1,18 +1,18 @@
-package surrogate
+package compare
 
 import (
 	"fmt"
-	"math"
 
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
 )
 
 // GroupStatistic evaluates one of the group statistics of spatial/groups
 // on outcomes that change from draw to draw while the grouping stays
 // fixed: the surrogate null turned round from the label shuffles, where the
 // outcome stays and the labels move. Each evaluator owns a groups.Data and
-// re-sorts every surrogate into it (groups.Data.Reprepare), so the
+// re-sorts every surrogate into it (groups.Data.OnOutcomes), so the
 // statistic is computed by the very code the label shuffles use and an
 // evaluation allocates nothing.
 type GroupStatistic struct {
@@ -26,14 +26,14 @@ type GroupStatistic struct {
 // two-group statistics). Every group needs at least two areas.
 func NewGroupStatistic(stat groups.Statistic, labels []int32, k int) (*GroupStatistic, error) {
 	if stat < groups.DiffMedians || stat > groups.OneWayF {
-		return nil, fmt.Errorf("surrogate: unknown statistic %d", stat)
+		return nil, fmt.Errorf("compare: unknown statistic %d", stat)
 	}
 	if stat.TwoGroupsOnly() && k != 2 {
-		return nil, fmt.Errorf("surrogate: the %s compares two groups, not %d", stat, k)
+		return nil, fmt.Errorf("compare: the %s compares two groups, not %d", stat, k)
 	}
 	// Prepare checks the labels and the group sizes.
 	if _, err := groups.Prepare(make([]float64, len(labels)), labels, k); err != nil {
-		return nil, fmt.Errorf("surrogate: %w", err)
+		return nil, fmt.Errorf("compare: %w", err)
 	}
 	return &GroupStatistic{stat: stat, labels: append([]int32(nil), labels...), k: k}, nil
 }
@@ -49,13 +49,7 @@ func (g *GroupStatistic) Factory() func() shuffle.OutcomeEvaluator {
 		if err != nil { // checked by NewGroupStatistic
 			panic(err)
 		}
-		eval := d.Factory(g.stat)()
-		return func(y []float64) float64 {
-			if d.Reprepare(y) != nil {
-				return math.NaN() // a surrogate is always finite
-			}
-			return eval(d.Labels)
-		}
+		return d.OnOutcomes(g.stat) // a surrogate is always finite, so never NaN
 	}
 }
 
@@ -64,9 +58,9 @@ func (g *GroupStatistic) Factory() func() shuffle.OutcomeEvaluator {
 // comparison reports the same number) against its values on p.Draws
 // surrogates of o with the grouping of gs held fixed. p.Alternative is used
 // as given (the comparison tests H and F in their upper tail only).
-func GroupTest(o *Outcome, gs *GroupStatistic, observed float64, p shuffle.SurrogatePlan) (shuffle.Result, error) {
+func GroupTest(o *surrogate.Outcome, gs *GroupStatistic, observed float64, p shuffle.SurrogatePlan) (shuffle.Result, error) {
 	if len(gs.labels) != o.Len() {
-		return shuffle.Result{}, fmt.Errorf("surrogate: %d labels for %d areas", len(gs.labels), o.Len())
+		return shuffle.Result{}, fmt.Errorf("compare: %d labels for %d areas", len(gs.labels), o.Len())
 	}
 	return shuffle.RunSurrogates(p, observed, o.NewDraw, gs.Factory(), o.Len())
 }

@@ -1,11 +1,15 @@
-package surrogate
+package compare
 
 import (
 	"reflect"
 	"testing"
 
+	"math/rand/v2"
+	"sort"
+
 	"github.com/areatest/areatest/spatial/groups"
-	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/weights"
 )
 
 // The measured false-positive rate of the free shuffle: on surrogates of a
@@ -17,18 +21,16 @@ import (
 // inflates the variance). 200 surrogates × 199 shuffles; the result does
 // not depend on the number of workers.
 func TestFalsePositivesOfTheFreeShuffle(t *testing.T) {
-	g := lattice(t, 20, 20).RowStandardised()
-	b, err := NewBasis(g, Options{})
+	g := weights.Lattice(20, 20, weights.Rook).RowStandardised()
+	b, err := surrogate.NewBasis(g, surrogate.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	rng := shuffle.NewStream(31, 0, 0)
-	sar := newSAR(g, 0.8)
-	yClustered := sar.draw(t, &rng)
-	labClustered := medianSplit(sar.draw(t, &rng))
-	yIID := make([]float64, g.Len())
-	normals(&rng, yIID)
-	labIID := medianSplit(func() []float64 { x := make([]float64, g.Len()); normals(&rng, x); return x }())
+	rng := rand.New(rand.NewPCG(31, 0))
+	yClustered := autoregressive(g, 0.8, rng)
+	labClustered := aboveMedian(autoregressive(g, 0.8, rng))
+	yIID := autoregressive(g, 0, rng)
+	labIID := aboveMedian(autoregressive(g, 0, rng))
 	opt := FPROptions{Surrogates: 200, Permutations: 199, Seed: 5, Purpose: 4}
 	run := func(y []float64, lab []int32, workers int) FalsePositiveRate {
 		o, err := b.Prepare(y)
@@ -68,4 +70,42 @@ func TestFalsePositivesOfTheFreeShuffle(t *testing.T) {
 	if _, err := FalsePositives(o, groups.DiffMedians, labClustered, 2, FPROptions{Alpha: 2}); err == nil {
 		t.Error("alpha 2 accepted")
 	}
+}
+
+// autoregressive draws a simultaneous autoregressive field y = ρWy + ε, ε
+// standard normal, by iterating y ← ρWy + ε (a contraction for a
+// row-standardised W and |ρ| < 1) until it stands still.
+func autoregressive(g *weights.Graph, rho float64, rng *rand.Rand) []float64 {
+	n := g.Len()
+	eps := make([]float64, n)
+	for i := range eps {
+		eps[i] = rng.NormFloat64()
+	}
+	y := append([]float64(nil), eps...)
+	next := make([]float64, n)
+	for range 400 {
+		for i := range next {
+			nb, w := g.Row(i)
+			var lag float64
+			for k, j := range nb {
+				lag += w[k] * y[j]
+			}
+			next[i] = rho*lag + eps[i]
+		}
+		y, next = next, y
+	}
+	return y
+}
+
+// aboveMedian puts the areas at or above the median of x in group 0 (A).
+func aboveMedian(x []float64) []int32 {
+	s := append([]float64(nil), x...)
+	sort.Float64s(s)
+	lab := make([]int32, len(x))
+	for i, v := range x {
+		if v < s[len(s)/2] {
+			lab[i] = 1
+		}
+	}
+	return lab
 }

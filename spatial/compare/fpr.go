@@ -1,14 +1,14 @@
-package surrogate
+package compare
 
 import (
 	"errors"
 	"fmt"
-	"runtime"
 	"sync/atomic"
 
 	"github.com/areatest/areatest/internal/parallel"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
 )
 
 // FPRBlock is the number of surrogates in one block of the false-positive
@@ -65,10 +65,10 @@ type FalsePositiveRate struct {
 // ordinary free label shuffle of stat (shuffle.Run, groups.Prepare and
 // groups.Data.Factory: the very test the comparison reports), counting the
 // rejections at opt.Alpha. labels[i] in 0..k−1 is the group of area i.
-func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, opt FPROptions) (FalsePositiveRate, error) {
+func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32, k int, opt FPROptions) (FalsePositiveRate, error) {
 	n := o.Len()
 	if len(labels) != n {
-		return FalsePositiveRate{}, fmt.Errorf("surrogate: %d labels for %d areas", len(labels), n)
+		return FalsePositiveRate{}, fmt.Errorf("compare: %d labels for %d areas", len(labels), n)
 	}
 	if _, err := NewGroupStatistic(stat, labels, k); err != nil {
 		return FalsePositiveRate{}, err
@@ -86,23 +86,18 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 		alpha = 0.05
 	}
 	if S < 1 || B < 1 || !(alpha > 0 && alpha < 1) {
-		return FalsePositiveRate{}, errors.New("surrogate: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
+		return FalsePositiveRate{}, errors.New("compare: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
 	}
 	alt := opt.Alternative
 	if !stat.Directional() {
 		alt = shuffle.Greater
 	}
 	blocks := (S + FPRBlock - 1) / FPRBlock
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, blocks)
 	rejected := make([]bool, S)
 	errs := make([]error, blocks)
 	var done atomic.Int64
 	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
-		s := o.b.NewScratch()
+		draw := o.NewDraw()
 		y := make([]float64, n)
 		// One groups.Data per worker, re-sorted for each surrogate; the
 		// labels were checked above, so Prepare cannot fail here.
@@ -112,7 +107,7 @@ func FalsePositives(o *Outcome, stat groups.Statistic, labels []int32, k int, op
 			rng.Reset(opt.Seed, opt.Purpose, b)
 			lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
 			for d := lo; d < hi; d++ {
-				o.Draw(&rng, y, s)
+				draw(&rng, y)
 				p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
 				if err != nil {
 					errs[b] = err

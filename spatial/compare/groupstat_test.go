@@ -1,4 +1,4 @@
-package surrogate
+package compare
 
 import (
 	"math"

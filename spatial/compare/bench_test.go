@@ -1,0 +1,45 @@
+package compare
+
+import (
+	"math"
+	"testing"
+
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/weights"
+)
+
+// Target (issue 6): the false-positive estimate, 500 surrogates × 199
+// shuffles on 3,000 areas, in about 5 s (the basis built beforehand). The
+// layer is a 50×60 queen lattice, the outcome a smooth made-up field with
+// noise and the grouping blocks of 300 areas: for timing only.
+// The whole budget of issue 6 is BenchmarkCompareAllSchemes3000 in
+// cmd/areatest.
+func BenchmarkFalsePositives3000x500x199(b *testing.B) {
+	g := weights.Lattice(50, 60, weights.Queen).RowStandardised()
+	basis, err := surrogate.NewBasis(g, surrogate.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	y := make([]float64, g.Len())
+	lab := make([]int32, g.Len())
+	for i := range y {
+		y[i] = math.Sin(float64(i)/150) + math.Cos(float64(i)*12.9898)
+		lab[i] = int32((i / 300) % 2)
+	}
+	o, err := basis.Prepare(y)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		r, err := FalsePositives(o, groups.DiffMedians, lab, 2, FPROptions{Seed: 1, Purpose: 4})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if b.N == 1 {
+			b.Logf("%+v", r)
+		}
+	}
+}

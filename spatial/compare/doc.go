@@ -1,0 +1,37 @@
+// Package compare runs the tool's main job: does an outcome differ between
+// groups of areas beyond chance? It takes plain columns and a neighbour
+// graph, runs the group statistic under every shuffle scheme asked for, and
+// checks whether the outcome and the grouping cluster in space, which is
+// when an ordinary shuffle overstates significance.
+//
+// The entry point is Run, with an Input (one entry per area of the layer)
+// and Options. One run goes through these steps, one file each:
+//
+//   - run.go: the tested areas are picked (the others are counted in
+//     Result.Excluded by reason), the group levels ordered (levels.go) and
+//     the statistic chosen; from here on the stages share one prepared
+//     comparison.
+//   - schemes.go: the statistic is tested under the free shuffle and under
+//     a shuffle within strata or automatic zones, all by spatial/shuffle;
+//     with covariates every scheme tests the Freedman–Lane adjusted
+//     statistic instead.
+//   - spectral.go: the spatially constrained scheme, surrogate outcomes
+//     from spatial/surrogate that keep the outcome's spatial pattern
+//     (GroupTest, with the adapter GroupStatistic), and the false-positive
+//     check of the free shuffle on such surrogates (fpr.go).
+//   - effective.go: the modified t-test, how many independent areas the
+//     data are worth.
+//   - spatialcheck.go: Moran's I of the outcome and of each group
+//     indicator.
+//   - recommend.go: which p-value to read, and why.
+//
+// Everything lands in one Result (result.go), which every report renders.
+// Problems with the data are an *Error, or, where they concern one of the
+// caller's settings, a typed error whose Facts a command can word in terms
+// of its flags (errors.go); warnings about the caller's settings come as a
+// Notice the caller may word through Options.Word.
+//
+// Each stage draws its random numbers from a stream of its own (the
+// stream constants in run.go), so that a seeded result does not depend on
+// which other stages ran nor on the number of workers.
+package compare

@@ -1,0 +1,98 @@
+package compare
+
+import (
+	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/weights"
+)
+
+// Input is what one comparison needs. All slices have one entry per area of
+// the layer, in layer order.
+type Input struct {
+	IDs []string
+	// Outcome values, with OutcomeMissing marking areas without one.
+	OutcomeName    string
+	Outcome        []float64
+	OutcomeMissing []bool
+	// Group labels as text, with GroupMissing marking areas without one.
+	GroupName    string
+	Group        []string
+	GroupMissing []bool
+	// Strata labels, optional (nil when no strata were asked for).
+	StrataName    string
+	Strata        []string
+	StrataMissing []bool
+	// Graph is the neighbour graph of all areas of the layer, before any
+	// transform.
+	Graph *weights.Graph
+	// Transform is applied to the graph among the tested areas before the
+	// spatial check; empty means row-standardised.
+	Transform weights.Transform
+	// KeepIslands keeps areas without neighbours in the spatial check, with
+	// a spatial lag of zero, instead of leaving them out.
+	KeepIslands bool
+	// Covariates, when given, make every scheme test the group effect
+	// adjusted for them (Freedman & Lane 1983).
+	Covariates []Covariate
+}
+
+// Covariate is a numeric column to adjust for.
+type Covariate struct {
+	Name    string
+	Values  []float64
+	Missing []bool
+}
+
+// Options tune the comparison.
+type Options struct {
+	// Statistic, when nil, is chosen from the number of groups: difference
+	// in medians for two, Kruskal–Wallis H for more.
+	Statistic *groups.Statistic
+	// Contrast names the two levels A and B of a two-group contrast, A − B.
+	// With more than two levels in the data it restricts the test to them.
+	Contrast    []string
+	Alternative shuffle.Alternative
+	// Permutations is the number of Monte Carlo shuffles B per scheme.
+	Permutations int
+	// ExactLimit as in shuffle.Plan.
+	ExactLimit int
+	Seed       uint64
+	Workers    int
+	// Alpha is the level at which the spatial check calls clustering
+	// significant.
+	Alpha float64
+	// Zones adds a shuffle within automatic contiguous zones when no strata
+	// are given and at least ZoneMinAreas areas are tested.
+	Zones bool
+	// Surrogates is the number of spectral surrogates of the outcome for
+	// the spatially constrained scheme (0: not run).
+	Surrogates int
+	// FalsePositives is the number of surrogates on which the free
+	// shuffle's false-positive rate is measured (0: not measured), with
+	// FalsePositiveShuffles shuffles each (0: 199).
+	FalsePositives, FalsePositiveShuffles int
+	// Basis tunes the eigenbasis of the surrogates.
+	Basis surrogate.Options
+	// Progress, when set, gives the progress callback for a named stage of
+	// the work (see shuffle.Plan.Progress).
+	Progress func(stage string) func(done, total int)
+	// Word, when set, words a notice about the caller's settings for the
+	// result's warnings (a command names its flags); otherwise the
+	// notice's String is used.
+	Word func(Notice) string
+}
+
+func (o Options) word(n Notice) string {
+	if o.Word == nil {
+		return n.String()
+	}
+	return o.Word(n)
+}
+
+func (o Options) progress(stage string) func(done, total int) {
+	if o.Progress == nil {
+		return nil
+	}
+	return o.Progress(stage)
+}
