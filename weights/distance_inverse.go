@@ -8,6 +8,7 @@ import (
 
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/internal/parallel"
+	"github.com/areatest/areatest/weights/internal/kdtree"
 )
 
 // InverseDistance links areas with weight 1/d^power, d the distance between
@@ -27,7 +28,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 		return nil, fmt.Errorf("weights: the inverse-distance power must be a positive number, not %v", power)
 	}
 	if band != 0 {
-		if err := ptsCheckThreshold("the inverse-distance band", band); err != nil {
+		if err := checkThreshold("the inverse-distance band", band); err != nil {
 			return nil, fmt.Errorf("%w (or 0 for all pairs)", err)
 		}
 	}
@@ -36,7 +37,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 		return nil, fmt.Errorf("weights: inverse distance over all pairs of %s areas would make %s links, more than %s; give a distance band",
 			numtext.Count(int64(n)), numtext.Count(int64(n)*int64(n-1)), numtext.Count(MaxLinks))
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
@@ -71,19 +72,19 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 		}
 		for i := range n {
 			if j := badWeight[i]; j >= 0 {
-				d := ptsExact(ix.geo, ix.exact(int32(i)), ix.exact(j))
+				d := exactDistance(ix.geo, ix.exact(int32(i)), ix.exact(j))
 				return fmt.Errorf("weights: inverse distance with power %v gives areas %d and %d, %s apart, the weight %v, beyond floating point; use a smaller power or other units",
-					power, i, j, ptsLength(d, m), math.Pow(d, -power))
+					power, i, j, formatLength(d, m), math.Pow(d, -power))
 			}
 		}
 		return nil
 	}
 	if band > 0 {
-		q := ptsRadiusQuery{
+		q := radiusQuery{
 			ix:     ix,
 			radius: func(int32) float64 { return band },
 			weigh:  weigh,
-			kind:   fmt.Sprintf("inverse distance (power %s, band %s)", ptsNumber(power), ptsLength(band, m)),
+			kind:   fmt.Sprintf("inverse distance (power %s, band %s)", formatNumber(power), formatLength(band, m)),
 			what:   "band",
 		}
 		return q.graph("weighted", band, check)
@@ -96,7 +97,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 	}
 	nb := make([]int32, n*(n-1))
 	w := make([]float64, n*(n-1))
-	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
+	parallel.ForRanges(n, kdtree.Block, 0, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			ei := ix.exact(int32(i))
 			t := i * (n - 1)
@@ -105,7 +106,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 					continue
 				}
 				nb[t] = int32(j)
-				w[t] = weigh(int32(i), int32(j), ptsExact(ix.geo, ei, ix.exact(int32(j))))
+				w[t] = weigh(int32(i), int32(j), exactDistance(ix.geo, ei, ix.exact(int32(j))))
 				t++
 			}
 		}
@@ -113,6 +114,6 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 	if err := check(); err != nil {
 		return nil, err
 	}
-	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", ptsNumber(power))
+	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", formatNumber(power))
 	return &Graph{Kind: kind, Transform: "weighted", Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }

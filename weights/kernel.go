@@ -105,20 +105,20 @@ func Kernel(pts []orb.Point, kind KernelKind, bandwidth float64, adaptiveK int, 
 			return nil, fmt.Errorf("weights: an adaptive kernel over %d neighbours of %s areas would make about %s links, more than %s; choose fewer neighbours",
 				adaptiveK, numtext.Count(int64(n)), numtext.Count(int64(n)*int64(adaptiveK)), numtext.Count(MaxLinks))
 		}
-	} else if err := ptsCheckThreshold("the kernel bandwidth", bandwidth); err != nil {
+	} else if err := checkThreshold("the kernel bandwidth", bandwidth); err != nil {
 		return nil, err
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
 	if adaptiveK == 0 {
 		h := bandwidth
-		q := ptsRadiusQuery{
+		q := radiusQuery{
 			ix:     ix,
 			radius: func(int32) float64 { return h },
 			weigh:  func(_, _ int32, d float64) float64 { return kind.value(d / h) },
-			kind:   fmt.Sprintf("%s kernel (bandwidth %s)", kind, ptsLength(h, m)),
+			kind:   fmt.Sprintf("%s kernel (bandwidth %s)", kind, formatLength(h, m)),
 			what:   "bandwidth",
 		}
 		return q.graph("weighted", h, nil)
@@ -137,7 +137,7 @@ func Kernel(pts []orb.Point, kind KernelKind, bandwidth float64, adaptiveK int, 
 	if adaptiveK == 1 {
 		kindText = fmt.Sprintf("%s kernel (adaptive, 1 neighbour)", kind)
 	}
-	q := ptsRadiusQuery{
+	q := radiusQuery{
 		ix:     ix,
 		radius: func(i int32) float64 { return h[i] },
 		weigh:  func(i, _ int32, d float64) float64 { return kind.value(d / h[i]) },
