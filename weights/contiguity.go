@@ -6,6 +6,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/weights/internal/contig"
 )
 
@@ -28,15 +29,11 @@ func (c Contiguity) String() string {
 	return "queen"
 }
 
-// ParseContiguity reads "queen" or "rook".
+var contiguityNames = []choice.Name[Contiguity]{{Name: "queen", Value: Queen}, {Name: "rook", Value: Rook}}
+
+// ParseContiguity reads "queen" or "rook" (any case).
 func ParseContiguity(s string) (Contiguity, error) {
-	switch s {
-	case "queen":
-		return Queen, nil
-	case "rook":
-		return Rook, nil
-	}
-	return Queen, fmt.Errorf("contiguity must be queen or rook, not %q", s)
+	return choice.Parse("contiguity", s, contiguityNames...)
 }
 
 // ContiguityOptions says how BuildContiguity decides that two areas touch.

@@ -3,10 +3,10 @@ package weights
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/paulmach/orb"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
 )
 
@@ -37,17 +37,11 @@ func (k KernelKind) String() string {
 	return "triangular"
 }
 
+var kernelNames = []choice.Name[KernelKind]{{Name: "triangular", Value: Triangular}, {Name: "bisquare", Value: Bisquare}, {Name: "gaussian", Value: Gaussian}}
+
 // ParseKernelKind reads "triangular", "bisquare" or "gaussian" (any case).
 func ParseKernelKind(s string) (KernelKind, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "triangular":
-		return Triangular, nil
-	case "bisquare":
-		return Bisquare, nil
-	case "gaussian":
-		return Gaussian, nil
-	}
-	return Triangular, fmt.Errorf("kernel must be triangular, bisquare or gaussian, not %q", s)
+	return choice.Parse("kernel", s, kernelNames...)
 }
 
 // value returns K(u) for u ≥ 0.

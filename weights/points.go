@@ -2,10 +2,10 @@ package weights
 
 import (
 	"fmt"
-	"strings"
 
 	"github.com/paulmach/orb"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/weights/internal/points"
 )
 
@@ -30,15 +30,11 @@ func (p PointMode) String() string {
 	return "centroid"
 }
 
+var pointModeNames = []choice.Name[PointMode]{{Name: "centroid", Value: Centroid}, {Name: "inside", Value: Inside}}
+
 // ParsePointMode reads "centroid" or "inside" (any case).
 func ParsePointMode(s string) (PointMode, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "centroid":
-		return Centroid, nil
-	case "inside":
-		return Inside, nil
-	}
-	return Centroid, fmt.Errorf("point mode must be centroid or inside, not %q", s)
+	return choice.Parse("point mode", s, pointModeNames...)
 }
 
 // RepresentativePoints returns one point per area.

@@ -2,6 +2,7 @@ package weights
 
 import (
 	"errors"
+	"fmt"
 
 	"github.com/paulmach/orb"
 )
@@ -123,6 +124,28 @@ func (s Spec) Units(geoms []orb.MultiPolygon) string {
 		return "km"
 	}
 	return "layer units"
+}
+
+// Describe says in words how the spec's rule measures contact or distance
+// on a layer, for reports: the snap distance of contiguity (the default one
+// when Snap is 0), or the distances and points of the point-based rules.
+func (s Spec) Describe(geoms []orb.MultiPolygon) string {
+	if s.PointBased() {
+		metric := "great-circle distances in km"
+		if s.Units(geoms) != "km" {
+			metric = "planar distances in layer units"
+		}
+		return metric + " between " + s.Points.String() + " points of the areas"
+	}
+	snap, note := s.Snap, ""
+	if snap == 0 {
+		snap, note = DefaultSnap(geoms), ", the default for these coordinates"
+	}
+	units := "layer units"
+	if DetectMetric(geoms) == Geographic {
+		units = "degrees"
+	}
+	return fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, units, note)
 }
 
 // Restricted is a graph cut down to the areas a statistic uses.
