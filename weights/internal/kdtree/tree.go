@@ -136,6 +136,7 @@ func Slack(c2 float64) float64 {
 	return c * c
 }
 
+// Chord2 is the squared straight-line distance between two embedded points.
 func Chord2(a, b *[3]float64) float64 {
 	dx := a[0] - b[0]
 	dy := a[1] - b[1]
