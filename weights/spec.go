@@ -3,6 +3,7 @@ package weights
 import (
 	"errors"
 	"fmt"
+	"io"
 
 	"github.com/paulmach/orb"
 )
@@ -82,12 +83,29 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, e
 			return nil, nil, err
 		}
 	}
-	if s.Order > 1 {
-		if g, err = g.HigherOrder(s.Order, s.Cumulative); err != nil {
-			return nil, warnings, err
-		}
+	if g, err = s.orders(g); err != nil {
+		return nil, warnings, err
 	}
 	return g, warnings, nil
+}
+
+// ReadEdgeList reads a graph from an edge list (see the package function
+// ReadEdgeList) and applies the spec's order to it, as Build does to the
+// graphs it makes; the spec's rule is not used.
+func (s Spec) ReadEdgeList(r io.Reader, source string, ids []string) (*Graph, error) {
+	g, err := ReadEdgeList(r, source, ids)
+	if err != nil {
+		return nil, err
+	}
+	return s.orders(g)
+}
+
+// orders replaces g by its neighbours of the spec's order, when above 1.
+func (s Spec) orders(g *Graph) (*Graph, error) {
+	if s.Order > 1 {
+		return g.HigherOrder(s.Order, s.Cumulative)
+	}
+	return g, nil
 }
 
 // Locate returns the representative point of each area and the metric

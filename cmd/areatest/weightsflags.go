@@ -138,9 +138,6 @@ func (w *weightFlags) graph(lay *layer.Layer, s weights.Spec) (*weights.Graph, [
 		return nil, nil, fmt.Errorf("%s: %w", w.file, err)
 	}
 	defer f.Close()
-	g, err := weights.ReadEdgeList(f, w.file, lay.IDs)
-	if err == nil && s.Order > 1 {
-		g, err = g.HigherOrder(s.Order, s.Cumulative)
-	}
+	g, err := s.ReadEdgeList(f, w.file, lay.IDs)
 	return g, nil, err
 }
