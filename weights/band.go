@@ -11,6 +11,7 @@ import (
 
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/internal/parallel"
+	"github.com/areatest/areatest/weights/internal/kdtree"
 )
 
 // DistanceBand links, with weight one, every pair of areas whose
@@ -23,28 +24,28 @@ import (
 // closest areas are and which band gives every area a neighbour. A band that
 // would make more than MaxLinks links is an error too.
 func DistanceBand(pts []orb.Point, d float64, m Metric) (*Graph, error) {
-	if err := ptsCheckThreshold("the distance band", d); err != nil {
+	if err := checkThreshold("the distance band", d); err != nil {
 		return nil, err
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
-	q := ptsRadiusQuery{
+	q := radiusQuery{
 		ix:     ix,
 		radius: func(int32) float64 { return d },
 		weigh:  func(_, _ int32, _ float64) float64 { return 1 },
-		kind:   "distance band " + ptsLength(d, m),
+		kind:   "distance band " + formatLength(d, m),
 		what:   "band",
 	}
 	return q.graph("binary", d, nil)
 }
 
-// ptsRadiusQuery describes a graph that links each area i to the other areas
+// radiusQuery describes a graph that links each area i to the other areas
 // j within radius(i) of it, with weight weigh(i, j, d_ij); links of weight
 // zero are left out.
-type ptsRadiusQuery struct {
-	ix     *ptsIndex
+type radiusQuery struct {
+	ix     *pointIndex
 	radius func(i int32) float64
 	weigh  func(i, j int32, d float64) float64
 	kind   string
@@ -56,15 +57,15 @@ type ptsRadiusQuery struct {
 
 // visit calls f for each other area within radius of the area at tree
 // position q, in no particular order.
-func (r *ptsRadiusQuery) visit(q int, f func(j int32, d float64)) {
+func (r *radiusQuery) visit(q int, f func(j int32, d float64)) {
 	t := r.ix.tree
-	rad := r.radius(t.idx[q])
-	t.within(&t.c[q], r.ix.reach(rad), 0, len(t.idx), func(p int) {
+	rad := r.radius(t.Idx[q])
+	t.Within(&t.C[q], r.ix.reach(rad), func(p int) {
 		if p == q {
 			return
 		}
-		if d := ptsExact(r.ix.geo, &t.e[q], &t.e[p]); d <= rad {
-			f(t.idx[p], d)
+		if d := exactDistance(r.ix.geo, &t.E[q], &t.E[p]); d <= rad {
+			f(t.Idx[p], d)
 		}
 	})
 }
@@ -74,18 +75,18 @@ func (r *ptsRadiusQuery) visit(q int, f func(j int32, d float64)) {
 // stops before it has taken the memory. check, if given, runs between the
 // passes (builders use it to report problems weigh found). threshold is the
 // fixed distance reported if no area gets a neighbour.
-func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func() error) (*Graph, error) {
+func (r *radiusQuery) graph(transform string, threshold float64, check func() error) (*Graph, error) {
 	ix := r.ix
 	n := ix.len()
 	counts := make([]int32, n)
 	var total atomic.Int64
-	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
+	parallel.ForRanges(n, kdtree.Block, 0, func(lo, hi int) {
 		if total.Load() > MaxLinks {
 			return
 		}
 		var sum int64
 		for p := lo; p < hi; p++ {
-			i := ix.tree.idx[p]
+			i := ix.tree.Idx[p]
 			c := int32(0)
 			r.visit(p, func(j int32, d float64) {
 				if r.weigh(i, j, d) > 0 {
@@ -109,7 +110,7 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 		if r.none != nil {
 			return nil, r.none()
 		}
-		return nil, ptsNoNeighbours(ix, r.kind, threshold)
+		return nil, noNeighbours(ix, r.kind, threshold)
 	}
 	offsets := make([]int32, n+1)
 	for i, c := range counts {
@@ -117,9 +118,9 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 	}
 	nb := make([]int32, offsets[n])
 	w := make([]float64, offsets[n])
-	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
+	parallel.ForRanges(n, kdtree.Block, 0, func(lo, hi int) {
 		for p := lo; p < hi; p++ {
-			i := ix.tree.idx[p]
+			i := ix.tree.Idx[p]
 			a, b := offsets[i], offsets[i+1]
 			t := a
 			r.visit(p, func(j int32, d float64) {
@@ -128,16 +129,16 @@ func (r *ptsRadiusQuery) graph(transform string, threshold float64, check func()
 					t++
 				}
 			})
-			ptsSortRow(nb[a:b], w[a:b])
+			sortRow(nb[a:b], w[a:b])
 		}
 	})
 	return &Graph{Kind: r.kind, Transform: transform, Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }
 
-// ptsSortRow orders a row by neighbour index, carrying the weights along.
-func ptsSortRow(nb []int32, w []float64) {
+// sortRow orders a row by neighbour index, carrying the weights along.
+func sortRow(nb []int32, w []float64) {
 	if len(nb) > 24 {
-		sort.Sort(ptsRow{nb, w})
+		sort.Sort(rowSorter{nb, w})
 		return
 	}
 	for i := 1; i < len(nb); i++ {
@@ -150,14 +151,14 @@ func ptsSortRow(nb []int32, w []float64) {
 	}
 }
 
-type ptsRow struct {
+type rowSorter struct {
 	nb []int32
 	w  []float64
 }
 
-func (r ptsRow) Len() int           { return len(r.nb) }
-func (r ptsRow) Less(a, b int) bool { return r.nb[a] < r.nb[b] }
-func (r ptsRow) Swap(a, b int) {
+func (r rowSorter) Len() int           { return len(r.nb) }
+func (r rowSorter) Less(a, b int) bool { return r.nb[a] < r.nb[b] }
+func (r rowSorter) Swap(a, b int) {
 	r.nb[a], r.nb[b] = r.nb[b], r.nb[a]
 	r.w[a], r.w[b] = r.w[b], r.w[a]
 }

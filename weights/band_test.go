@@ -10,8 +10,8 @@ import (
 	"github.com/paulmach/orb"
 )
 
-// ptsMatrix returns all distances by Distance, computed once per test.
-func ptsMatrix(pts []orb.Point, m Metric) [][]float64 {
+// distMatrix returns all distances by Distance, computed once per test.
+func distMatrix(pts []orb.Point, m Metric) [][]float64 {
 	D := make([][]float64, len(pts))
 	for i := range pts {
 		D[i] = make([]float64, len(pts))
@@ -22,10 +22,10 @@ func ptsMatrix(pts []orb.Point, m Metric) [][]float64 {
 	return D
 }
 
-// ptsBruteWithin returns, for every area, the other areas within radius(i)
+// bruteWithin returns, for every area, the other areas within radius(i)
 // by exhaustive search over the distance matrix D, in index order, with their
 // distances.
-func ptsBruteWithin(D [][]float64, radius func(i int) float64) ([][]int32, [][]float64) {
+func bruteWithin(D [][]float64, radius func(i int) float64) ([][]int32, [][]float64) {
 	rows := make([][]int32, len(D))
 	dist := make([][]float64, len(D))
 	for i := range D {
@@ -48,21 +48,21 @@ func TestDistanceBandAgainstBruteForce(t *testing.T) {
 		m     Metric
 		bands []float64
 	}{
-		{"geographic", ptsRandomGeo(1200, 11), Geographic, []float64{50, 300, 1500, 25000}},
-		{"planar", ptsRandomPlanar(1200, 12), Planar, []float64{500, 3000, 20000}},
+		{"geographic", randomGeo(1200, 11), Geographic, []float64{50, 300, 1500, 25000}},
+		{"planar", randomPlanar(1200, 12), Planar, []float64{500, 3000, 20000}},
 	} {
-		D := ptsMatrix(c.pts, c.m)
+		D := distMatrix(c.pts, c.m)
 		for _, d := range c.bands {
 			g, err := DistanceBand(c.pts, d, c.m)
 			if err != nil {
 				t.Fatal(err)
 			}
-			ptsCheckGraph(t, g)
-			want, _ := ptsBruteWithin(D, func(int) float64 { return d })
-			ptsSameRows(t, c.name+" band "+ptsNumber(d), ptsRows(g), want)
+			checkGraph(t, g)
+			want, _ := bruteWithin(D, func(int) float64 { return d })
+			sameRows(t, c.name+" band "+formatNumber(d), rowsOf(g), want)
 		}
 	}
-	g, err := DistanceBand(ptsGrid(4, orb.Point{0, 0}, 1), 1, Planar)
+	g, err := DistanceBand(gridPoints(4, orb.Point{0, 0}, 1), 1, Planar)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,7 +74,7 @@ func TestDistanceBandAgainstBruteForce(t *testing.T) {
 	// 0.1° of latitude is 11.1 km (2πR/3600), so a 12 km band links the
 	// north–south pairs of a 0.1° lattice at 50°N and the east–west ones,
 	// 0.1°·cos 50° = 7.1 km apart, but no diagonals (12.8 km).
-	g, err = DistanceBand(ptsGrid(5, orb.Point{10, 50}, 0.1), 12, Geographic)
+	g, err = DistanceBand(gridPoints(5, orb.Point{10, 50}, 0.1), 12, Geographic)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -113,7 +113,7 @@ func TestDistanceBandNoNeighbours(t *testing.T) {
 }
 
 func TestDistanceBandErrors(t *testing.T) {
-	pts := ptsGrid(3, orb.Point{0, 0}, 1)
+	pts := gridPoints(3, orb.Point{0, 0}, 1)
 	for _, d := range []float64{0, -1, math.NaN(), math.Inf(1)} {
 		if _, err := DistanceBand(pts, d, Planar); err == nil || !strings.Contains(err.Error(), "positive distance") {
 			t.Errorf("band %v: error %v", d, err)
@@ -124,7 +124,7 @@ func TestDistanceBandErrors(t *testing.T) {
 	}
 	// A band that links all of 7,200 areas would make 51.8 million links,
 	// above MaxLinks; the counting pass stops early.
-	_, err := DistanceBand(ptsRandomPlanar(7200, 3), 1e9, Planar)
+	_, err := DistanceBand(randomPlanar(7200, 3), 1e9, Planar)
 	if err == nil || !strings.Contains(err.Error(), "more than 50,000,000 links") {
 		t.Errorf("a band over everything: %v", err)
 	}
@@ -133,24 +133,24 @@ func TestDistanceBandErrors(t *testing.T) {
 // Inverse-distance weights against exhaustive search and the formula
 // w = 1/d^power (definition), with a band and over all pairs.
 func TestInverseDistance(t *testing.T) {
-	pts := ptsRandomGeo(600, 14)
-	D := ptsMatrix(pts, Geographic)
+	pts := randomGeo(600, 14)
+	D := distMatrix(pts, Geographic)
 	for _, c := range []struct{ power, band float64 }{{1, 2000}, {2, 500}, {1.5, 0}} {
 		g, err := InverseDistance(pts, c.power, c.band, Geographic)
 		if err != nil {
 			t.Fatal(err)
 		}
-		ptsCheckGraph(t, g)
+		checkGraph(t, g)
 		band := c.band
 		if band == 0 {
 			band = math.Inf(1)
 		}
-		want, dist := ptsBruteWithin(D, func(int) float64 { return band })
-		ptsSameRows(t, "inverse distance", ptsRows(g), want)
+		want, dist := bruteWithin(D, func(int) float64 { return band })
+		sameRows(t, "inverse distance", rowsOf(g), want)
 		for i := range pts {
 			_, w := g.Row(i)
 			for k := range w {
-				if f := 1 / math.Pow(dist[i][k], c.power); ptsRel(w[k], f) > 1e-14 {
+				if f := 1 / math.Pow(dist[i][k], c.power); relErr(w[k], f) > 1e-14 {
 					t.Fatalf("power %v: w[%d][%d] = %v, want 1/d^p = %v", c.power, i, k, w[k], f)
 				}
 			}
@@ -168,7 +168,7 @@ func TestInverseDistance(t *testing.T) {
 		{1, 0, Planar, "inverse distance (power 1, all pairs)"},
 		{0.5, 1e6, Planar, "inverse distance (power 0.5, band 1000000 (layer units))"},
 	} {
-		g, err := InverseDistance(ptsGrid(4, orb.Point{0, 0}, 0.5), c.power, c.band, c.m)
+		g, err := InverseDistance(gridPoints(4, orb.Point{0, 0}, 0.5), c.power, c.band, c.m)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -187,7 +187,7 @@ func TestInverseDistanceErrors(t *testing.T) {
 			t.Errorf("band %v: error %v, want areas 1 and 3 coincident", band, err)
 		}
 	}
-	grid := ptsGrid(3, orb.Point{0, 0}, 1)
+	grid := gridPoints(3, orb.Point{0, 0}, 1)
 	for _, c := range []struct {
 		power, band float64
 		want        string

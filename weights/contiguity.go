@@ -5,6 +5,9 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
+
+	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/weights/internal/contig"
 )
 
 // Contiguity says which shared boundary makes two areas neighbours.
@@ -26,15 +29,11 @@ func (c Contiguity) String() string {
 	return "queen"
 }
 
-// ParseContiguity reads "queen" or "rook".
+var contiguityNames = []choice.Name[Contiguity]{{Name: "queen", Value: Queen}, {Name: "rook", Value: Rook}}
+
+// ParseContiguity reads "queen" or "rook" (any case).
 func ParseContiguity(s string) (Contiguity, error) {
-	switch s {
-	case "queen":
-		return Queen, nil
-	case "rook":
-		return Rook, nil
-	}
-	return Queen, fmt.Errorf("contiguity must be queen or rook, not %q", s)
+	return choice.Parse("contiguity", s, contiguityNames...)
 }
 
 // ContiguityOptions says how BuildContiguity decides that two areas touch.
@@ -54,14 +53,7 @@ type ContiguityOptions struct {
 // A point contact blurred by the tolerance on both sides can look like a
 // stretch of up to about 2·Snap (two corners digitised up to Snap apart), so
 // the threshold sits just above that.
-const RookMinShared = 3
-
-// Factors of DefaultSnap: the coordinate scale factor, and the cap relative
-// to the typical boundary segment.
-const (
-	contigSnapScale   = 2e-9
-	contigSnapSegment = 1e-2
-)
+const RookMinShared = contig.RookMinShared
 
 // DefaultSnap returns the snap distance used when ContiguityOptions.Snap is
 // 0: 2·10⁻⁹ of the layer's coordinate scale, the larger of its bounding-box
@@ -76,31 +68,7 @@ const (
 // tolerance far below the size of the areas themselves when they are tiny
 // next to their coordinates. Non-finite coordinates are ignored; a layer
 // without any boundary segment gets 0.
-func DefaultSnap(geoms []orb.MultiPolygon) float64 {
-	var b contigBounds
-	b.reset()
-	for _, mp := range geoms {
-		for _, poly := range mp {
-			for _, ring := range poly {
-				for _, p := range ring {
-					b.add(p[0], p[1])
-				}
-			}
-		}
-	}
-	med := contigMedianSegment(geoms)
-	if !b.ok() || med == 0 {
-		return 0
-	}
-	return contigSnapFrom(b, med)
-}
-
-// contigSnapFrom is DefaultSnap from the bounds and median segment length.
-func contigSnapFrom(b contigBounds, medianSegment float64) float64 {
-	diag := math.Hypot(b.maxx-b.minx, b.maxy-b.miny)
-	scale := max(diag, math.Abs(b.minx), math.Abs(b.maxx), math.Abs(b.miny), math.Abs(b.maxy))
-	return min(contigSnapScale*scale, contigSnapSegment*medianSegment)
-}
+func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(geoms) }
 
 // BuildContiguity builds the binary contiguity graph of the areas geoms, with
 // boundaries compared up to the tolerance opt.Snap:
@@ -149,29 +117,10 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	if len(geoms) > math.MaxInt32 {
 		return nil, nil, fmt.Errorf("weights: %d areas are more than contiguity can index", len(geoms))
 	}
-	names := contigNamer{ids: opt.IDs}
-	b, err := contigCheck(geoms, names)
+	pairs, warns, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
 	if err != nil {
 		return nil, nil, err
 	}
-	snap := opt.Snap
-	if snap == 0 && b.ok() {
-		if med := contigMedianSegment(geoms); med > 0 {
-			snap = contigSnapFrom(b, med)
-		}
-	}
-	lay, err := contigFlatten(geoms, snap)
-	if err != nil {
-		return nil, nil, err
-	}
-	found, err := lay.search(opt.Rule, snap)
-	if err != nil {
-		return nil, nil, err
-	}
-	crossed := lay.crossed(found.crossings)
-	pairs := found.links(crossed)
-	warns := lay.sliverWarnings(crossed, snap, names)
-	warns = append(warns, lay.crossingWarnings(found.crossings, crossed, names)...)
 	g, err := FromLinks(len(geoms), pairs, opt.Rule.String()+" contiguity")
 	if err != nil {
 		return nil, nil, err

@@ -1,7 +1,9 @@
 package weights
 
 import (
+	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -12,71 +14,34 @@ func lattice(m int) []orb.MultiPolygon {
 	var out []orb.MultiPolygon
 	for r := 0; r < m; r++ {
 		for c := 0; c < m; c++ {
-			x, y := float64(c), float64(r)
-			ring := orb.Ring{{x, y}, {x + 1, y}, {x + 1, y + 1}, {x, y + 1}, {x, y}}
-			out = append(out, orb.MultiPolygon{orb.Polygon{ring}})
+			out = append(out, orb.MultiPolygon{{unitSquare(float64(c), float64(r))}})
 		}
 	}
 	return out
 }
 
-// On an m×m lattice rook contiguity has 2·m·(m−1) neighbour pairs and queen
-// adds the 2·(m−1)² diagonal pairs (geometry of the lattice, common knowledge).
-func TestLatticeLinkCounts(t *testing.T) {
-	for _, m := range []int{1, 2, 3, 5, 10} {
-		geoms := lattice(m)
-		rook, err := ContiguityGraph(geoms, Rook)
-		if err != nil {
-			t.Fatal(err)
-		}
-		queen, err := ContiguityGraph(geoms, Queen)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if got, want := rook.Links()/2, 2*m*(m-1); got != want {
-			t.Errorf("m=%d rook pairs %d, want %d", m, got, want)
-		}
-		if got, want := queen.Links()/2, 2*m*(m-1)+2*(m-1)*(m-1); got != want {
-			t.Errorf("m=%d queen pairs %d, want %d", m, got, want)
-		}
-		if m >= 3 {
-			centre := m + 1 // row 1, column 1
-			if rook.Degree(centre) != 4 || queen.Degree(centre) != 8 || queen.Degree(0) != 3 || rook.Degree(0) != 2 {
-				t.Errorf("m=%d degrees: rook %d/%d queen %d/%d", m, rook.Degree(centre), rook.Degree(0), queen.Degree(centre), queen.Degree(0))
-			}
-		}
-	}
+// unitSquare is the square of side 1 with lower-left corner (x, y).
+func unitSquare(x, y float64) orb.Ring {
+	return orb.Ring{{x, y}, {x + 1, y}, {x + 1, y + 1}, {x, y + 1}, {x, y}}
 }
 
-// A shared edge with an extra vertex on both sides is still one shared
-// boundary; the graph must not depend on the direction rings run in.
-func TestSharedEdgeBothDirections(t *testing.T) {
-	a := orb.Ring{{0, 0}, {1, 0}, {1, 0.5}, {1, 1}, {0, 1}, {0, 0}}
-	b := orb.Ring{{1, 0}, {1, 0.5}, {1, 1}, {2, 1}, {2, 0}, {1, 0}} // clockwise
-	c := orb.Ring{{5, 5}, {6, 5}, {6, 6}, {5, 5}}                   // an island
-	g, err := ContiguityGraph([]orb.MultiPolygon{{{a}}, {{b}}, {{c}}}, Rook)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if g.Links() != 2 || g.Degree(2) != 0 {
-		t.Fatalf("links %d, island degree %d", g.Links(), g.Degree(2))
-	}
-	if is := g.Islands(); len(is) != 1 || is[0] != 2 {
-		t.Fatalf("islands %v", is)
-	}
-}
-
-// A hole's boundary counts: an area filling another's hole is its neighbour.
-func TestHoleNeighbour(t *testing.T) {
-	outer := orb.Ring{{0, 0}, {4, 0}, {4, 4}, {0, 4}, {0, 0}}
-	hole := orb.Ring{{1, 1}, {1, 3}, {3, 3}, {3, 1}, {1, 1}}
-	inner := orb.Ring{{1, 1}, {3, 1}, {3, 3}, {1, 3}, {1, 1}}
-	g, err := ContiguityGraph([]orb.MultiPolygon{{{outer, hole}}, {{inner}}}, Rook)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if g.Links() != 2 {
-		t.Fatalf("links %d, want 2", g.Links())
+// BuildContiguity checks its options before the engine sees them.
+func TestBuildContiguityBadOptions(t *testing.T) {
+	geoms := []orb.MultiPolygon{{{unitSquare(0, 0)}}, {{unitSquare(1, 0)}}}
+	for _, c := range []struct {
+		name string
+		opt  ContiguityOptions
+		want string
+	}{
+		{"negative snap", ContiguityOptions{Snap: -1}, "snap distance"},
+		{"NaN snap", ContiguityOptions{Snap: math.NaN()}, "snap distance"},
+		{"infinite snap", ContiguityOptions{Snap: math.Inf(1)}, "snap distance"},
+		{"ids of another length", ContiguityOptions{IDs: []string{"a"}}, "1 ids for 2 areas"},
+		{"unknown rule", ContiguityOptions{Rule: 7}, "unknown contiguity rule"},
+	} {
+		if _, _, err := BuildContiguity(geoms, c.opt); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: error %v, want one mentioning %q", c.name, err, c.want)
+		}
 	}
 }
 

@@ -7,7 +7,7 @@ import (
 
 	"github.com/paulmach/orb"
 
-	"github.com/areatest/areatest/internal/parallel"
+	"github.com/areatest/areatest/weights/internal/kdtree"
 )
 
 // Metric says how distances between representative points are measured.
@@ -79,27 +79,27 @@ func DetectMetric(geoms []orb.MultiPolygon) Metric {
 // stays well-conditioned up to antipodal points; for Planar the Euclidean
 // distance. Every graph builder ranks and thresholds by exactly this value.
 func Distance(m Metric, a, b orb.Point) float64 {
-	ea, eb := ptsExactData(m, a), ptsExactData(m, b)
-	return ptsExact(m == Geographic, &ea, &eb)
+	ea, eb := exactData(m, a), exactData(m, b)
+	return exactDistance(m == Geographic, &ea, &eb)
 }
 
-// ptsExactData is what ptsExact needs of one point: (x, y, 0) for Planar;
+// exactData is what exactDistance needs of one point: (x, y, 0) for Planar;
 // (latitude°, longitude°, cos latitude) for Geographic, in degrees so that
 // the differences of nearby coordinates are taken before any rounding of the
 // conversion to radians enters.
-func ptsExactData(m Metric, p orb.Point) [3]float64 {
+func exactData(m Metric, p orb.Point) [3]float64 {
 	if m == Planar {
 		return [3]float64{p[0], p[1], 0}
 	}
-	return [3]float64{p[1], p[0], math.Cos(p[1] * ptsRadPerDeg)}
+	return [3]float64{p[1], p[0], math.Cos(p[1] * radPerDeg)}
 }
 
-const ptsRadPerDeg = math.Pi / 180
+const radPerDeg = math.Pi / 180
 
-// ptsExact is the one distance formula of the package. It is symmetric to the
+// exactDistance is the one distance formula of the package. It is symmetric to the
 // last bit (the differences only change sign), so d(i, j) == d(j, i) and
 // thresholds give symmetric graphs.
-func ptsExact(geo bool, a, b *[3]float64) float64 {
+func exactDistance(geo bool, a, b *[3]float64) float64 {
 	if !geo {
 		dx := float64(a[0] - b[0])
 		dy := float64(a[1] - b[1])
@@ -114,30 +114,30 @@ func ptsExact(geo bool, a, b *[3]float64) float64 {
 	} else if dlon < -180 {
 		dlon += 360
 	}
-	s1 := math.Sin(dlat * (ptsRadPerDeg / 2))
-	s2 := math.Sin(dlon * (ptsRadPerDeg / 2))
+	s1 := math.Sin(dlat * (radPerDeg / 2))
+	s2 := math.Sin(dlon * (radPerDeg / 2))
 	h := float64(s1*s1) + float64(float64(a[2]*b[2])*float64(s2*s2))
 	h = min(h, 1)
 	return 2 * EarthRadiusKm * math.Atan2(math.Sqrt(h), math.Sqrt(1-h))
 }
 
-// ptsIndex is a set of validated points with their k-d tree; at maps an
+// pointIndex is a set of validated points with their k-d tree; at maps an
 // area's index to its position in the tree.
-type ptsIndex struct {
+type pointIndex struct {
 	m    Metric
 	geo  bool
-	tree *kdTree
+	tree *kdtree.Tree
 	at   []int32
 }
 
-func (ix *ptsIndex) len() int { return len(ix.at) }
+func (ix *pointIndex) len() int { return len(ix.at) }
 
 // exact returns the exact-distance data of area i.
-func (ix *ptsIndex) exact(i int32) *[3]float64 { return &ix.tree.e[ix.at[i]] }
+func (ix *pointIndex) exact(i int32) *[3]float64 { return &ix.tree.E[ix.at[i]] }
 
-// ptsNewIndex checks the points (at least two, finite, in the range of
+// newPointIndex checks the points (at least two, finite, in the range of
 // longitude/latitude for Geographic) and builds their tree.
-func ptsNewIndex(pts []orb.Point, m Metric) (*ptsIndex, error) {
+func newPointIndex(pts []orb.Point, m Metric) (*pointIndex, error) {
 	if m != Geographic && m != Planar {
 		return nil, fmt.Errorf("weights: unknown metric %d", m)
 	}
@@ -147,7 +147,7 @@ func ptsNewIndex(pts []orb.Point, m Metric) (*ptsIndex, error) {
 	if len(pts) > math.MaxInt32 {
 		return nil, fmt.Errorf("weights: %d areas is more than a graph can index", len(pts))
 	}
-	kp := make([]kdPoint, len(pts))
+	kp := make([]kdtree.Point, len(pts))
 	for i, p := range pts {
 		if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
 			return nil, fmt.Errorf("weights: area %d has no finite representative point (%v, %v)", i, p[0], p[1])
@@ -155,61 +155,51 @@ func ptsNewIndex(pts []orb.Point, m Metric) (*ptsIndex, error) {
 		if m == Geographic && !(math.Abs(p[0]) <= 180 && math.Abs(p[1]) <= 90) {
 			return nil, fmt.Errorf("weights: area %d has representative point (%v, %v), outside longitude/latitude range; use planar distances for projected layers", i, p[0], p[1])
 		}
-		kp[i].idx = int32(i)
-		kp[i].e = ptsExactData(m, p)
+		kp[i].Idx = int32(i)
+		kp[i].E = exactData(m, p)
 		if m == Planar {
-			kp[i].c = [3]float64{p[0], p[1], 0}
+			kp[i].C = [3]float64{p[0], p[1], 0}
 		} else {
-			lat, lon := p[1]*ptsRadPerDeg, p[0]*ptsRadPerDeg
+			lat, lon := p[1]*radPerDeg, p[0]*radPerDeg
 			cl := math.Cos(lat)
-			kp[i].c = [3]float64{cl * math.Cos(lon), cl * math.Sin(lon), math.Sin(lat)}
+			kp[i].C = [3]float64{cl * math.Cos(lon), cl * math.Sin(lon), math.Sin(lat)}
 		}
 	}
-	ix := &ptsIndex{m: m, geo: m == Geographic, tree: kdBuild(kp), at: make([]int32, len(pts))}
-	for p, i := range ix.tree.idx {
+	geo := m == Geographic
+	exact := func(a, b *[3]float64) float64 { return exactDistance(geo, a, b) }
+	ix := &pointIndex{m: m, geo: geo, tree: kdtree.Build(kp, exact), at: make([]int32, len(pts))}
+	for p, i := range ix.tree.Idx {
 		ix.at[i] = int32(p)
 	}
 	return ix, nil
 }
 
 // reach converts a metric distance r into the squared embedding distance
-// within which every point at metric distance ≤ r lies (with kdSlack's margin).
-func (ix *ptsIndex) reach(r float64) float64 {
+// within which every point at metric distance ≤ r lies (with kdtree.Slack's margin).
+func (ix *pointIndex) reach(r float64) float64 {
 	if !ix.geo {
-		return kdSlack(r * r)
+		return kdtree.Slack(r * r)
 	}
 	theta := r / EarthRadiusKm
 	if theta >= math.Pi {
 		return math.Inf(1)
 	}
 	c := 2 * math.Sin(theta/2)
-	return kdSlack(c * c)
+	return kdtree.Slack(c * c)
 }
 
 // nearestRows finds the k nearest other areas of every area: row i is
 // nb[i*k:(i+1)*k], nearest first, ties in distance by lower index, with the
 // distances in dist.
-func (ix *ptsIndex) nearestRows(k int) (nb []int32, dist []float64) {
-	n := ix.len()
-	nb = make([]int32, n*k)
-	dist = make([]float64, n*k)
-	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
-		s := newKdNearest(k, ix.geo)
-		for p := lo; p < hi; p++ {
-			s.reset(ix.tree, p)
-			ix.tree.nearest(s, 0, n)
-			i := int(ix.tree.idx[p])
-			s.finish(ix.tree, nb[i*k:][:k], dist[i*k:][:k])
-		}
-	})
-	return nb, dist
+func (ix *pointIndex) nearestRows(k int) (nb []int32, dist []float64) {
+	return ix.tree.NearestRows(k)
 }
 
 // NearestDistances returns, for every area, the distance under m from its
 // representative point to the nearest other one. Its largest value is the
 // smallest distance band that leaves no area without a neighbour.
 func NearestDistances(pts []orb.Point, m Metric) ([]float64, error) {
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
@@ -245,11 +235,11 @@ type NoNeighboursError struct {
 
 func (e *NoNeighboursError) Error() string {
 	return fmt.Sprintf("weights: %s gives no area a neighbour: the closest two areas are %s apart, and every area has a neighbour within %s",
-		e.Kind, ptsLength(ptsRound(e.Closest, false), e.Metric), ptsLength(ptsRound(e.Widest, true), e.Metric))
+		e.Kind, formatLength(roundSignificant(e.Closest, false), e.Metric), formatLength(roundSignificant(e.Widest, true), e.Metric))
 }
 
-// ptsNoNeighbours builds the error for a threshold that linked nothing.
-func ptsNoNeighbours(ix *ptsIndex, kind string, threshold float64) error {
+// noNeighbours builds the error for a threshold that linked nothing.
+func noNeighbours(ix *pointIndex, kind string, threshold float64) error {
 	_, d := ix.nearestRows(1)
 	e := &NoNeighboursError{Kind: kind, Threshold: threshold, Metric: ix.m, Closest: math.Inf(1)}
 	for _, v := range d {
@@ -259,34 +249,34 @@ func ptsNoNeighbours(ix *ptsIndex, kind string, threshold float64) error {
 	return e
 }
 
-// ptsCheckThreshold rejects a distance that is not a positive finite number.
-func ptsCheckThreshold(what string, d float64) error {
+// checkThreshold rejects a distance that is not a positive finite number.
+func checkThreshold(what string, d float64) error {
 	if !(d > 0) || math.IsInf(d, 1) {
 		return fmt.Errorf("weights: %s must be a positive distance, not %v", what, d)
 	}
 	return nil
 }
 
-// ptsNumber writes v for a graph's Kind: plain decimals where they are
+// formatNumber writes v for a graph's Kind: plain decimals where they are
 // short, exponent form for very large or small values.
-func ptsNumber(v float64) string {
+func formatNumber(v float64) string {
 	if a := math.Abs(v); a == 0 || (a >= 1e-4 && a < 1e15) {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
 	return strconv.FormatFloat(v, 'g', -1, 64)
 }
 
-// ptsLength writes a distance with its unit.
-func ptsLength(v float64, m Metric) string {
+// formatLength writes a distance with its unit.
+func formatLength(v float64, m Metric) string {
 	if m == Planar {
-		return ptsNumber(v) + " (layer units)"
+		return formatNumber(v) + " (layer units)"
 	}
-	return ptsNumber(v) + " km"
+	return formatNumber(v) + " km"
 }
 
-// ptsRound rounds v to four significant digits, upwards when up is set so
+// roundSignificant rounds v to four significant digits, upwards when up is set so
 // that a suggested threshold is never short of the true one.
-func ptsRound(v float64, up bool) float64 {
+func roundSignificant(v float64, up bool) float64 {
 	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
 		return v
 	}

@@ -8,6 +8,7 @@ import (
 
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/internal/parallel"
+	"github.com/areatest/areatest/weights/internal/kdtree"
 )
 
 // InverseDistance links areas with weight 1/d^power, d the distance between
@@ -27,7 +28,7 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 		return nil, fmt.Errorf("weights: the inverse-distance power must be a positive number, not %v", power)
 	}
 	if band != 0 {
-		if err := ptsCheckThreshold("the inverse-distance band", band); err != nil {
+		if err := checkThreshold("the inverse-distance band", band); err != nil {
 			return nil, fmt.Errorf("%w (or 0 for all pairs)", err)
 		}
 	}
@@ -36,67 +37,91 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 		return nil, fmt.Errorf("weights: inverse distance over all pairs of %s areas would make %s links, more than %s; give a distance band",
 			numtext.Count(int64(n)), numtext.Count(int64(n)*int64(n-1)), numtext.Count(MaxLinks))
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
-	// Each area's slot is written only by the query of that area, so the
-	// passes need no locks; the first problem in index order is reported.
-	coincident := make([]int32, n)
-	badWeight := make([]int32, n)
-	for i := range coincident {
-		coincident[i], badWeight[i] = -1, -1
-	}
-	weigh := func(i, j int32, d float64) float64 {
-		if d == 0 {
-			if c := coincident[i]; c < 0 || j < c {
-				coincident[i] = j
-			}
-			return 0
-		}
-		w := math.Pow(d, -power)
-		if w == 0 || math.IsInf(w, 1) {
-			if c := badWeight[i]; c < 0 || j < c {
-				badWeight[i] = j
-			}
-			return 0
-		}
-		return w
-	}
-	check := func() error {
-		for i := range n {
-			if j := coincident[i]; j >= 0 {
-				return &CoincidentError{A: i, B: int(j), Point: pts[i]}
-			}
-		}
-		for i := range n {
-			if j := badWeight[i]; j >= 0 {
-				d := ptsExact(ix.geo, ix.exact(int32(i)), ix.exact(j))
-				return fmt.Errorf("weights: inverse distance with power %v gives areas %d and %d, %s apart, the weight %v, beyond floating point; use a smaller power or other units",
-					power, i, j, ptsLength(d, m), math.Pow(d, -power))
-			}
-		}
-		return nil
-	}
+	iw := newInverseWeigher(ix, pts, power)
 	if band > 0 {
-		q := ptsRadiusQuery{
+		q := radiusQuery{
 			ix:     ix,
 			radius: func(int32) float64 { return band },
-			weigh:  weigh,
-			kind:   fmt.Sprintf("inverse distance (power %s, band %s)", ptsNumber(power), ptsLength(band, m)),
+			weigh:  iw.weigh,
+			kind:   fmt.Sprintf("inverse distance (power %s, band %s)", formatNumber(power), formatLength(band, m)),
 			what:   "band",
 		}
-		return q.graph("weighted", band, check)
+		return q.graph("weighted", band, iw.check)
 	}
+	return iw.allPairs()
+}
 
-	// All pairs: row i holds every other area in index order.
+// inverseWeigher computes inverse-distance weights and remembers, per area,
+// the first problem found: each area's slot is written only by the query of
+// that area, so the parallel passes need no locks, and the first problem in
+// index order is reported.
+type inverseWeigher struct {
+	ix         *pointIndex
+	pts        []orb.Point
+	power      float64
+	coincident []int32 // the lowest other area at the same point, or −1
+	badWeight  []int32 // the lowest other area whose weight overflows, or −1
+}
+
+func newInverseWeigher(ix *pointIndex, pts []orb.Point, power float64) *inverseWeigher {
+	iw := &inverseWeigher{ix: ix, pts: pts, power: power, coincident: make([]int32, len(pts)), badWeight: make([]int32, len(pts))}
+	for i := range iw.coincident {
+		iw.coincident[i], iw.badWeight[i] = -1, -1
+	}
+	return iw
+}
+
+// weigh returns the weight of the link i→j at distance d, or 0 after
+// noting a problem.
+func (iw *inverseWeigher) weigh(i, j int32, d float64) float64 {
+	if d == 0 {
+		if c := iw.coincident[i]; c < 0 || j < c {
+			iw.coincident[i] = j
+		}
+		return 0
+	}
+	w := math.Pow(d, -iw.power)
+	if w == 0 || math.IsInf(w, 1) {
+		if c := iw.badWeight[i]; c < 0 || j < c {
+			iw.badWeight[i] = j
+		}
+		return 0
+	}
+	return w
+}
+
+// check reports the first problem weigh noted: coincident points before
+// weights beyond floating point.
+func (iw *inverseWeigher) check() error {
+	for i, j := range iw.coincident {
+		if j >= 0 {
+			return &CoincidentError{A: i, B: int(j), Point: iw.pts[i]}
+		}
+	}
+	for i, j := range iw.badWeight {
+		if j >= 0 {
+			d := exactDistance(iw.ix.geo, iw.ix.exact(int32(i)), iw.ix.exact(j))
+			return fmt.Errorf("weights: inverse distance with power %v gives areas %d and %d, %s apart, the weight %v, beyond floating point; use a smaller power or other units",
+				iw.power, i, j, formatLength(d, iw.ix.m), math.Pow(d, -iw.power))
+		}
+	}
+	return nil
+}
+
+// allPairs links every pair: row i holds every other area in index order.
+func (iw *inverseWeigher) allPairs() (*Graph, error) {
+	ix, n := iw.ix, len(iw.pts)
 	offsets := make([]int32, n+1)
 	for i := range n {
 		offsets[i+1] = int32((i + 1) * (n - 1))
 	}
 	nb := make([]int32, n*(n-1))
 	w := make([]float64, n*(n-1))
-	parallel.ForRanges(n, kdBlock, 0, func(lo, hi int) {
+	parallel.ForRanges(n, kdtree.Block, 0, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			ei := ix.exact(int32(i))
 			t := i * (n - 1)
@@ -105,14 +130,14 @@ func InverseDistance(pts []orb.Point, power, band float64, m Metric) (*Graph, er
 					continue
 				}
 				nb[t] = int32(j)
-				w[t] = weigh(int32(i), int32(j), ptsExact(ix.geo, ei, ix.exact(int32(j))))
+				w[t] = iw.weigh(int32(i), int32(j), exactDistance(ix.geo, ei, ix.exact(int32(j))))
 				t++
 			}
 		}
 	})
-	if err := check(); err != nil {
+	if err := iw.check(); err != nil {
 		return nil, err
 	}
-	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", ptsNumber(power))
+	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", formatNumber(iw.power))
 	return &Graph{Kind: kind, Transform: "weighted", Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }

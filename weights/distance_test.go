@@ -11,8 +11,8 @@ import (
 	"github.com/areatest/areatest/internal/numtext"
 )
 
-// ptsRel is the relative difference of got from want.
-func ptsRel(got, want float64) float64 {
+// relErr is the relative difference of got from want.
+func relErr(got, want float64) float64 {
 	if want == 0 {
 		return math.Abs(got)
 	}
@@ -56,7 +56,7 @@ func TestGreatCircleReferenceValues(t *testing.T) {
 	}
 	for _, c := range cases {
 		got := Distance(Geographic, c.a, c.b)
-		if ptsRel(got, c.want) > c.relTol {
+		if relErr(got, c.want) > c.relTol {
 			t.Errorf("%s: %v km, want %v km (rel. tol. %g; %s)", c.name, got, c.want, c.relTol, c.source)
 		}
 	}
@@ -87,7 +87,7 @@ func TestTinyDistanceAgainstFlatEarth(t *testing.T) {
 		dlon := math.Remainder(b[0]-a[0], 360)
 		flat := R * rad * math.Hypot(dlat, math.Cos(c.lat*rad)*dlon)
 		got := Distance(Geographic, a, b)
-		if ptsRel(got, flat) > 1e-9 {
+		if relErr(got, flat) > 1e-9 {
 			t.Errorf("%v→%v: %.12g km, flat-earth %.12g km", a, b, got, flat)
 		}
 	}
@@ -107,7 +107,7 @@ func TestDistanceAgainstOrbHaversine(t *testing.T) {
 		}
 		want := geo.DistanceHaversine(a, b) / orb.EarthRadius * EarthRadiusKm
 		got := Distance(Geographic, a, b)
-		if ptsRel(got, want) > 1e-9 {
+		if relErr(got, want) > 1e-9 {
 			t.Fatalf("%v→%v: %v, orb %v", a, b, got, want)
 		}
 		if got != Distance(Geographic, b, a) {
@@ -193,8 +193,8 @@ func TestRound(t *testing.T) {
 		{0.000123456, true, 0.0001235},
 		{123456, true, 123500},
 	} {
-		if got := ptsRound(c.v, c.up); got != c.want {
-			t.Errorf("ptsRound(%v, %v) = %v, want %v", c.v, c.up, got, c.want)
+		if got := roundSignificant(c.v, c.up); got != c.want {
+			t.Errorf("roundSignificant(%v, %v) = %v, want %v", c.v, c.up, got, c.want)
 		}
 	}
 }

@@ -1,6 +1,3 @@
-// Package weights builds the neighbour graph of a layer's areas and holds it
-// in one compact sparse form (compressed rows) that every statistic reads.
-// It takes geometries, never files.
 package weights
 
 import (

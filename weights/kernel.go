@@ -3,10 +3,10 @@ package weights
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/paulmach/orb"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
 )
 
@@ -37,17 +37,11 @@ func (k KernelKind) String() string {
 	return "triangular"
 }
 
+var kernelNames = []choice.Name[KernelKind]{{Name: "triangular", Value: Triangular}, {Name: "bisquare", Value: Bisquare}, {Name: "gaussian", Value: Gaussian}}
+
 // ParseKernelKind reads "triangular", "bisquare" or "gaussian" (any case).
 func ParseKernelKind(s string) (KernelKind, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "triangular":
-		return Triangular, nil
-	case "bisquare":
-		return Bisquare, nil
-	case "gaussian":
-		return Gaussian, nil
-	}
-	return Triangular, fmt.Errorf("kernel must be triangular, bisquare or gaussian, not %q", s)
+	return choice.Parse("kernel", s, kernelNames...)
 }
 
 // value returns K(u) for u ≥ 0.
@@ -105,20 +99,20 @@ func Kernel(pts []orb.Point, kind KernelKind, bandwidth float64, adaptiveK int, 
 			return nil, fmt.Errorf("weights: an adaptive kernel over %d neighbours of %s areas would make about %s links, more than %s; choose fewer neighbours",
 				adaptiveK, numtext.Count(int64(n)), numtext.Count(int64(n)*int64(adaptiveK)), numtext.Count(MaxLinks))
 		}
-	} else if err := ptsCheckThreshold("the kernel bandwidth", bandwidth); err != nil {
+	} else if err := checkThreshold("the kernel bandwidth", bandwidth); err != nil {
 		return nil, err
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
 	if adaptiveK == 0 {
 		h := bandwidth
-		q := ptsRadiusQuery{
+		q := radiusQuery{
 			ix:     ix,
 			radius: func(int32) float64 { return h },
 			weigh:  func(_, _ int32, d float64) float64 { return kind.value(d / h) },
-			kind:   fmt.Sprintf("%s kernel (bandwidth %s)", kind, ptsLength(h, m)),
+			kind:   fmt.Sprintf("%s kernel (bandwidth %s)", kind, formatLength(h, m)),
 			what:   "bandwidth",
 		}
 		return q.graph("weighted", h, nil)
@@ -137,7 +131,7 @@ func Kernel(pts []orb.Point, kind KernelKind, bandwidth float64, adaptiveK int, 
 	if adaptiveK == 1 {
 		kindText = fmt.Sprintf("%s kernel (adaptive, 1 neighbour)", kind)
 	}
-	q := ptsRadiusQuery{
+	q := radiusQuery{
 		ix:     ix,
 		radius: func(i int32) float64 { return h[i] },
 		weigh:  func(i, _ int32, d float64) float64 { return kind.value(d / h[i]) },

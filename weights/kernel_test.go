@@ -32,7 +32,7 @@ func TestKernelFormulas(t *testing.T) {
 	}
 }
 
-func ptsKernelFormula(kind KernelKind, u float64) float64 {
+func kernelFormula(kind KernelKind, u float64) float64 {
 	switch kind {
 	case Bisquare:
 		return (1 - u*u) * (1 - u*u)
@@ -47,8 +47,8 @@ func ptsKernelFormula(kind KernelKind, u float64) float64 {
 // (from the exhaustive ranking); links run to the areas within it, with those
 // exactly at it dropped where the kernel is zero there.
 func TestKernelAgainstBruteForce(t *testing.T) {
-	pts := ptsRandomGeo(800, 21)
-	D := ptsMatrix(pts, Geographic)
+	pts := randomGeo(800, 21)
+	D := distMatrix(pts, Geographic)
 	for _, c := range []struct {
 		bandwidth float64
 		k         int
@@ -57,22 +57,22 @@ func TestKernelAgainstBruteForce(t *testing.T) {
 		if c.k > 0 {
 			bw := make([]float64, len(pts))
 			for i := range pts {
-				bw[i] = ptsBruteRanked(pts, i, c.k, Geographic)[c.k-1].d
+				bw[i] = bruteRanked(pts, i, c.k, Geographic)[c.k-1].d
 			}
 			h = func(i int) float64 { return bw[i] }
 		}
-		rows, dist := ptsBruteWithin(D, h)
+		rows, dist := bruteWithin(D, h)
 		for _, kind := range []KernelKind{Triangular, Bisquare, Gaussian} {
 			g, err := Kernel(pts, kind, c.bandwidth, c.k, Geographic)
 			if err != nil {
 				t.Fatal(err)
 			}
-			ptsCheckGraph(t, g)
+			checkGraph(t, g)
 			for i := range rows {
 				var keep []int32
 				var w []float64
 				for x, j := range rows[i] {
-					if v := ptsKernelFormula(kind, dist[i][x]/h(i)); v > 0 {
+					if v := kernelFormula(kind, dist[i][x]/h(i)); v > 0 {
 						keep = append(keep, j)
 						w = append(w, v)
 					}
@@ -95,7 +95,7 @@ func TestKernelAgainstBruteForce(t *testing.T) {
 }
 
 func TestKernelKinds(t *testing.T) {
-	pts := ptsGrid(5, orb.Point{0, 0}, 1)
+	pts := gridPoints(5, orb.Point{0, 0}, 1)
 	for _, c := range []struct {
 		kind KernelKind
 		bw   float64
@@ -127,7 +127,7 @@ func TestKernelKinds(t *testing.T) {
 }
 
 func TestKernelErrors(t *testing.T) {
-	grid := ptsGrid(4, orb.Point{0, 0}, 1)
+	grid := gridPoints(4, orb.Point{0, 0}, 1)
 	for _, c := range []struct {
 		kind KernelKind
 		bw   float64

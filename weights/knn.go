@@ -42,7 +42,7 @@ func KNearest(pts []orb.Point, k int, m Metric, symmetrise bool) (*Graph, error)
 		return nil, fmt.Errorf("weights: %d nearest neighbours of %s areas would make %s links, more than %s; choose a smaller k",
 			k, numtext.Count(int64(n)), numtext.Count(int64(n)*int64(k)), numtext.Count(MaxLinks))
 	}
-	ix, err := ptsNewIndex(pts, m)
+	ix, err := newPointIndex(pts, m)
 	if err != nil {
 		return nil, err
 	}
@@ -54,7 +54,7 @@ func KNearest(pts []orb.Point, k int, m Metric, symmetrise bool) (*Graph, error)
 	var offsets []int32
 	if symmetrise {
 		kind += " (symmetrised)"
-		offsets, nb = ptsUnion(n, k, nb)
+		offsets, nb = unionRows(n, k, nb)
 	} else {
 		offsets = make([]int32, n+1)
 		for i := range n {
@@ -69,9 +69,9 @@ func KNearest(pts []orb.Point, k int, m Metric, symmetrise bool) (*Graph, error)
 	return &Graph{Kind: kind, Transform: "binary", Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }
 
-// ptsUnion returns the rows (sorted, without repeats) of the union of the
+// unionRows returns the rows (sorted, without repeats) of the union of the
 // relation "j is in row i" (k entries per row of nb) and its transpose.
-func ptsUnion(n, k int, nb []int32) (offsets, out []int32) {
+func unionRows(n, k int, nb []int32) (offsets, out []int32) {
 	cnt := make([]int32, n+1)
 	for i := range n {
 		cnt[i+1] += int32(k)

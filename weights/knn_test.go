@@ -13,10 +13,10 @@ import (
 	"github.com/paulmach/orb"
 )
 
-// ptsRandomGeo returns n lon/lat points: most uniform on the sphere (so near
+// randomGeo returns n lon/lat points: most uniform on the sphere (so near
 // the poles too), a cluster straddling the antimeridian and one round the
 // north pole, where lon/lat searches go wrong if they are careless.
-func ptsRandomGeo(n int, seed uint64) []orb.Point {
+func randomGeo(n int, seed uint64) []orb.Point {
 	rng := rand.New(rand.NewPCG(seed, 1))
 	pts := make([]orb.Point, n)
 	for i := range pts {
@@ -36,9 +36,9 @@ func ptsRandomGeo(n int, seed uint64) []orb.Point {
 	return pts
 }
 
-// ptsRandomPlanar returns n points at projected-metre magnitudes, with
+// randomPlanar returns n points at projected-metre magnitudes, with
 // clumps so that density varies.
-func ptsRandomPlanar(n int, seed uint64) []orb.Point {
+func randomPlanar(n int, seed uint64) []orb.Point {
 	rng := rand.New(rand.NewPCG(seed, 2))
 	pts := make([]orb.Point, n)
 	for i := range pts {
@@ -51,9 +51,9 @@ func ptsRandomPlanar(n int, seed uint64) []orb.Point {
 	return pts
 }
 
-// ptsGrid returns an m×m lattice with step s from o, row by row: area r·m+c
+// gridPoints returns an m×m lattice with step s from o, row by row: area r·m+c
 // sits at (o + c·s, o + r·s).
-func ptsGrid(m int, o orb.Point, s float64) []orb.Point {
+func gridPoints(m int, o orb.Point, s float64) []orb.Point {
 	pts := make([]orb.Point, 0, m*m)
 	for r := range m {
 		for c := range m {
@@ -63,25 +63,25 @@ func ptsGrid(m int, o orb.Point, s float64) []orb.Point {
 	return pts
 }
 
-type ptsCand struct {
+type cand struct {
 	j int32
 	d float64
 }
 
-// ptsBruteRanked returns the k other areas of i that come first when all
+// bruteRanked returns the k other areas of i that come first when all
 // are ranked by (Distance, index): the definition KNearest must follow, by
 // exhaustive search.
-func ptsBruteRanked(pts []orb.Point, i, k int, m Metric) []ptsCand {
-	out := make([]ptsCand, 0, k+1)
+func bruteRanked(pts []orb.Point, i, k int, m Metric) []cand {
+	out := make([]cand, 0, k+1)
 	for j := range pts {
 		if j == i {
 			continue
 		}
-		c := ptsCand{int32(j), Distance(m, pts[i], pts[j])}
+		c := cand{int32(j), Distance(m, pts[i], pts[j])}
 		if len(out) == k && cmp.Compare(c.d, out[k-1].d) >= 0 {
 			continue // ties go to the lower index, which came first
 		}
-		at, _ := slices.BinarySearchFunc(out, c, func(a, b ptsCand) int {
+		at, _ := slices.BinarySearchFunc(out, c, func(a, b cand) int {
 			return cmp.Or(cmp.Compare(a.d, b.d), cmp.Compare(a.j, b.j))
 		})
 		out = slices.Insert(out, at, c)
@@ -92,17 +92,17 @@ func ptsBruteRanked(pts []orb.Point, i, k int, m Metric) []ptsCand {
 	return out
 }
 
-// ptsBruteTop returns the first k of every area's ranking.
-func ptsBruteTop(pts []orb.Point, k int, m Metric) [][]ptsCand {
-	top := make([][]ptsCand, len(pts))
+// bruteTop returns the first k of every area's ranking.
+func bruteTop(pts []orb.Point, k int, m Metric) [][]cand {
+	top := make([][]cand, len(pts))
 	for i := range pts {
-		top[i] = ptsBruteRanked(pts, i, k, m)
+		top[i] = bruteRanked(pts, i, k, m)
 	}
 	return top
 }
 
-// ptsTopRows cuts the rankings to k and puts each row in index order.
-func ptsTopRows(top [][]ptsCand, k int) [][]int32 {
+// topRows cuts the rankings to k and puts each row in index order.
+func topRows(top [][]cand, k int) [][]int32 {
 	rows := make([][]int32, len(top))
 	for i := range top {
 		for _, c := range top[i][:k] {
@@ -113,12 +113,12 @@ func ptsTopRows(top [][]ptsCand, k int) [][]int32 {
 	return rows
 }
 
-// ptsBruteKNN returns the k nearest of every area, each row in index order.
-func ptsBruteKNN(pts []orb.Point, k int, m Metric) [][]int32 {
-	return ptsTopRows(ptsBruteTop(pts, k, m), k)
+// bruteKNN returns the k nearest of every area, each row in index order.
+func bruteKNN(pts []orb.Point, k int, m Metric) [][]int32 {
+	return topRows(bruteTop(pts, k, m), k)
 }
 
-func ptsRows(g *Graph) [][]int32 {
+func rowsOf(g *Graph) [][]int32 {
 	rows := make([][]int32, g.Len())
 	for i := range rows {
 		nb, _ := g.Row(i)
@@ -127,7 +127,7 @@ func ptsRows(g *Graph) [][]int32 {
 	return rows
 }
 
-func ptsSameRows(t *testing.T, what string, got, want [][]int32) {
+func sameRows(t *testing.T, what string, got, want [][]int32) {
 	t.Helper()
 	if len(got) != len(want) {
 		t.Fatalf("%s: %d rows, want %d", what, len(got), len(want))
@@ -146,9 +146,9 @@ func ptsSameRows(t *testing.T, what string, got, want [][]int32) {
 	}
 }
 
-// ptsCheckGraph checks the Graph invariants: rows sorted, no self-links, no
+// checkGraph checks the Graph invariants: rows sorted, no self-links, no
 // repeats, weights positive and finite.
-func ptsCheckGraph(t *testing.T, g *Graph) {
+func checkGraph(t *testing.T, g *Graph) {
 	t.Helper()
 	for i := range g.Len() {
 		nb, w := g.Row(i)
@@ -168,17 +168,17 @@ func TestKNearestAgainstBruteForce(t *testing.T) {
 		pts  []orb.Point
 		m    Metric
 	}{
-		{"geographic", ptsRandomGeo(2000, 1), Geographic},
-		{"planar", ptsRandomPlanar(2000, 2), Planar},
+		{"geographic", randomGeo(2000, 1), Geographic},
+		{"planar", randomPlanar(2000, 2), Planar},
 	} {
-		top := ptsBruteTop(c.pts, 17, c.m)
+		top := bruteTop(c.pts, 17, c.m)
 		for _, k := range []int{1, 4, 8, 17} {
 			g, err := KNearest(c.pts, k, c.m, false)
 			if err != nil {
 				t.Fatal(err)
 			}
-			ptsCheckGraph(t, g)
-			ptsSameRows(t, fmt.Sprintf("%s k=%d", c.name, k), ptsRows(g), ptsTopRows(top, k))
+			checkGraph(t, g)
+			sameRows(t, fmt.Sprintf("%s k=%d", c.name, k), rowsOf(g), topRows(top, k))
 		}
 	}
 }
@@ -190,14 +190,14 @@ func TestKNearestAgainstBruteForce(t *testing.T) {
 // (geometry of the lattice, common knowledge; brute force agrees).
 func TestKNearestTiesOnLattice(t *testing.T) {
 	const m = 30
-	pts := ptsGrid(m, orb.Point{0, 0}, 1)
-	top := ptsBruteTop(pts, 9, Planar)
+	pts := gridPoints(m, orb.Point{0, 0}, 1)
+	top := bruteTop(pts, 9, Planar)
 	for _, k := range []int{4, 5, 6, 8, 9} {
 		g, err := KNearest(pts, k, Planar, false)
 		if err != nil {
 			t.Fatal(err)
 		}
-		ptsSameRows(t, fmt.Sprintf("lattice k=%d", k), ptsRows(g), ptsTopRows(top, k))
+		sameRows(t, fmt.Sprintf("lattice k=%d", k), rowsOf(g), topRows(top, k))
 		r, c := 10, 10
 		id := func(r, c int) int32 { return int32(r*m + c) }
 		want := []int32{id(r-1, c), id(r, c-1), id(r, c+1), id(r+1, c)}
@@ -218,19 +218,19 @@ func TestKNearestTiesOnLattice(t *testing.T) {
 	}
 	// A lon/lat lattice: east and west neighbours are equally far to the last
 	// bit (the haversine only sees Δλ²), north and south are not.
-	geo := ptsGrid(40, orb.Point{179, -1}, 0.05)
+	geo := gridPoints(40, orb.Point{179, -1}, 0.05)
 	for i := range geo {
 		if geo[i][0] > 180 {
 			geo[i][0] -= 360
 		}
 	}
-	top = ptsBruteTop(geo, 5, Geographic)
+	top = bruteTop(geo, 5, Geographic)
 	for _, k := range []int{1, 3, 5} {
 		g, err := KNearest(geo, k, Geographic, false)
 		if err != nil {
 			t.Fatal(err)
 		}
-		ptsSameRows(t, fmt.Sprintf("lon/lat lattice k=%d", k), ptsRows(g), ptsTopRows(top, k))
+		sameRows(t, fmt.Sprintf("lon/lat lattice k=%d", k), rowsOf(g), topRows(top, k))
 	}
 	// Points piled in a few places: whole piles tie at distance zero, and
 	// the search must stay fast.
@@ -242,13 +242,13 @@ func TestKNearestTiesOnLattice(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ptsSameRows(t, "coincident points", ptsRows(g), ptsBruteKNN(same, 3, Planar))
+	sameRows(t, "coincident points", rowsOf(g), bruteKNN(same, 3, Planar))
 }
 
 // The symmetrised graph is the union of the plain one and its transpose:
 // symmetric, containing every plain link, and nothing else.
 func TestKNearestSymmetrised(t *testing.T) {
-	pts := ptsRandomGeo(2000, 3)
+	pts := randomGeo(2000, 3)
 	plain, err := KNearest(pts, 6, Geographic, false)
 	if err != nil {
 		t.Fatal(err)
@@ -257,7 +257,7 @@ func TestKNearestSymmetrised(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ptsCheckGraph(t, sym)
+	checkGraph(t, sym)
 	want := make([]map[int32]bool, len(pts))
 	for i := range want {
 		want[i] = map[int32]bool{}
@@ -276,7 +276,7 @@ func TestKNearestSymmetrised(t *testing.T) {
 		}
 		slices.Sort(wantRows[i])
 	}
-	ptsSameRows(t, "symmetrised", ptsRows(sym), wantRows)
+	sameRows(t, "symmetrised", rowsOf(sym), wantRows)
 	if sym.Kind != "6 nearest neighbours (symmetrised)" || plain.Kind != "6 nearest neighbours" || sym.Transform != "binary" {
 		t.Errorf("kinds %q, %q, transform %q", plain.Kind, sym.Kind, sym.Transform)
 	}
@@ -284,7 +284,7 @@ func TestKNearestSymmetrised(t *testing.T) {
 
 // Results must not depend on the number of workers.
 func TestKNearestWorkersDoNotMatter(t *testing.T) {
-	pts := ptsRandomPlanar(5000, 4)
+	pts := randomPlanar(5000, 4)
 	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(1))
 	one, err := KNearest(pts, 5, Planar, true)
 	if err != nil {
@@ -301,7 +301,7 @@ func TestKNearestWorkersDoNotMatter(t *testing.T) {
 }
 
 func TestKNearestErrors(t *testing.T) {
-	pts := ptsGrid(3, orb.Point{0, 0}, 1)
+	pts := gridPoints(3, orb.Point{0, 0}, 1)
 	for _, c := range []struct {
 		k    int
 		want string
@@ -329,21 +329,21 @@ func TestKNearestErrors(t *testing.T) {
 
 // NearestDistances against exhaustive search.
 func TestNearestDistances(t *testing.T) {
-	pts := ptsRandomGeo(1000, 5)
+	pts := randomGeo(1000, 5)
 	d, err := NearestDistances(pts, Geographic)
 	if err != nil {
 		t.Fatal(err)
 	}
 	for i := range pts {
-		if want := ptsBruteRanked(pts, i, 1, Geographic)[0].d; d[i] != want {
+		if want := bruteRanked(pts, i, 1, Geographic)[0].d; d[i] != want {
 			t.Fatalf("area %d: %v, want %v", i, d[i], want)
 		}
 	}
 }
 
-// ptsBenchPoints are uniform random lon/lat points in a box the size of a
+// benchPoints are uniform random lon/lat points in a box the size of a
 // large country (fixed seed).
-func ptsBenchPoints(n int) []orb.Point {
+func benchPoints(n int) []orb.Point {
 	rng := rand.New(rand.NewPCG(42, 42))
 	pts := make([]orb.Point, n)
 	for i := range pts {
@@ -353,7 +353,7 @@ func ptsBenchPoints(n int) []orb.Point {
 }
 
 func benchKNearest(b *testing.B, n int) {
-	pts := ptsBenchPoints(n)
+	pts := benchPoints(n)
 	b.ResetTimer()
 	for b.Loop() {
 		if _, err := KNearest(pts, 8, Geographic, false); err != nil {
@@ -366,7 +366,7 @@ func BenchmarkKNearest8_62500(b *testing.B)  { benchKNearest(b, 62500) }
 func BenchmarkKNearest8_250000(b *testing.B) { benchKNearest(b, 250000) }
 
 func BenchmarkKNearest8Planar_250000(b *testing.B) {
-	pts := ptsRandomPlanar(250000, 9)
+	pts := randomPlanar(250000, 9)
 	b.ResetTimer()
 	for b.Loop() {
 		if _, err := KNearest(pts, 8, Planar, true); err != nil {

@@ -2,6 +2,8 @@ package weights
 
 import (
 	"errors"
+	"fmt"
+	"io"
 
 	"github.com/paulmach/orb"
 )
@@ -81,12 +83,29 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, e
 			return nil, nil, err
 		}
 	}
-	if s.Order > 1 {
-		if g, err = g.HigherOrder(s.Order, s.Cumulative); err != nil {
-			return nil, warnings, err
-		}
+	if g, err = s.orders(g); err != nil {
+		return nil, warnings, err
 	}
 	return g, warnings, nil
+}
+
+// ReadEdgeList reads a graph from an edge list (see the package function
+// ReadEdgeList) and applies the spec's order to it, as Build does to the
+// graphs it makes; the spec's rule is not used.
+func (s Spec) ReadEdgeList(r io.Reader, source string, ids []string) (*Graph, error) {
+	g, err := ReadEdgeList(r, source, ids)
+	if err != nil {
+		return nil, err
+	}
+	return s.orders(g)
+}
+
+// orders replaces g by its neighbours of the spec's order, when above 1.
+func (s Spec) orders(g *Graph) (*Graph, error) {
+	if s.Order > 1 {
+		return g.HigherOrder(s.Order, s.Cumulative)
+	}
+	return g, nil
 }
 
 // Locate returns the representative point of each area and the metric
@@ -123,6 +142,28 @@ func (s Spec) Units(geoms []orb.MultiPolygon) string {
 		return "km"
 	}
 	return "layer units"
+}
+
+// Describe says in words how the spec's rule measures contact or distance
+// on a layer, for reports: the snap distance of contiguity (the default one
+// when Snap is 0), or the distances and points of the point-based rules.
+func (s Spec) Describe(geoms []orb.MultiPolygon) string {
+	if s.PointBased() {
+		metric := "great-circle distances in km"
+		if s.Units(geoms) != "km" {
+			metric = "planar distances in layer units"
+		}
+		return metric + " between " + s.Points.String() + " points of the areas"
+	}
+	snap, note := s.Snap, ""
+	if snap == 0 {
+		snap, note = DefaultSnap(geoms), ", the default for these coordinates"
+	}
+	units := "layer units"
+	if DetectMetric(geoms) == Geographic {
+		units = "degrees"
+	}
+	return fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, units, note)
 }
 
 // Restricted is a graph cut down to the areas a statistic uses.

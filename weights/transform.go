@@ -3,6 +3,8 @@ package weights
 import (
 	"fmt"
 	"math"
+
+	"github.com/areatest/areatest/internal/choice"
 )
 
 // Transform names a re-weighting of a graph's links.
@@ -22,17 +24,33 @@ const (
 	VarianceStabilising Transform = "variance-stabilising"
 )
 
-// ParseTransform reads "row", "binary" or "variance".
+// The names of the transforms: ParseTransform's former ones, the full names
+// (the Transform values) it reads without listing them, and ParseScaling's.
+var (
+	transformNames = []choice.Name[Transform]{{Name: "row", Value: RowStandardised}, {Name: "binary", Value: Binary}, {Name: "variance", Value: VarianceStabilising}}
+	transformFull  = []choice.Name[Transform]{{Name: string(RowStandardised), Value: RowStandardised}, {Name: string(VarianceStabilising), Value: VarianceStabilising}}
+	scalingNames   = []choice.Name[Transform]{{Name: "row", Value: RowStandardised}, {Name: "none", Value: Binary}, {Name: "stabilised", Value: VarianceStabilising}}
+)
+
+// ParseTransform reads the former names "row", "binary" or "variance", or
+// a transform's full name such as "row-standardised" (any case). New
+// callers read ParseScaling's names.
 func ParseTransform(s string) (Transform, error) {
-	switch s {
-	case "row", "row-standardised":
-		return RowStandardised, nil
-	case "binary":
-		return Binary, nil
-	case "variance", "variance-stabilising":
-		return VarianceStabilising, nil
+	t, err := choice.Parse("transform", s, transformNames...)
+	if err != nil {
+		if full, errFull := choice.Parse("transform", s, transformFull...); errFull == nil {
+			return full, nil
+		}
 	}
-	return "", fmt.Errorf("transform must be row, binary or variance, not %q", s)
+	return t, err
+}
+
+// ParseScaling reads the scaling of the weights (any case): "row" for
+// RowStandardised, "none" for Binary (every link weight one, the weights as
+// contiguity, nearest neighbours and distance bands build them) and
+// "stabilised" for VarianceStabilising.
+func ParseScaling(s string) (Transform, error) {
+	return choice.Parse("scaling", s, scalingNames...)
 }
 
 // Transformed returns a copy of g with the transform applied. Islands keep

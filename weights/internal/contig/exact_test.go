@@ -1,4 +1,4 @@
-package weights
+package contig
 
 import (
 	"slices"
@@ -6,12 +6,12 @@ import (
 	"github.com/paulmach/orb"
 )
 
-// contigExact is the former exact-coordinate contiguity, kept as a reference
+// exactPairs is the former exact-coordinate contiguity, kept as a reference
 // for layers whose shared borders are bit-identical on both sides (built from
 // one topology): there, a shared vertex is a queen contact and a shared pair
 // of consecutive vertices a rook contact, with no tolerance needed, so the
-// robust search must give the same graph.
-func contigExact(geoms []orb.MultiPolygon, rule Contiguity) *Graph {
+// robust search must give the same pairs.
+func exactPairs(geoms []orb.MultiPolygon, rook bool) [][2]int32 {
 	type occ struct {
 		p, q orb.Point
 		area int32
@@ -22,7 +22,7 @@ func contigExact(geoms []orb.MultiPolygon, rule Contiguity) *Graph {
 			for _, ring := range poly {
 				for k := 0; k+1 < len(ring); k++ {
 					p, q := ring[k], ring[k+1]
-					if rule == Queen {
+					if !rook {
 						occs = append(occs, occ{p, p, int32(a)})
 						continue
 					}
@@ -76,9 +76,8 @@ func contigExact(geoms []orb.MultiPolygon, rule Contiguity) *Graph {
 		}
 		s = e
 	}
-	g, err := FromLinks(len(geoms), pairs, rule.String()+" contiguity")
-	if err != nil {
-		panic(err)
-	}
-	return g
+	// Areas come in order within each group of occurrences, so every pair
+	// is (lower, higher) already.
+	slices.SortFunc(pairs, cmpPair)
+	return slices.Compact(pairs)
 }

@@ -1,4 +1,4 @@
-package weights
+package contig
 
 import (
 	"fmt"
@@ -6,7 +6,8 @@ import (
 	"math/bits"
 	"runtime"
 	"slices"
-	"sync"
+
+	"github.com/areatest/areatest/internal/parallel"
 )
 
 // The neighbour search puts every boundary segment into the cells of a
@@ -28,14 +29,14 @@ import (
 // pairs; only a small table of area pairs found lately spares the repeated
 // tests along one border.
 
-// contigGrid maps coordinates to cells.
-type contigGrid struct {
+// grid maps coordinates to cells.
+type grid struct {
 	x0, y0 float64 // lower-left corner of cell (0, 0)
 	inv    float64 // 1 / cell size
 	nx, ny int64
 }
 
-func (g *contigGrid) col(x float64) int64 {
+func (g *grid) col(x float64) int64 {
 	f := (x - g.x0) * g.inv
 	if !(f > 0) {
 		return 0
@@ -46,7 +47,7 @@ func (g *contigGrid) col(x float64) int64 {
 	return int64(f)
 }
 
-func (g *contigGrid) row(y float64) int64 {
+func (g *grid) row(y float64) int64 {
 	f := (y - g.y0) * g.inv
 	if !(f > 0) {
 		return 0
@@ -57,21 +58,21 @@ func (g *contigGrid) row(y float64) int64 {
 	return int64(f)
 }
 
-func (g *contigGrid) cell(x, y float64) uint64 { return uint64(g.row(y)*g.nx + g.col(x)) }
+func (g *grid) cell(x, y float64) uint64 { return uint64(g.row(y)*g.nx + g.col(x)) }
 
-// contigPieces records how the segments are cut: seg[p] is the segment of
-// piece p (and contigSeg.first the first piece of each segment).
-type contigPieces struct {
+// pieceTable records how the segments are cut: seg[p] is the segment of
+// piece p (and segment.first the first piece of each segment).
+type pieceTable struct {
 	seg []int32
 }
 
 // pieces returns the number of pieces of the segment at vertex v.
-func (l *contigLayer) pieces(v int32) int32 { return l.seg[v+1].first - l.seg[v].first }
+func (l *layer) pieces(v int32) int32 { return l.seg[v+1].first - l.seg[v].first }
 
 // pieceBox returns the bounding box of piece p (0-based within its segment)
 // of the segment starting at vertex v, cut into k pieces. Neighbouring
 // pieces share their cut point, computed the same way every time.
-func (l *contigLayer) pieceBox(v, p, k int32) (minx, miny, maxx, maxy float64) {
+func (l *layer) pieceBox(v, p, k int32) (minx, miny, maxx, maxy float64) {
 	s := l.pts[v : v+2 : v+2]
 	ax, ay, bx, by := s[0][0], s[0][1], s[1][0], s[1][1]
 	if k > 1 {
@@ -91,7 +92,7 @@ func (l *contigLayer) pieceBox(v, p, k int32) (minx, miny, maxx, maxy float64) {
 
 // segMedian returns the median length of the layer's segments, from an
 // evenly spaced sample.
-func (l *contigLayer) segMedian(nseg int) float64 {
+func (l *layer) segMedian(nseg int) float64 {
 	stride := max(1, nseg/65536)
 	sample := make([]float64, 0, min(nseg, 65536)+1)
 	var k int
@@ -108,9 +109,9 @@ func (l *contigLayer) segMedian(nseg int) float64 {
 	return sample[len(sample)/2]
 }
 
-// contigMaxPieces bounds the number of pieces (they are numbered in 32 bits
+// maxPieces bounds the number of pieces (they are numbered in 32 bits
 // with room to spare).
-const contigMaxPieces = 1 << 31
+const maxPieces = 1 << 31
 
 // layout chooses the grid and cuts the segments. The cell size starts at 1.5
 // times the median segment length — a typical segment then touches two or
@@ -118,9 +119,9 @@ const contigMaxPieces = 1 << 31
 // listing memberships and of testing pairs within cells balance (measured
 // on the demo generator's regions) — and doubles while the grid would have
 // 2³² cells or more (cell numbers are 32 bits) or the segments more than
-// contigMaxPieces pieces, which only happens for layers whose extent dwarfs
+// maxPieces pieces, which only happens for layers whose extent dwarfs
 // their segments.
-func (l *contigLayer) layout(nseg int, snap float64) (contigGrid, contigPieces, error) {
+func (l *layer) layout(nseg int, snap float64) (grid, pieceTable, error) {
 	cs := max(1.5*l.segMedian(nseg), 4*snap)
 	w, h := l.b.maxx-l.b.minx+2*snap, l.b.maxy-l.b.miny+2*snap
 	if !(cs > 0) {
@@ -129,7 +130,7 @@ func (l *contigLayer) layout(nseg int, snap float64) (contigGrid, contigPieces, 
 	for {
 		nx, ny := math.Floor(w/cs)+1, math.Floor(h/cs)+1
 		if nx*ny < 1<<32 {
-			g := contigGrid{x0: l.b.minx - snap, y0: l.b.miny - snap, inv: 1 / cs, nx: int64(nx), ny: int64(ny)}
+			g := grid{x0: l.b.minx - snap, y0: l.b.miny - snap, inv: 1 / cs, nx: int64(nx), ny: int64(ny)}
 			ps, ok := l.cut(cs)
 			if ok {
 				return g, ps, nil
@@ -137,14 +138,14 @@ func (l *contigLayer) layout(nseg int, snap float64) (contigGrid, contigPieces, 
 		}
 		cs *= 2
 		if math.IsInf(cs, 0) {
-			return contigGrid{}, contigPieces{}, fmt.Errorf("weights: the boundaries span too far to index (%g by %g)", w, h)
+			return grid{}, pieceTable{}, fmt.Errorf("weights: the boundaries span too far to index (%g by %g)", w, h)
 		}
 	}
 }
 
 // cut splits each segment into pieces at most cs wide and high; ok is false
 // when there would be too many.
-func (l *contigLayer) cut(cs float64) (contigPieces, bool) {
+func (l *layer) cut(cs float64) (pieceTable, bool) {
 	var n int64
 	for v := range l.seg {
 		l.seg[v].first = int32(n)
@@ -154,8 +155,8 @@ func (l *contigLayer) cut(cs float64) (contigPieces, bool) {
 		side := max(math.Abs(l.pts[v+1][0]-l.pts[v][0]), math.Abs(l.pts[v+1][1]-l.pts[v][1]))
 		k := max(1, int64(math.Ceil(side/cs)))
 		n += k
-		if n > contigMaxPieces {
-			return contigPieces{}, false
+		if n > maxPieces {
+			return pieceTable{}, false
 		}
 	}
 	seg := make([]int32, n)
@@ -164,12 +165,12 @@ func (l *contigLayer) cut(cs float64) (contigPieces, bool) {
 			seg[p] = int32(v)
 		}
 	}
-	return contigPieces{seg: seg}, true
+	return pieceTable{seg: seg}, true
 }
 
 // members lists every (cell, piece) membership as cell<<32 | piece, grouped
 // by cell and, within a cell, in piece order.
-func (l *contigLayer) members(g *contigGrid, snap float64) []uint64 {
+func (l *layer) members(g *grid, snap float64) []uint64 {
 	var n int
 	l.eachPieceCells(g, snap, func(p int32, c0, c1, r0, r1 int64) {
 		n += int((c1 - c0 + 1) * (r1 - r0 + 1))
@@ -184,13 +185,13 @@ func (l *contigLayer) members(g *contigGrid, snap float64) []uint64 {
 	})
 	// Pieces were appended in order, so a stable sort on the cell bits
 	// alone leaves each cell's members in piece order.
-	contigRadixHigh(keys, bits.Len64(uint64(g.nx*g.ny-1)))
+	radixHigh(keys, bits.Len64(uint64(g.nx*g.ny-1)))
 	return keys
 }
 
 // eachPieceCells calls f with the range of cell columns and rows that each
 // piece's box, grown by snap, overlaps, pieces in order.
-func (l *contigLayer) eachPieceCells(g *contigGrid, snap float64, f func(p int32, c0, c1, r0, r1 int64)) {
+func (l *layer) eachPieceCells(g *grid, snap float64, f func(p int32, c0, c1, r0, r1 int64)) {
 	for v := 0; v+1 < len(l.seg); v++ {
 		if l.seg[v].area < 0 {
 			continue
@@ -203,11 +204,11 @@ func (l *contigLayer) eachPieceCells(g *contigGrid, snap float64, f func(p int32
 	}
 }
 
-// contigRadixHigh sorts keys stably by their top bits (bits 32 to
+// radixHigh sorts keys stably by their top bits (bits 32 to
 // 32+nbits-1), in as few passes of at most 11 bits as cover them: narrow
 // digits keep the scatter of each pass within a few thousand write
 // positions, which caches follow far better than 65,536.
-func contigRadixHigh(keys []uint64, nbits int) {
+func radixHigh(keys []uint64, nbits int) {
 	if len(keys) < 2 || nbits == 0 {
 		return
 	}
@@ -239,41 +240,41 @@ func contigRadixHigh(keys []uint64, nbits int) {
 	}
 }
 
-// contigCrossing is a point where a ring meets itself; proper when two
+// crossing is a point where a ring meets itself; proper when two
 // sides cross rather than touch.
-type contigCrossing struct {
+type crossing struct {
 	ring   int32
 	proper bool
 	x, y   float64
 }
 
-// contigMaybePair is a contact found through a ring that may be a sliver
+// maybePair is a contact found through a ring that may be a sliver
 // (ringMaybe): it counts only if ring a, and ring b when not -1, turn out to
 // cross themselves.
-type contigMaybePair struct {
+type maybePair struct {
 	a, b int32
 	key  uint64
 }
 
-// contigMember is a piece as a cell's sweep sees it.
-type contigMember struct {
+// member is a piece as a cell's sweep sees it.
+type member struct {
 	minx, miny, maxx, maxy float64
 	seg, area, ring        int32
 	maybe                  bool
 }
 
-// contigFound is what the search finds: area pairs as lo<<32 | hi (sorted,
+// findings is what the search finds: area pairs as lo<<32 | hi (sorted,
 // without repeats), contacts that depend on candidate slivers, and the
 // points where rings meet themselves in a fixed order.
-type contigFound struct {
+type findings struct {
 	pairs     []uint64
-	maybe     []contigMaybePair
-	crossings []contigCrossing
+	maybe     []maybePair
+	crossings []crossing
 }
 
-// search finds the neighbour pairs under rule and the points where rings
-// meet themselves.
-func (l *contigLayer) search(rule Contiguity, snap float64) (contigFound, error) {
+// search finds the neighbour pairs (under the rook rule when rook is set,
+// else queen) and the points where rings meet themselves.
+func (l *layer) search(rook bool, snap float64) (findings, error) {
 	var nseg int
 	for _, sg := range l.seg {
 		if sg.area >= 0 {
@@ -281,44 +282,29 @@ func (l *contigLayer) search(rule Contiguity, snap float64) (contigFound, error)
 		}
 	}
 	if nseg == 0 {
-		return contigFound{}, nil
+		return findings{}, nil
 	}
 	g, ps, err := l.layout(nseg, snap)
 	if err != nil {
-		return contigFound{}, err
+		return findings{}, err
 	}
 	keys := l.members(&g, snap)
 
-	// Split the sorted members into one contiguous stretch of whole cells
-	// per worker. Results are concatenated in stretch order, which is the
-	// order a single worker would produce, so the outcome does not depend on
-	// the number of workers.
-	workers := min(runtime.GOMAXPROCS(0), 8)
-	if len(keys) < 1<<14 {
-		workers = 1
-	}
-	cuts := make([]int, workers+1)
-	for w := 1; w < workers; w++ {
-		c := max(len(keys)*w/workers, cuts[w-1])
-		for c > 0 && c < len(keys) && keys[c]>>32 == keys[c-1]>>32 {
-			c++
+	// Split the sorted members into contiguous stretches of whole cells, one
+	// block each, every block writing its own result slot. Results are
+	// concatenated in stretch order, which is the order a single sweep
+	// would produce, so the outcome does not depend on the number of
+	// stretches or of workers.
+	cuts := stretches(keys, min(runtime.GOMAXPROCS(0), 8))
+	res := make([]findings, len(cuts)-1)
+	parallel.ForBlocks(len(res), len(res), func() func(int) {
+		return func(b int) {
+			sw := sweeper{l: l, g: &g, ps: &ps, rook: rook, snap: snap}
+			sw.run(keys[cuts[b]:cuts[b+1]])
+			res[b] = sw.found
 		}
-		cuts[w] = c
-	}
-	cuts[workers] = len(keys)
-	res := make([]contigFound, workers)
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			sw := contigSweeper{l: l, g: &g, ps: &ps, rule: rule, snap: snap}
-			sw.run(keys[cuts[w]:cuts[w+1]])
-			res[w] = sw.found
-		}()
-	}
-	wg.Wait()
-	var all contigFound
+	})
+	var all findings
 	for _, r := range res {
 		all.pairs = append(all.pairs, r.pairs...)
 		all.maybe = append(all.maybe, r.maybe...)
@@ -329,9 +315,28 @@ func (l *contigLayer) search(rule Contiguity, snap float64) (contigFound, error)
 	return all, nil
 }
 
+// stretches cuts the sorted members into n stretches of about equal length
+// that never split a cell (one stretch when there are few members), and
+// returns the n+1 boundaries.
+func stretches(keys []uint64, n int) []int {
+	if len(keys) < 1<<14 {
+		n = 1
+	}
+	cuts := make([]int, n+1)
+	for w := 1; w < n; w++ {
+		c := max(len(keys)*w/n, cuts[w-1])
+		for c > 0 && c < len(keys) && keys[c]>>32 == keys[c-1]>>32 {
+			c++
+		}
+		cuts[w] = c
+	}
+	cuts[n] = len(keys)
+	return cuts
+}
+
 // links turns the found pairs into FromLinks input, adding the contacts of
 // candidate slivers that crossed themselves.
-func (f *contigFound) links(crossed []bool) [][2]int32 {
+func (f *findings) links(crossed []bool) [][2]int32 {
 	keys := f.pairs
 	if len(f.maybe) > 0 {
 		keys = slices.Clone(keys)
@@ -350,23 +355,23 @@ func (f *contigFound) links(crossed []bool) [][2]int32 {
 	return pairs
 }
 
-// contigSweeper tests the members of a run of cells.
-type contigSweeper struct {
-	l    *contigLayer
-	g    *contigGrid
-	ps   *contigPieces
-	rule Contiguity
+// sweeper tests the members of a run of cells.
+type sweeper struct {
+	l    *layer
+	g    *grid
+	ps   *pieceTable
+	rook bool
 	snap float64
 
-	found contigFound
-	cell  []contigMember
+	found findings
+	cell  []member
 	// recent holds area pairs found lately, so that a border seen by many
 	// pairs of sides is recorded and tested about once; a stale entry only
 	// costs a repeated test.
 	recent [1 << 12]uint64
 }
 
-func (sw *contigSweeper) run(keys []uint64) {
+func (sw *sweeper) run(keys []uint64) {
 	for start := 0; start < len(keys); {
 		c := keys[start] >> 32
 		end := start + 1
@@ -380,7 +385,7 @@ func (sw *contigSweeper) run(keys []uint64) {
 	}
 }
 
-func (sw *contigSweeper) sweepCell(c uint64, keys []uint64) {
+func (sw *sweeper) sweepCell(c uint64, keys []uint64) {
 	l, ps := sw.l, sw.ps
 	sw.cell = sw.cell[:0]
 	for _, k := range keys {
@@ -388,7 +393,7 @@ func (sw *contigSweeper) sweepCell(c uint64, keys []uint64) {
 		v := ps.seg[p]
 		sg := l.seg[v]
 		minx, miny, maxx, maxy := l.pieceBox(v, p-sg.first, l.seg[v+1].first-sg.first)
-		sw.cell = append(sw.cell, contigMember{minx, miny, maxx, maxy, v, sg.area, sg.ring, l.ringMaybe[sg.ring]})
+		sw.cell = append(sw.cell, member{minx, miny, maxx, maxy, v, sg.area, sg.ring, l.ringMaybe[sg.ring]})
 	}
 	snap := sw.snap
 	snap2 := snap * snap
@@ -422,7 +427,7 @@ func (sw *contigSweeper) sweepCell(c uint64, keys []uint64) {
 			ax, ay, bx, by := l.pts[u][0], l.pts[u][1], l.pts[u+1][0], l.pts[u+1][1]
 			cx, cy, dx, dy := l.pts[v][0], l.pts[v][1], l.pts[v+1][0], l.pts[v+1][1]
 			var hit bool
-			if sw.rule == Queen {
+			if !sw.rook {
 				hit = segNear(ax, ay, bx, by, cx, cy, dx, dy, snap2)
 			} else {
 				hit = segShared(ax, ay, bx, by, cx, cy, dx, dy, snap) > minShared
@@ -430,7 +435,7 @@ func (sw *contigSweeper) sweepCell(c uint64, keys []uint64) {
 			switch {
 			case !hit:
 			case a.maybe || b.maybe:
-				m := contigMaybePair{a.ring, -1, key}
+				m := maybePair{a.ring, -1, key}
 				if !a.maybe {
 					m.a = b.ring
 				} else if b.maybe {
@@ -447,7 +452,7 @@ func (sw *contigSweeper) sweepCell(c uint64, keys []uint64) {
 
 // selfCheck records where two sides of one ring meet, unless they are
 // consecutive (and so share a vertex by construction).
-func (sw *contigSweeper) selfCheck(u, v, ring int32) {
+func (sw *sweeper) selfCheck(u, v, ring int32) {
 	l := sw.l
 	start, end := l.ringStart[ring], l.ringStart[ring+1]
 	n := end - start - 1 // sides of the ring
@@ -461,12 +466,12 @@ func (sw *contigSweeper) selfCheck(u, v, ring int32) {
 	p, q := l.pts[u:u+2], l.pts[v:v+2]
 	ok, proper, x, y := segMeet(p[0][0], p[0][1], p[1][0], p[1][1], q[0][0], q[0][1], q[1][0], q[1][1])
 	if ok {
-		sw.found.crossings = append(sw.found.crossings, contigCrossing{ring, proper, x, y})
+		sw.found.crossings = append(sw.found.crossings, crossing{ring, proper, x, y})
 	}
 }
 
 // crossed marks the rings that properly cross themselves.
-func (l *contigLayer) crossed(cs []contigCrossing) []bool {
+func (l *layer) crossed(cs []crossing) []bool {
 	out := make([]bool, len(l.ringPart))
 	for _, c := range cs {
 		if c.proper {
@@ -480,20 +485,20 @@ func (l *contigLayer) crossed(cs []contigCrossing) []bool {
 // naming the first ring and point found (the order is that of the sorted
 // cells, so it is fixed by the input). Rings left out as slivers are not
 // named again.
-func (l *contigLayer) crossingWarnings(cs []contigCrossing, crossed []bool, names contigNamer) []string {
+func (l *layer) crossingWarnings(cs []crossing, crossed []bool, names namer) []string {
 	if len(cs) == 0 {
 		return nil
 	}
-	areaOf := func(c contigCrossing) int32 { return l.seg[l.ringStart[c.ring]].area }
-	cs = slices.DeleteFunc(cs, func(c contigCrossing) bool { return l.ringMaybe[c.ring] && !crossed[c.ring] })
-	slices.SortStableFunc(cs, func(a, b contigCrossing) int { return int(areaOf(a)) - int(areaOf(b)) })
-	var w contigWarnings
+	areaOf := func(c crossing) int32 { return l.seg[l.ringStart[c.ring]].area }
+	cs = slices.DeleteFunc(cs, func(c crossing) bool { return l.ringMaybe[c.ring] && !crossed[c.ring] })
+	slices.SortStableFunc(cs, func(a, b crossing) int { return int(areaOf(a)) - int(areaOf(b)) })
+	var w warningList
 	for k, c := range cs {
 		if k > 0 && areaOf(cs[k-1]) == areaOf(c) {
 			continue
 		}
 		w.add(fmt.Sprintf("weights: %s: %s crosses or touches itself near (%v, %v); its sides are still used to find neighbours",
-			names.area(int(areaOf(c))), contigRingName(int(l.ringPart[c.ring]), int(l.ringHole[c.ring])), c.x, c.y))
+			names.area(int(areaOf(c))), ringName(int(l.ringPart[c.ring]), int(l.ringHole[c.ring])), c.x, c.y))
 	}
 	return w.out("have rings that cross or touch themselves")
 }

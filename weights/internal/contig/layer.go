@@ -1,4 +1,4 @@
-package weights
+package contig
 
 import (
 	"fmt"
@@ -8,17 +8,17 @@ import (
 	"github.com/paulmach/orb"
 )
 
-// contigBounds is a bounding box grown point by point.
-type contigBounds struct{ minx, miny, maxx, maxy float64 }
+// bounds is a bounding box grown point by point.
+type bounds struct{ minx, miny, maxx, maxy float64 }
 
-func (b *contigBounds) reset() {
+func (b *bounds) reset() {
 	b.minx, b.miny = math.Inf(1), math.Inf(1)
 	b.maxx, b.maxy = math.Inf(-1), math.Inf(-1)
 }
 
 // add takes a point in; non-finite coordinates are ignored (they are
 // reported elsewhere).
-func (b *contigBounds) add(x, y float64) {
+func (b *bounds) add(x, y float64) {
 	if math.IsNaN(x) || math.IsNaN(y) || math.IsInf(x, 0) || math.IsInf(y, 0) {
 		return
 	}
@@ -28,34 +28,34 @@ func (b *contigBounds) add(x, y float64) {
 	b.maxy = max(b.maxy, y)
 }
 
-func (b *contigBounds) ok() bool { return b.minx <= b.maxx }
+func (b *bounds) ok() bool { return b.minx <= b.maxx }
 
-// contigNamer names areas in messages: by id when ids were given, by 0-based
+// namer names areas in messages: by id when ids were given, by 0-based
 // index otherwise.
-type contigNamer struct{ ids []string }
+type namer struct{ ids []string }
 
-func (n contigNamer) area(i int) string {
+func (n namer) area(i int) string {
 	if n.ids != nil {
 		return fmt.Sprintf("area %q", n.ids[i])
 	}
 	return fmt.Sprintf("area index %d", i)
 }
 
-// contigRingName says which ring of an area is meant, in the words a reader
+// ringName says which ring of an area is meant, in the words a reader
 // of the file would use: parts and holes counted from 1.
-func contigRingName(part, k int) string {
+func ringName(part, k int) string {
 	if k == 0 {
 		return fmt.Sprintf("the outer ring of part %d", part+1)
 	}
 	return fmt.Sprintf("hole %d of part %d", k, part+1)
 }
 
-// contigCheck finds the geometry errors that make contiguity meaningless —
+// check finds the geometry errors that make contiguity meaningless —
 // missing parts, rings or positions, unclosed rings, non-finite coordinates
 // — and returns the bounds of all positions. The first error in area order
 // is returned, so the message does not depend on anything but the input.
-func contigCheck(geoms []orb.MultiPolygon, names contigNamer) (contigBounds, error) {
-	var b contigBounds
+func check(geoms []orb.MultiPolygon, names namer) (bounds, error) {
+	var b bounds
 	b.reset()
 	for a, mp := range geoms {
 		if len(mp) == 0 {
@@ -67,18 +67,18 @@ func contigCheck(geoms []orb.MultiPolygon, names contigNamer) (contigBounds, err
 			}
 			for k, ring := range poly {
 				if len(ring) == 0 {
-					return b, fmt.Errorf("weights: %s: %s has no positions", names.area(a), contigRingName(part, k))
+					return b, fmt.Errorf("weights: %s: %s has no positions", names.area(a), ringName(part, k))
 				}
 				for v, p := range ring {
 					if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
 						return b, fmt.Errorf("weights: %s: position %d of %s is not a finite number: (%v, %v)",
-							names.area(a), v+1, contigRingName(part, k), p[0], p[1])
+							names.area(a), v+1, ringName(part, k), p[0], p[1])
 					}
 					b.add(p[0], p[1])
 				}
 				if first, last := ring[0], ring[len(ring)-1]; first != last {
 					return b, fmt.Errorf("weights: %s: %s is not closed: it starts at (%v, %v) and ends at (%v, %v)",
-						names.area(a), contigRingName(part, k), first[0], first[1], last[0], last[1])
+						names.area(a), ringName(part, k), first[0], first[1], last[0], last[1])
 				}
 			}
 		}
@@ -86,11 +86,11 @@ func contigCheck(geoms []orb.MultiPolygon, names contigNamer) (contigBounds, err
 	return b, nil
 }
 
-// contigMedianSegment returns the median length of the boundary segments of
+// medianSegment returns the median length of the boundary segments of
 // geoms, from an evenly spaced sample of at most about 65,536 of them so
 // that the cost stays a small part of the whole. Zero-length and non-finite
 // segments are skipped; 0 means there was none left.
-func contigMedianSegment(geoms []orb.MultiPolygon) float64 {
+func medianSegment(geoms []orb.MultiPolygon) float64 {
 	var n int
 	for _, mp := range geoms {
 		for _, poly := range mp {
@@ -124,7 +124,7 @@ func contigMedianSegment(geoms []orb.MultiPolygon) float64 {
 	return sample[len(sample)/2]
 }
 
-// contigLayer holds every boundary segment of a layer in flat arrays. The
+// layer holds every boundary segment of a layer in flat arrays. The
 // vertices of each ring are stored one after another, closing vertex
 // included, so that the segment starting at vertex v ends at vertex v+1;
 // segments are named by their starting vertex.
@@ -132,10 +132,10 @@ func contigMedianSegment(geoms []orb.MultiPolygon) float64 {
 // What the search reads about a segment sits together in memory (points
 // interleaved, one record of numbers per vertex) because it reads segments
 // in cell order, not in the order they are stored.
-type contigLayer struct {
+type layer struct {
 	pts []orb.Point
 	// seg holds a record per vertex, and one more at the end.
-	seg []contigSeg
+	seg []segment
 	// ringStart is the first vertex of each ring, with len(x) appended.
 	ringStart []int32
 	// ringPart and ringHole say where each ring sits in its area, for
@@ -148,58 +148,58 @@ type contigLayer struct {
 	ringMaybe []bool
 	// slivers lists the near-zero-area rings in area order; solid counts
 	// each area's other rings.
-	slivers []contigSliverRing
+	slivers []sliverRing
 	solid   []int32
-	b       contigBounds
+	b       bounds
 }
 
-// contigSeg describes the segment starting at a vertex.
-type contigSeg struct {
+// segment describes the segment starting at a vertex.
+type segment struct {
 	// area is the area of the segment, or -1 at the last vertex of a ring,
 	// where no segment starts.
 	area int32
 	// ring is the ring the vertex belongs to.
 	ring int32
-	// first is the first piece of the segment (see contigLayer.cut); the
+	// first is the first piece of the segment (see layer.cut); the
 	// pieces of the segment at v are seg[v].first … seg[v+1].first-1.
 	first int32
 }
 
-// contigSliverRing is a ring with about zero signed area: ring is its number
+// sliverRing is a ring with about zero signed area: ring is its number
 // in the layer when it was kept as a candidate, -1 when it was left out.
-type contigSliverRing struct{ area, part, hole, ring int32 }
+type sliverRing struct{ area, part, hole, ring int32 }
 
-// contigMaxListed is how many areas each kind of warning names before the
+// maxListed is how many areas each kind of warning names before the
 // rest are only counted.
-const contigMaxListed = 20
+const maxListed = 20
 
-// contigWarnings collects one kind of warning, listing the first few areas
+// warningList collects one kind of warning, listing the first few areas
 // and counting the rest.
-type contigWarnings struct {
+type warningList struct {
 	lines []string
 	more  int
 }
 
-func (w *contigWarnings) add(line string) {
-	if len(w.lines) < contigMaxListed {
+func (w *warningList) add(line string) {
+	if len(w.lines) < maxListed {
 		w.lines = append(w.lines, line)
 	} else {
 		w.more++
 	}
 }
 
-func (w *contigWarnings) out(what string) []string {
+func (w *warningList) out(what string) []string {
 	if w.more > 0 {
 		return append(w.lines, fmt.Sprintf("weights: %d more areas %s", w.more, what))
 	}
 	return w.lines
 }
 
-// contigFlatten copies the boundaries of geoms (already checked by
-// contigCheck) into a contigLayer, dropping repeated consecutive positions.
+// flatten copies the boundaries of geoms (already checked by
+// check) into a layer, dropping repeated consecutive positions.
 // Rings of about zero area are left out, or kept as candidates when they
 // have four sides or more (fewer cannot cross themselves).
-func contigFlatten(geoms []orb.MultiPolygon, snap float64) (*contigLayer, error) {
+func flatten(geoms []orb.MultiPolygon, snap float64) (*layer, error) {
 	var nv int
 	for _, mp := range geoms {
 		for _, poly := range mp {
@@ -211,9 +211,9 @@ func contigFlatten(geoms []orb.MultiPolygon, snap float64) (*contigLayer, error)
 	if nv >= math.MaxInt32 {
 		return nil, fmt.Errorf("weights: %d boundary positions are more than contiguity can index", nv)
 	}
-	l := &contigLayer{
+	l := &layer{
 		pts:   make([]orb.Point, 0, nv),
-		seg:   make([]contigSeg, 0, nv+1),
+		seg:   make([]segment, 0, nv+1),
 		solid: make([]int32, len(geoms)),
 	}
 	l.b.reset()
@@ -227,16 +227,16 @@ func contigFlatten(geoms []orb.MultiPolygon, snap float64) (*contigLayer, error)
 						continue
 					}
 					l.pts = append(l.pts, p)
-					l.seg = append(l.seg, contigSeg{area: int32(a), ring: r})
+					l.seg = append(l.seg, segment{area: int32(a), ring: r})
 				}
-				maybe := contigSliver(l.pts[start:], snap)
+				maybe := isSliver(l.pts[start:], snap)
 				if maybe && len(l.pts)-start < 5 {
 					l.pts, l.seg = l.pts[:start], l.seg[:start]
-					l.slivers = append(l.slivers, contigSliverRing{int32(a), int32(part), int32(k), -1})
+					l.slivers = append(l.slivers, sliverRing{int32(a), int32(part), int32(k), -1})
 					continue
 				}
 				if maybe {
-					l.slivers = append(l.slivers, contigSliverRing{int32(a), int32(part), int32(k), r})
+					l.slivers = append(l.slivers, sliverRing{int32(a), int32(part), int32(k), r})
 				} else {
 					l.solid[a]++
 				}
@@ -252,15 +252,15 @@ func contigFlatten(geoms []orb.MultiPolygon, snap float64) (*contigLayer, error)
 		}
 	}
 	l.ringStart = append(l.ringStart, int32(len(l.pts)))
-	l.seg = append(l.seg, contigSeg{area: -1, ring: -1})
+	l.seg = append(l.seg, segment{area: -1, ring: -1})
 	return l, nil
 }
 
 // sliverWarnings reports the sliver rings — those of about zero area that
 // the search did not find crossing themselves — and the areas left with no
 // ring of positive area.
-func (l *contigLayer) sliverWarnings(crossed []bool, snap float64, names contigNamer) []string {
-	var slivers, empty contigWarnings
+func (l *layer) sliverWarnings(crossed []bool, snap float64, names namer) []string {
+	var slivers, empty warningList
 	solid := l.solid
 	for _, s := range l.slivers {
 		if s.ring >= 0 && crossed[s.ring] {
@@ -268,7 +268,7 @@ func (l *contigLayer) sliverWarnings(crossed []bool, snap float64, names contigN
 			continue
 		}
 		slivers.add(fmt.Sprintf("weights: %s: %s has no area (its mean width is at most the snap distance %g); it is left out of the neighbour search",
-			names.area(int(s.area)), contigRingName(int(s.part), int(s.hole)), snap))
+			names.area(int(s.area)), ringName(int(s.part), int(s.hole)), snap))
 	}
 	for _, s := range l.slivers {
 		if solid[s.area] == 0 {
@@ -279,11 +279,11 @@ func (l *contigLayer) sliverWarnings(crossed []bool, snap float64, names contigN
 	return append(slivers.out("have sliver rings"), empty.out("have no ring with an area")...)
 }
 
-// contigSliver reports whether a closed ring (given by its vertices, the
+// isSliver reports whether a closed ring (given by its vertices, the
 // closing one included) has a mean width, twice its signed area over its
 // perimeter, of at most snap. The area is summed relative to the first
 // vertex so that large coordinates do not swamp it.
-func contigSliver(pts []orb.Point, snap float64) bool {
+func isSliver(pts []orb.Point, snap float64) bool {
 	if len(pts) < 4 {
 		return true
 	}

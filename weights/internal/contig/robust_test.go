@@ -1,6 +1,7 @@
-package weights
+package contig
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -14,36 +15,46 @@ import (
 	"github.com/areatest/areatest/samples/region"
 )
 
-// contigGraphDiff describes the first difference between g and want, or returns ""
-// when they have the same areas and links.
-func contigGraphDiff(g, want *Graph) string {
-	if g.Len() != want.Len() {
-		return fmt.Sprintf("%d areas, want %d", g.Len(), want.Len())
-	}
-	for i := 0; i < g.Len(); i++ {
-		a, _ := g.Row(i)
-		b, _ := want.Row(i)
-		if !slices.Equal(a, b) {
-			return fmt.Sprintf("area %d: neighbours %v, want %v", i, a, b)
+// pairsDiff describes the first difference between two sorted pair lists,
+// or returns "" when they are equal.
+func pairsDiff(got, want [][2]int32) string {
+	for k := range min(len(got), len(want)) {
+		if got[k] != want[k] {
+			return fmt.Sprintf("pair %d is %v, want %v", k, got[k], want[k])
 		}
+	}
+	if len(got) != len(want) {
+		return fmt.Sprintf("%d pairs, want %d", len(got), len(want))
 	}
 	return ""
 }
 
-func contigBuild(t *testing.T, geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []string) {
+// build runs Find, failing the test on an error.
+func build(t *testing.T, geoms []orb.MultiPolygon, opt Options) ([][2]int32, []string) {
 	t.Helper()
-	g, warns, err := BuildContiguity(geoms, opt)
+	pairs, warns, err := Find(geoms, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return g, warns
+	return pairs, warns
 }
 
-// contigJitter returns a copy of geoms with every vertex of every ring moved by up
+// rules are the two contiguity rules, for loops over both.
+var rules = []Options{{Rook: false}, {Rook: true}}
+
+// ruleName names a rule in test messages.
+func ruleName(o Options) string {
+	if o.Rook {
+		return "rook"
+	}
+	return "queen"
+}
+
+// jitter returns a copy of geoms with every vertex of every ring moved by up
 // to amp in each coordinate, each polygon on its own — as if each area had
 // been digitised separately — so that vertices shared in the original no
 // longer coincide. Rings stay closed.
-func contigJitter(geoms []orb.MultiPolygon, amp float64, seed uint64) []orb.MultiPolygon {
+func jitter(geoms []orb.MultiPolygon, amp float64, seed uint64) []orb.MultiPolygon {
 	rng := rand.New(rand.NewPCG(seed, 7))
 	out := make([]orb.MultiPolygon, len(geoms))
 	for a, mp := range geoms {
@@ -63,22 +74,22 @@ func contigJitter(geoms []orb.MultiPolygon, amp float64, seed uint64) []orb.Mult
 	return out
 }
 
-// contigLatticeT is lattice(m) with extra vertices on one side of each
-// interior shared edge only: two on the right side of every square that has
-// a right-hand neighbour, one on the top side of every square that has one
-// above. The neighbour across then has a plain edge with the extra
-// vertices lying on it (T-junctions).
-func contigLatticeT(m int) []orb.MultiPolygon {
+// lattice returns an m×m grid of unit squares, row by row. With extra, each
+// interior shared edge gets extra vertices on one side only: two on the
+// right side of every square that has a right-hand neighbour, one on the
+// top side of every square that has one above. The neighbour across then
+// has a plain edge with the extra vertices lying on it (T-junctions).
+func lattice(m int, extra bool) []orb.MultiPolygon {
 	var out []orb.MultiPolygon
 	for r := 0; r < m; r++ {
 		for c := 0; c < m; c++ {
 			x, y := float64(c), float64(r)
 			ring := orb.Ring{{x, y}, {x + 1, y}}
-			if c < m-1 {
+			if extra && c < m-1 {
 				ring = append(ring, orb.Point{x + 1, y + 1.0/3}, orb.Point{x + 1, y + 2.0/3})
 			}
 			ring = append(ring, orb.Point{x + 1, y + 1})
-			if r < m-1 {
+			if extra && r < m-1 {
 				ring = append(ring, orb.Point{x + 0.5, y + 1})
 			}
 			ring = append(ring, orb.Point{x, y + 1}, orb.Point{x, y})
@@ -95,7 +106,7 @@ func contigLatticeT(m int) []orb.MultiPolygon {
 // the graph.
 func TestContigLatticeVariantsGiveTheCleanGraph(t *testing.T) {
 	for _, m := range []int{1, 2, 3, 5, 10} {
-		clean := lattice(m)
+		clean := lattice(m, false)
 		snap := DefaultSnap(clean)
 		amp := 0.3 * snap // two copies of a corner end up at most 0.85·snap apart
 		variants := []struct {
@@ -103,26 +114,26 @@ func TestContigLatticeVariantsGiveTheCleanGraph(t *testing.T) {
 			geoms []orb.MultiPolygon
 		}{
 			{"clean", clean},
-			{"jittered", contigJitter(clean, amp, uint64(m))},
-			{"T-junctions", contigLatticeT(m)},
-			{"T-junctions, jittered", contigJitter(contigLatticeT(m), amp, uint64(m)+100)},
+			{"jittered", jitter(clean, amp, uint64(m))},
+			{"T-junctions", lattice(m, true)},
+			{"T-junctions, jittered", jitter(lattice(m, true), amp, uint64(m)+100)},
 		}
-		for _, rule := range []Contiguity{Queen, Rook} {
-			want, _ := contigBuild(t, clean, ContiguityOptions{Rule: rule})
+		for _, rule := range rules {
+			want, _ := build(t, clean, rule)
 			pairs := 2 * m * (m - 1)
-			if rule == Queen {
+			if !rule.Rook {
 				pairs += 2 * (m - 1) * (m - 1)
 			}
-			if want.Links()/2 != pairs {
-				t.Fatalf("m=%d %v: clean lattice has %d pairs, want %d", m, rule, want.Links()/2, pairs)
+			if len(want) != pairs {
+				t.Fatalf("m=%d %s: clean lattice has %d pairs, want %d", m, ruleName(rule), len(want), pairs)
 			}
 			for _, v := range variants {
-				g, warns := contigBuild(t, v.geoms, ContiguityOptions{Rule: rule})
-				if d := contigGraphDiff(g, want); d != "" {
-					t.Errorf("m=%d %v %s: %s", m, rule, v.name, d)
+				got, warns := build(t, v.geoms, rule)
+				if d := pairsDiff(got, want); d != "" {
+					t.Errorf("m=%d %s %s: %s", m, ruleName(rule), v.name, d)
 				}
 				if len(warns) != 0 {
-					t.Errorf("m=%d %v %s: warnings %q", m, rule, v.name, warns)
+					t.Errorf("m=%d %s %s: warnings %q", m, ruleName(rule), v.name, warns)
 				}
 			}
 		}
@@ -166,12 +177,12 @@ func TestContigIndependentlyDigitisedBorders(t *testing.T) {
 			t.Fatalf("%s: default snap %g, expected between 1e-7 and 1e-6 degrees", c.name, s)
 		}
 		for _, r := range []struct {
-			rule Contiguity
+			rule Options
 			want bool
-		}{{Queen, c.queen}, {Rook, c.rook}} {
-			g, _ := contigBuild(t, geoms, ContiguityOptions{Rule: r.rule})
-			if got := g.Links() == 2; got != r.want {
-				t.Errorf("%s, %v: neighbours %v, want %v", c.name, r.rule, got, r.want)
+		}{{rules[0], c.queen}, {rules[1], c.rook}} {
+			pairs, _ := build(t, geoms, r.rule)
+			if got := len(pairs) == 1; got != r.want {
+				t.Errorf("%s, %s: neighbours %v, want %v", c.name, ruleName(r.rule), got, r.want)
 			}
 		}
 	}
@@ -190,12 +201,13 @@ func TestContigRookMinimumSharedLength(t *testing.T) {
 		y := 1 - c.shared
 		b := orb.MultiPolygon{{{{1, y}, {2, y}, {2, y + 1}, {1, y + 1}, {1, y}}}}
 		for _, r := range []struct {
-			rule Contiguity
+			rule Options
 			want bool
-		}{{Queen, c.queen}, {Rook, c.rook}} {
-			g, _ := contigBuild(t, []orb.MultiPolygon{a, b}, ContiguityOptions{Rule: r.rule, Snap: snap})
-			if got := g.Links() == 2; got != r.want {
-				t.Errorf("shared %g, %v: neighbours %v, want %v", c.shared, r.rule, got, r.want)
+		}{{rules[0], c.queen}, {rules[1], c.rook}} {
+			r.rule.Snap = snap
+			pairs, _ := build(t, []orb.MultiPolygon{a, b}, r.rule)
+			if got := len(pairs) == 1; got != r.want {
+				t.Errorf("shared %g, %s: neighbours %v, want %v", c.shared, ruleName(r.rule), got, r.want)
 			}
 		}
 	}
@@ -220,10 +232,16 @@ func TestContigLongSidesAndRotation(t *testing.T) {
 		x := 5 + 10*float64(k)
 		geoms = append(geoms, turn(orb.Ring{{x, 1000}, {x + 1, 1000}, {x + 1, 1001}, {x, 1001}, {x, 1000}}))
 	}
-	for _, rule := range []Contiguity{Queen, Rook} {
-		g, _ := contigBuild(t, geoms, ContiguityOptions{Rule: rule})
-		if g.Degree(0) != 100 || g.Links() != 200 {
-			t.Errorf("%v: big square has %d neighbours, %d links in all; want 100 and 200", rule, g.Degree(0), g.Links())
+	for _, rule := range rules {
+		pairs, _ := build(t, geoms, rule)
+		big := 0
+		for _, p := range pairs {
+			if p[0] == 0 {
+				big++
+			}
+		}
+		if big != 100 || len(pairs) != 100 {
+			t.Errorf("%s: big square has %d neighbours, %d pairs in all; want 100 and 100", ruleName(rule), big, len(pairs))
 		}
 	}
 }
@@ -235,10 +253,10 @@ func TestContigJitteredHoleNeighbour(t *testing.T) {
 	hole := orb.Ring{{1, 1}, {1, 2}, {1, 3}, {2, 3}, {3, 3}, {3, 1}, {1, 1}}
 	inner := orb.Ring{{1, 1}, {3, 1}, {3, 3}, {1, 3}, {1, 1}}
 	clean := []orb.MultiPolygon{{{outer, hole}}, {{inner}}}
-	geoms := contigJitter(clean, 0.3*DefaultSnap(clean), 3)
-	for _, rule := range []Contiguity{Queen, Rook} {
-		if g, _ := contigBuild(t, geoms, ContiguityOptions{Rule: rule}); g.Links() != 2 {
-			t.Errorf("%v: %d links, want 2", rule, g.Links())
+	geoms := jitter(clean, 0.3*DefaultSnap(clean), 3)
+	for _, rule := range rules {
+		if pairs, _ := build(t, geoms, rule); len(pairs) != 1 {
+			t.Errorf("%s: %d pairs, want 1", ruleName(rule), len(pairs))
 		}
 	}
 }
@@ -256,19 +274,17 @@ func TestContigRegionAgainstExactMatching(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		jittered := contigJitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), uint64(n))
-		for _, rule := range []Contiguity{Queen, Rook} {
-			want := contigExact(r.Geoms, rule)
+		jittered := jitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), uint64(n))
+		for _, rule := range rules {
+			want := exactPairs(r.Geoms, rule.Rook)
+			rule.IDs = r.IDs
 			for name, geoms := range map[string][]orb.MultiPolygon{"as built": r.Geoms, "jittered": jittered} {
-				g, warns := contigBuild(t, geoms, ContiguityOptions{Rule: rule, IDs: r.IDs})
-				if d := contigGraphDiff(g, want); d != "" {
-					t.Errorf("n=%d %v %s: %s", n, rule, name, d)
+				got, warns := build(t, geoms, rule)
+				if d := pairsDiff(got, want); d != "" {
+					t.Errorf("n=%d %s %s: %s", n, ruleName(rule), name, d)
 				}
 				if len(warns) != 0 {
-					t.Errorf("n=%d %v %s: warnings %q", n, rule, name, warns)
-				}
-				if g.Kind != rule.String()+" contiguity" || g.Transform != "binary" {
-					t.Errorf("kind %q, transform %q", g.Kind, g.Transform)
+					t.Errorf("n=%d %s %s: warnings %q", n, ruleName(rule), name, warns)
 				}
 			}
 		}
@@ -285,7 +301,7 @@ func TestContigSameResultOnAnyNumberOfCores(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	geoms := contigJitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), 11)
+	geoms := jitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), 11)
 	// Make the outer ring of every 300th district pass through its first
 	// vertex a second time (v0 v1 v2 v0 v3 …): the ring then touches itself.
 	var twisted []string
@@ -297,30 +313,32 @@ func TestContigSameResultOnAnyNumberOfCores(t *testing.T) {
 		twisted = append(twisted, r.IDs[a])
 	}
 	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
-	for _, rule := range []Contiguity{Queen, Rook} {
+	for _, rule := range rules {
+		rule.IDs = r.IDs
 		runtime.GOMAXPROCS(1)
-		g1, w1 := contigBuild(t, geoms, ContiguityOptions{Rule: rule, IDs: r.IDs})
+		p1, w1 := build(t, geoms, rule)
 		runtime.GOMAXPROCS(2)
-		g2, w2 := contigBuild(t, geoms, ContiguityOptions{Rule: rule, IDs: r.IDs})
-		if d := contigGraphDiff(g2, g1); d != "" {
-			t.Errorf("%v: two cores vs one: %s", rule, d)
+		p2, w2 := build(t, geoms, rule)
+		if d := pairsDiff(p2, p1); d != "" {
+			t.Errorf("%s: two cores vs one: %s", ruleName(rule), d)
 		}
 		if !slices.Equal(w1, w2) {
-			t.Errorf("%v: warnings differ:\n%q\n%q", rule, w1, w2)
+			t.Errorf("%s: warnings differ:\n%q\n%q", ruleName(rule), w1, w2)
 		}
 		joined := strings.Join(w1, "\n")
 		for _, id := range twisted {
 			if !strings.Contains(joined, fmt.Sprintf("area %q: the outer ring of part 1 crosses or touches itself", id)) {
-				t.Errorf("%v: no warning for twisted district %s in %q", rule, id, w1)
+				t.Errorf("%s: no warning for twisted district %s in %q", ruleName(rule), id, w1)
 			}
 		}
 		if len(w1) != len(twisted) {
-			t.Errorf("%v: %d warnings for %d twisted districts: %q", rule, len(w1), len(twisted), w1)
+			t.Errorf("%s: %d warnings for %d twisted districts: %q", ruleName(rule), len(w1), len(twisted), w1)
 		}
 	}
 }
 
-// Queen contacts include all rook contacts, and both graphs are symmetric.
+// Queen contacts include all rook contacts, and both lists are proper
+// pairs (lower area first, sorted, no repeats).
 func TestContigQueenContainsRook(t *testing.T) {
 	cfg := region.DefaultConfig()
 	cfg.Areas = 1000
@@ -328,33 +346,27 @@ func TestContigQueenContainsRook(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	geoms := contigJitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), 5)
-	queen, _ := contigBuild(t, geoms, ContiguityOptions{Rule: Queen})
-	rook, _ := contigBuild(t, geoms, ContiguityOptions{Rule: Rook})
-	for _, g := range []*Graph{queen, rook} {
-		for i := 0; i < g.Len(); i++ {
-			nb, _ := g.Row(i)
-			for _, j := range nb {
-				back, _ := g.Row(int(j))
-				if _, ok := slices.BinarySearch(back, int32(i)); !ok {
-					t.Fatalf("%s: %d→%d without %d→%d", g.Kind, i, j, j, i)
-				}
+	geoms := jitter(r.Geoms, 0.3*DefaultSnap(r.Geoms), 5)
+	queen, _ := build(t, geoms, rules[0])
+	rook, _ := build(t, geoms, rules[1])
+	for _, pairs := range [][][2]int32{queen, rook} {
+		for k, p := range pairs {
+			if p[0] >= p[1] || (k > 0 && cmpPair(pairs[k-1], p) >= 0) {
+				t.Fatalf("pair %d is %v after %v", k, p, pairs[max(k-1, 0)])
 			}
 		}
 	}
-	for i := 0; i < rook.Len(); i++ {
-		nb, _ := rook.Row(i)
-		qn, _ := queen.Row(i)
-		for _, j := range nb {
-			if _, ok := slices.BinarySearch(qn, j); !ok {
-				t.Fatalf("rook pair %d–%d is not a queen pair", i, j)
-			}
+	for _, p := range rook {
+		if _, ok := slices.BinarySearchFunc(queen, p, cmpPair); !ok {
+			t.Fatalf("rook pair %v is not a queen pair", p)
 		}
 	}
-	if queen.Links() <= rook.Links() {
-		t.Errorf("queen %d links, rook %d: expected some corner-only contacts", queen.Links(), rook.Links())
+	if len(queen) <= len(rook) {
+		t.Errorf("queen %d pairs, rook %d: expected some corner-only contacts", len(queen), len(rook))
 	}
 }
+
+func cmpPair(a, b [2]int32) int { return cmp.Or(cmp.Compare(a[0], b[0]), cmp.Compare(a[1], b[1])) }
 
 // DefaultSnap follows the documented rule.
 func TestContigDefaultSnap(t *testing.T) {
@@ -364,7 +376,7 @@ func TestContigDefaultSnap(t *testing.T) {
 		want  float64
 	}{
 		// 10×10 unit lattice: the diagonal √200 dominates.
-		{"unit lattice", lattice(10), 2e-9 * math.Sqrt(200)},
+		{"unit lattice", lattice(10, false), 2e-9 * math.Sqrt(200)},
 		// A 1 km square in metres far from the origin (5,000 km north):
 		// the magnitude of the coordinates dominates, 1 cm.
 		{"projected metres", []orb.MultiPolygon{{{{{500000, 5e6}, {501000, 5e6}, {501000, 5e6 + 1000}, {500000, 5e6 + 1000}, {500000, 5e6}}}}}, 2e-9 * (5e6 + 1000)},

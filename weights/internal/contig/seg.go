@@ -1,4 +1,4 @@
-package weights
+package contig
 
 import "math"
 
