@@ -2,9 +2,9 @@ package main
 
 import (
 	"fmt"
-	"image/color"
 	"io"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/plot"
@@ -13,161 +13,112 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// localPictures are the files `areatest local` draws, by role.
+// localPictures are the files `areatest local` draws, by role, with the
+// class rule of the choropleth (set by check) and the area of the
+// histogram.
 type localPictures struct {
 	category, value, scatter, histogram string
-	classes, area                       string
+	area                                string
+	classes                             classRule
 }
 
-// The colours of the categories that are not local Moran's own: the
-// project's palette (io/plot) carries the four Moran categories; the others
-// reuse its hues in the same sense (orange high, purple low, dark for
-// resemblance, light for contrast).
-var (
-	noNeighboursColour = color.RGBA{0xbd, 0xbd, 0xbd, 0xff}
-)
-
-// legendFor returns the category legend of a statistic and the index of
-// each category name in it.
-func legendFor(kind local.Kind) ([]plot.Category, map[string]int) {
-	pal := plot.LocalCategories()
-	var legend []plot.Category
-	switch kind {
-	case local.Moran, local.CrossMoran:
-		legend = []plot.Category{
-			{Name: local.HighHigh + ": high, neighbours high", Color: pal[plot.HighHigh].Color},
-			{Name: local.LowLow + ": low, neighbours low", Color: pal[plot.LowLow].Color},
-			{Name: local.HighLow + ": high, neighbours low", Color: pal[plot.HighLow].Color},
-			{Name: local.LowHigh + ": low, neighbours high", Color: pal[plot.LowHigh].Color},
-		}
-	case local.Geary:
-		legend = []plot.Category{
-			{Name: local.SimilarHigh + " (like neighbours, high)", Color: pal[plot.HighHigh].Color},
-			{Name: local.SimilarLow + " (like neighbours, low)", Color: pal[plot.LowLow].Color},
-			{Name: local.SimilarMixed + " (like neighbours, mixed)", Color: pal[plot.HighLow].Color},
-			{Name: local.Dissimilar + " (unlike neighbours)", Color: pal[plot.LowHigh].Color},
-		}
-	default: // Gi, Gi*
-		legend = []plot.Category{
-			{Name: local.HighCluster + ": high values around", Color: pal[plot.HighHigh].Color},
-			{Name: local.LowCluster + ": low values around", Color: pal[plot.LowLow].Color},
-		}
-	}
-	legend = append(legend,
-		plot.Category{Name: local.NotSignificant, Color: pal[plot.NotSignificant].Color},
-		plot.Category{Name: local.NoNeighbours, Color: noNeighboursColour})
-	keys := append(categoryKeys(kind), local.NotSignificant, local.NoNeighbours)
-	index := map[string]int{}
-	for k, name := range keys {
-		index[name] = k
-	}
-	return legend, index
+// classRule is a --classes value: the rule and its name in the subtitle.
+type classRule struct {
+	rule plot.Classes
+	name string
 }
 
-func categoryKeys(kind local.Kind) []string {
-	switch kind {
-	case local.Moran, local.CrossMoran:
-		return []string{local.HighHigh, local.LowLow, local.HighLow, local.LowHigh}
-	case local.Geary:
-		return []string{local.SimilarHigh, local.SimilarLow, local.SimilarMixed, local.Dissimilar}
+// check validates the picture flags, reading classes into p.classes.
+func (p *localPictures) check(classes string) error {
+	if (p.histogram == "") != (p.area == "") {
+		return usagef("--histogram and --area go together")
 	}
-	return []string{local.HighCluster, local.LowCluster}
-}
-
-func (p localPictures) draw(lay *layer.Layer, doc *report.LocalDocument, kind local.Kind, variable string,
-	results []local.AreaResult, hist int, stdout io.Writer, inputs []string) error {
-	lonLat := weights.DetectMetric(lay.Geoms) == weights.Geographic
-	note := fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
-		lay.Source, doc.Summary.Seed, numtext.Count(doc.Summary.Permutations), doc.Version)
-	subtitle := fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", doc.Summary.Statistic, variable, doc.Summary.CategoriesFrom,
-		doc.Summary.Alpha, doc.Summary.Adjustment, doc.Weights.Kind)
-	mapOpt := plot.MapOptions{Subtitle: subtitle, LonLat: lonLat, Note: note, IDs: lay.IDs}
-	if p.category != "" {
-		legend, index := legendFor(kind)
-		cats := make([]int, len(doc.Areas))
-		for i, a := range doc.Areas {
-			k, ok := index[a.Category]
-			if !ok {
-				k = -1 // no data
+	var err error
+	if p.classes, err = choice.Parse("--classes", classes,
+		choice.Name[classRule]{Name: "quantile", Value: classRule{plot.Quantile, "quantile"}},
+		choice.Name[classRule]{Name: "natural", Value: classRule{plot.NaturalBreaks, "natural-breaks"}}); err != nil {
+		return usagef("%v", err)
+	}
+	for _, f := range []string{p.category, p.value, p.scatter, p.histogram} {
+		if f != "" {
+			if _, err := plot.FormatFromPath(f); err != nil {
+				return usagef("%v", err)
 			}
-			cats[i] = k
-		}
-		opt := mapOpt
-		opt.Title = "Where " + variable + " clusters"
-		opt.LegendTitle = "category"
-		if err := drawTo(p.category, stdout, inputs, func(w io.Writer, f plot.Format) error {
-			return plot.CategoryMap(w, f, lay.Geoms, cats, legend, opt)
-		}); err != nil {
-			return err
-		}
-	}
-	if p.value != "" {
-		values := make([]float64, len(doc.Areas))
-		missing := make([]bool, len(doc.Areas))
-		for i, a := range doc.Areas {
-			if a.Value == nil {
-				missing[i] = true
-			} else {
-				values[i] = *a.Value
-			}
-		}
-		classes := plot.Quantile
-		if p.classes == "natural" {
-			classes = plot.NaturalBreaks
-		}
-		opt := mapOpt
-		opt.Title = variable
-		opt.Subtitle = fmt.Sprintf("%s classes", map[string]string{"quantile": "quantile", "natural": "natural-breaks"}[p.classes])
-		if err := drawTo(p.value, stdout, inputs, func(w io.Writer, f plot.Format) error {
-			return plot.Choropleth(w, f, lay.Geoms, values, missing, classes, 5, variable, opt)
-		}); err != nil {
-			return err
-		}
-	}
-	if p.scatter != "" {
-		if kind != local.Moran && kind != local.CrossMoran {
-			return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
-		}
-		legend, index := legendFor(kind)
-		z := make([]float64, len(results))
-		lag := make([]float64, len(results))
-		cats := make([]int, len(results))
-		for k, r := range results {
-			z[k], lag[k] = r.Standardised, r.StandardisedLag
-			cats[k] = index[r.Category]
-		}
-		slope := doc.Summary.Total / float64(len(results))
-		yLabel := "mean of the neighbours (standardised)"
-		if doc.Against != "" {
-			yLabel = "neighbours' " + doc.Against + " (standardised)"
-		}
-		opt := plot.PlotOptions{Title: variable + " against its neighbours", Subtitle: doc.Weights.Kind + ", " + doc.Weights.Transform,
-			XLabel: variable + " (standardised)", YLabel: yLabel, Note: note}
-		if err := drawTo(p.scatter, stdout, inputs, func(w io.Writer, f plot.Format) error {
-			return plot.MoranScatter(w, f, z, lag, cats, legend, slope, opt)
-		}); err != nil {
-			return err
-		}
-	}
-	if p.histogram != "" {
-		r := results[hist]
-		opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", doc.Summary.Statistic, p.area),
-			Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(r.Permutations), report.PValue(r.P), doc.Summary.Alternative, r.Category),
-			XLabel:   doc.Summary.Statistic, YLabel: "shuffles", Note: note}
-		if err := drawTo(p.histogram, stdout, inputs, func(w io.Writer, f plot.Format) error {
-			return plot.Histogram(w, f, r.Null, r.Statistic, opt)
-		}); err != nil {
-			return err
 		}
 	}
 	return nil
 }
 
-// drawTo renders a picture into path (format from the extension) safely.
-func drawTo(path string, stdout io.Writer, inputs []string, draw func(io.Writer, plot.Format) error) error {
-	f, err := plot.FormatFromPath(path)
-	if err != nil {
-		return usagef("%v", err)
+// draw writes the pictures asked for and lists them in res.Written.
+func (p *localPictures) draw(lay *layer.Layer, res *local.Result, stdout io.Writer, inputs []string) error {
+	s := res.Summary
+	note := fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
+		lay.Source, s.Seed, numtext.Count(s.Permutations), res.Version)
+	mapOpt := plot.MapOptions{LonLat: weights.DetectMetric(lay.Geoms) == weights.Geographic, Note: note, IDs: lay.IDs}
+	pictures := []struct {
+		path string
+		draw func(w io.Writer, f plot.Format) error
+	}{
+		{p.category, func(w io.Writer, f plot.Format) error {
+			cats := make([]int, len(res.Areas))
+			for i, a := range res.Areas {
+				cats[i] = local.CategoryIndex(res.Kind, a.Category)
+			}
+			opt := mapOpt
+			opt.Title, opt.LegendTitle = "Where "+res.Variable+" clusters", "category"
+			opt.Subtitle = fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", s.Statistic, res.Variable, s.CategoriesFrom, s.Alpha, s.Adjustment, res.Weights.Kind)
+			return plot.CategoryMap(w, f, lay.Geoms, cats, plot.LocalLegend(res.Kind), opt)
+		}},
+		{p.value, func(w io.Writer, f plot.Format) error {
+			col, err := lay.Column(res.Variable)
+			if err != nil {
+				return err
+			}
+			opt := mapOpt
+			opt.Title, opt.Subtitle = res.Variable, p.classes.name+" classes"
+			return plot.Choropleth(w, f, lay.Geoms, col.Num, col.Missing, p.classes.rule, 5, res.Variable, opt)
+		}},
+		{p.scatter, func(w io.Writer, f plot.Format) error { return moranScatter(w, f, res, note) }},
+		{p.histogram, func(w io.Writer, f plot.Format) error {
+			a := res.NullArea()
+			opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", s.Statistic, p.area),
+				Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(a.Permutations), report.PValue(a.P), s.Alternative, a.Category),
+				XLabel:   s.Statistic, YLabel: "shuffles", Note: note}
+			return plot.Histogram(w, f, a.Null, a.Statistic, opt)
+		}},
 	}
-	return writeOutput(path, stdout, inputs, func(w io.Writer) error { return draw(w, f) })
+	for _, pic := range pictures {
+		if pic.path == "" {
+			continue
+		}
+		f, err := plot.FormatFromPath(pic.path)
+		if err != nil {
+			return usagef("%v", err)
+		}
+		if err := writeOutput(pic.path, stdout, inputs, func(w io.Writer) error { return pic.draw(w, f) }); err != nil {
+			return err
+		}
+		res.Written = append(res.Written, pic.path)
+	}
+	return nil
+}
+
+// moranScatter draws the analysed areas' standardised values against the
+// lag of their neighbours', coloured by category.
+func moranScatter(w io.Writer, f plot.Format, res *local.Result, note string) error {
+	if res.Kind != local.Moran && res.Kind != local.CrossMoran {
+		return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
+	}
+	areas := res.Analysed()
+	z, lag, cats := make([]float64, len(areas)), make([]float64, len(areas)), make([]int, len(areas))
+	for k, a := range areas {
+		z[k], lag[k], cats[k] = a.Standardised, a.StandardisedLag, local.CategoryIndex(res.Kind, a.Category)
+	}
+	yLabel := "mean of the neighbours (standardised)"
+	if res.Against != "" {
+		yLabel = "neighbours' " + res.Against + " (standardised)"
+	}
+	opt := plot.PlotOptions{Title: res.Variable + " against its neighbours", Subtitle: res.Weights.Kind + ", " + res.Weights.Transform,
+		XLabel: res.Variable + " (standardised)", YLabel: yLabel, Note: note}
+	return plot.MoranScatter(w, f, z, lag, cats, plot.LocalLegend(res.Kind), res.Summary.Total/float64(len(areas)), opt)
 }

@@ -11,9 +11,16 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime"
 
 	"github.com/spf13/pflag"
 	"golang.org/x/term"
+
+	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
 )
 
 // Version is the release of this build; it is written into every output.
@@ -146,4 +153,104 @@ func parseFlags(fs *pflag.FlagSet, args []string) error {
 		return usagef("unexpected argument %q (see areatest %s --help)", fs.Arg(0), fs.Name())
 	}
 	return nil
+}
+
+// sharedFlags are the settings autocorr, screen and local share.
+type sharedFlags struct {
+	input, id, alternative, format, output string
+	skipBadGeometry                        bool
+	permutations, workers                  int
+	seed                                   uint64
+	weights                                weightFlags
+}
+
+func (c *sharedFlags) register(fs *pflag.FlagSet, formats string) {
+	fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+	fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
+	fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
+	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (more clustered than chance) or less (more dispersed)")
+	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test")
+	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
+	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
+	fs.StringVar(&c.format, "format", "text", formats)
+	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+	c.weights.register(fs)
+}
+
+// layerGraph is what the shared flags give a command: the layer, the
+// neighbour graph of all its areas and how the statistics use it.
+type layerGraph struct {
+	lay         *layer.Layer
+	graph       *weights.Graph
+	spec        weights.Spec
+	transform   weights.Transform
+	keepIslands bool
+	alt         shuffle.Alternative
+}
+
+// prepare checks the shared flags (the alternative read by parseAlt, the
+// format one of formats), reads the layer and builds the graph.
+func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer,
+	parseAlt func(string) (shuffle.Alternative, error), formats ...string) (*layerGraph, error) {
+	if c.input == "" {
+		return nil, usagef("--input is required (see areatest %s --help)", cmd)
+	}
+	names := make([]choice.Name[string], len(formats))
+	for k, f := range formats {
+		names[k] = choice.Name[string]{Name: f, Value: f}
+	}
+	var err error
+	if c.format, err = choice.Parse("--format", c.format, names...); err != nil {
+		return nil, usagef("%v", err)
+	}
+	p := &layerGraph{}
+	if p.alt, err = parseAlt(c.alternative); err != nil {
+		return nil, usagef("--alternative: %v", err)
+	}
+	if c.permutations < 1 || c.workers < 1 {
+		return nil, usagef("--permutations and --workers must be at least 1")
+	}
+	if p.spec, p.transform, p.keepIslands, err = c.weights.spec(); err != nil {
+		return nil, err
+	}
+	var warnings []string
+	p.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	if err != nil {
+		return nil, err
+	}
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
+	p.graph, warnings, err = c.weights.graph(p.lay, p.spec)
+	for _, w := range warnings {
+		warn(stderr, w)
+	}
+	return p, err
+}
+
+// emit writes the result in the chosen format, by render; the text report
+// shows its warnings itself, the other formats leave them to stderr.
+func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
+	if c.format != "text" {
+		for _, w := range warnings {
+			warn(stderr, w)
+		}
+	}
+	return writeOutput(c.output, stdout, c.inputs(), render[c.format])
+}
+
+// inputs are the files no output may overwrite.
+func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file} }
+
+// numericColumn returns the named column, which must be numeric; role
+// says what it is for, in the error.
+func numericColumn(lay *layer.Layer, name, role string) (*layer.Column, error) {
+	col, err := lay.Column(name)
+	if err != nil {
+		return nil, err
+	}
+	if col.Kind != layer.Number {
+		return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); %s must be a number", lay.Source, name, firstValue(col), firstID(lay, col), role)
+	}
+	return col, nil
 }

@@ -4,48 +4,17 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
-	"math"
-	"sort"
 	"strconv"
 	"strings"
 
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/spatial/local"
-	"github.com/areatest/areatest/weights"
 )
-
-// LocalArea is one area of a local analysis, named by id. Areas left out
-// (no value, or no neighbour) carry only their id, value and category.
-type LocalArea struct {
-	ID string `json:"id"`
-	// Value is the area's value, null when it has none (JSON has no NaN);
-	// it shadows the embedded result's value.
-	Value *float64 `json:"value"`
-	local.AreaResult
-	Analysed bool `json:"analysed"`
-}
-
-// LocalDocument is what `areatest local` reports.
-type LocalDocument struct {
-	Version  string          `json:"version"`
-	Input    string          `json:"input"`
-	Variable string          `json:"variable"`
-	Against  string          `json:"against,omitempty"`
-	Weights  weights.Summary `json:"weights"`
-	Summary  local.Summary   `json:"summary"`
-	// RawSignificant and AdjustedSignificant count the areas with a p-value
-	// at most alpha before and after the multiple-testing adjustment.
-	RawSignificant      int         `json:"significant_before_adjustment"`
-	AdjustedSignificant int         `json:"significant_after_adjustment"`
-	Areas               []LocalArea `json:"areas"`
-	Warnings            []string    `json:"warnings"`
-	Cautions            []string    `json:"cautions"`
-	Written             []string    `json:"written,omitempty"`
-}
 
 // LocalText writes the summary of a local analysis: counts per category and
 // the strongest areas.
-func LocalText(w io.Writer, d *LocalDocument, top int) error {
+func LocalText(w io.Writer, d *local.Result, top int) error {
 	var b strings.Builder
 	s := d.Summary
 	subject := d.Variable
@@ -64,7 +33,7 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 		fmt.Fprintf(&b, "  %-22s %7s\n", c.Category, numtext.Count(c.Areas))
 	}
 	b.WriteString("\n")
-	strongest := strongestAreas(d.Areas, top)
+	strongest := d.Strongest(top)
 	if len(strongest) > 0 {
 		fmt.Fprintf(&b, "  strongest areas (by |z|)\n  %-14s %-16s %10s %10s %8s %10s %10s\n", "id", "category", "value", "statistic", "z", "p", "adjusted")
 		for _, a := range strongest {
@@ -86,24 +55,10 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 	return err
 }
 
-func strongestAreas(areas []LocalArea, top int) []LocalArea {
-	var out []LocalArea
-	for _, a := range areas {
-		if a.Analysed && a.Category != local.NotSignificant && a.Category != local.NoNeighbours {
-			out = append(out, a)
-		}
-	}
-	sort.SliceStable(out, func(i, j int) bool { return math.Abs(out[i].Z) > math.Abs(out[j].Z) })
-	if len(out) > top {
-		out = out[:top]
-	}
-	return out
-}
-
 // LocalCSV writes one row per area of the layer: id, value, lag,
 // statistic, expected, sd, z, p, adjusted p and category. Areas that were
 // not analysed have empty statistics.
-func LocalCSV(w io.Writer, d *LocalDocument) error {
+func LocalCSV(w io.Writer, d *local.Result) error {
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"id", "value", "lag", "statistic", "expected", "sd", "z", "p", "p_adjusted", "category", "neighbours", "exact"})
 	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
@@ -121,4 +76,32 @@ func LocalCSV(w io.Writer, d *LocalDocument) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// LocalColumns returns the per-area results as layer columns, to be added
+// to a copy of the layer: lag, statistic, expected, sd, z, p, adjusted p
+// (missing where the area was not analysed) and category.
+func LocalColumns(d *local.Result) []*layer.Column {
+	n := len(d.Areas)
+	num := func(name string, get func(a local.Area) float64) *layer.Column {
+		c := &layer.Column{Name: name, Kind: layer.Number, Num: make([]float64, n), Missing: make([]bool, n)}
+		for i, a := range d.Areas {
+			c.Num[i], c.Missing[i] = get(a), !a.Analysed
+		}
+		return c
+	}
+	cat := &layer.Column{Name: "local_category", Kind: layer.Text, Str: make([]string, n), Missing: make([]bool, n)}
+	for i, a := range d.Areas {
+		cat.Str[i] = a.Category
+	}
+	return []*layer.Column{
+		num("local_lag", func(a local.Area) float64 { return a.Lag }),
+		num("local_statistic", func(a local.Area) float64 { return a.Statistic }),
+		num("local_expected", func(a local.Area) float64 { return a.Expected }),
+		num("local_sd", func(a local.Area) float64 { return a.SD }),
+		num("local_z", func(a local.Area) float64 { return a.Z }),
+		num("local_p", func(a local.Area) float64 { return a.P }),
+		num("local_p_adjusted", func(a local.Area) float64 { return a.AdjustedP }),
+		cat,
+	}
 }

@@ -24,8 +24,8 @@ func Autocorr(in Input, opt Options) (*Result, error) {
 	}
 	res.Weights = all.Summary
 	res.Warnings = append(res.Warnings, all.Summary.Warnings...)
-	if all.Summary.Islands > 0 && !in.KeepIslands {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d area(s) have no neighbour and are left out of every statistic (use --islands keep to keep them with a zero spatial lag).", all.Summary.Islands))
+	if !in.KeepIslands {
+		res.IslandsLeftOut = all.Summary.Islands
 	}
 	for c, col := range in.Numeric {
 		v, err := in.variable(col, opt, uint64(100*(c+1)), res)

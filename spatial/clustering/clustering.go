@@ -154,8 +154,15 @@ type Result struct {
 	Variables []Variable      `json:"variables"`
 	Joins     []Joins         `json:"join_counts,omitempty"`
 	Rate      *Rate           `json:"rate,omitempty"`
-	Warnings  []string        `json:"warnings"`
-	Cautions  []string        `json:"cautions"`
+	// Warnings start with the weights' own (Weights.Warnings), then those
+	// of the statistics.
+	Warnings []string `json:"warnings"`
+	Cautions []string `json:"cautions"`
+	// IslandsLeftOut counts the areas without a neighbour that every
+	// statistic leaves out (Input.KeepIslands unset). The warning about
+	// them is the caller's to word, after the weights' warnings, since how
+	// to keep them is a setting of the caller's.
+	IslandsLeftOut int `json:"-"`
 }
 
 // Cautions are printed with every clustering result.
