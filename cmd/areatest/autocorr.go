@@ -45,7 +45,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
 	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
 	fs.Float64Var(&lagWidth, "lag-width", 0, "with --lags: distance classes of this width (km on lon/lat layers) instead of neighbour orders")
-	c.register(fs, "text or json")
+	c.register(fs, "text", "json")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
@@ -59,19 +59,18 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	case lagWidth < 0 || (lagWidth > 0 && lags == 0):
 		return usagef("--lag-width is a positive distance and goes with --lags")
 	}
-	p, err := c.prepare("autocorr", stdin, stderr, shuffle.ParseAlternative, "text", "json")
-	if err != nil {
+	if err := c.prepare("autocorr", stdin, stderr, shuffle.ParseAlternative); err != nil {
 		return err
 	}
-	in, opt := p.clustering(&c)
-	if err := autocorrColumns(&in, p.lay, variables, against, events, population); err != nil {
+	in, opt := c.clustering()
+	if err := autocorrColumns(&in, c.lay, variables, against, events, population); err != nil {
 		return err
 	}
-	in.Lags = lags
-	if lagWidth > 0 {
+	var err error
+	if in.Lags = lags; lagWidth > 0 {
 		in.Lags = 0
-		if in.DistanceClasses, err = p.spec.DistanceClasses(p.lay.Geoms, lagWidth, lags); err != nil {
-			return fmt.Errorf("%s: %w", p.lay.Source, err)
+		if in.DistanceClasses, err = c.spec.DistanceClasses(c.lay.Geoms, lagWidth, lags); err != nil {
+			return fmt.Errorf("%s: %w", c.lay.Source, err)
 		}
 	}
 	bar := newProgress(stderr)
@@ -79,7 +78,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	res, err := clustering.Autocorr(in, opt)
 	bar.finish()
 	if err != nil {
-		return fmt.Errorf("%s: %w", p.lay.Source, err)
+		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}
 	res.Version = Version
 	if res.IslandsLeftOut > 0 {
@@ -98,20 +97,19 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string, against, events, population string) error {
 	for _, v := range variables {
 		col, err := lay.Column(v)
-		if err != nil {
+		switch {
+		case err != nil:
 			return err
-		}
-		if col.Kind == layer.Number {
+		case col.Kind == layer.Number:
 			in.Numeric = append(in.Numeric, clusterColumn(col))
-		} else {
+		default:
 			in.Categorical = append(in.Categorical, clustering.Categories{Name: v, Labels: labels(col), Missing: col.Missing})
 		}
 	}
-	named := []struct {
+	for _, n := range []struct {
 		name, role string
 		to         **clustering.Column
-	}{{against, "the --against column", &in.Against}, {events, "an event count", &in.Events}, {population, "a population", &in.Population}}
-	for _, n := range named {
+	}{{against, "the --against column", &in.Against}, {events, "an event count", &in.Events}, {population, "a population", &in.Population}} {
 		if n.name == "" {
 			continue
 		}
@@ -119,17 +117,16 @@ func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string,
 		if err != nil {
 			return err
 		}
-		c := clusterColumn(col)
-		*n.to = &c
+		cc := clusterColumn(col)
+		*n.to = &cc
 	}
 	return nil
 }
 
 // clustering returns the input and options of package clustering.
-func (p *layerGraph) clustering(c *sharedFlags) (clustering.Input, clustering.Options) {
-	in := clustering.Input{File: p.lay.Source, IDs: p.lay.IDs, Graph: p.graph, Transform: p.transform, KeepIslands: p.keepIslands}
-	opt := clustering.Options{Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alternative: p.alt}
-	return in, opt
+func (c *sharedFlags) clustering() (clustering.Input, clustering.Options) {
+	return clustering.Input{File: c.lay.Source, IDs: c.lay.IDs, Graph: c.graph, Transform: c.transform, KeepIslands: c.keepIslands},
+		clustering.Options{Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alternative: c.alt}
 }
 
 func clusterColumn(col *layer.Column) clustering.Column {

@@ -11,7 +11,7 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -44,9 +44,14 @@ Examples:
 type localFlags struct {
 	sharedFlags
 	variable, against, statistic, adjust, out, categories, classes string
-	pics                                                           localPictures
-	alpha                                                          float64
-	top                                                            int
+	// The pictures, and the area of the histogram.
+	mapFile, choropleth, scatter, histogram, area string
+	alpha                                         float64
+	top                                           int
+	// Set by check.
+	kind      local.Kind
+	opt       local.Options
+	classRule plot.Classes
 }
 
 func (c *localFlags) register(fs *pflag.FlagSet) {
@@ -57,51 +62,58 @@ func (c *localFlags) register(fs *pflag.FlagSet) {
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which an area counts as significant")
 	fs.StringVar(&c.categories, "categories", "adjusted", "categories from the adjusted or the raw p-values")
 	fs.StringVar(&c.out, "out", "", "per-area results: a .csv table or a .geojson copy of the layer with the results added")
-	fs.StringVar(&c.pics.category, "map", "", "map of the areas' categories (.svg or .png)")
-	fs.StringVar(&c.pics.value, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
-	fs.StringVar(&c.pics.scatter, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
-	fs.StringVar(&c.pics.histogram, "histogram", "", "permutation histogram of one area, named by --area (.svg or .png)")
-	fs.StringVar(&c.pics.area, "area", "", "the area (id) for --histogram")
+	fs.StringVar(&c.mapFile, "map", "", "map of the areas' categories (.svg or .png)")
+	fs.StringVar(&c.choropleth, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
+	fs.StringVar(&c.scatter, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
+	fs.StringVar(&c.histogram, "histogram", "", "permutation histogram of one area, named by --area (.svg or .png)")
+	fs.StringVar(&c.area, "area", "", "the area (id) for --histogram")
 	fs.StringVar(&c.classes, "classes", "quantile", "classes of --choropleth: quantile or natural (natural breaks, Fisher 1958), 5 of them")
 	fs.IntVar(&c.top, "top", 10, "how many of the strongest areas the text report lists")
-	c.sharedFlags.register(fs, "text or json")
+	c.sharedFlags.register(fs, "text", "json")
 	fs.Lookup("alternative").Usage = "two-sided (default), folded (the tail the observed value falls in; flags about 2·alpha of areas without any pattern), greater or less"
 }
 
-// options checks the flags of local's own and returns the statistic and
-// the options of the tests (the alternative comes with the shared flags).
-func (c *localFlags) options() (local.Kind, local.Options, error) {
-	var opt local.Options
+// check checks local's own flags and reads the statistic, the options of
+// the tests (the alternative comes with the shared flags) and the class
+// rule of the choropleth.
+func (c *localFlags) check() (err error) {
 	if c.variable == "" {
-		return 0, opt, usagef("--variable is required (see areatest local --help)")
+		return usagef("--variable is required (see areatest local --help)")
 	}
-	kind, err := local.ParseKind(c.statistic)
-	if err != nil {
-		return kind, opt, usagef("--statistic: %v", err)
+	if c.kind, err = local.ParseKind(c.statistic); err != nil {
+		return usagef("--statistic: %v", err)
 	}
-	if (kind == local.CrossMoran) != (c.against != "") {
-		return kind, opt, usagef("--against goes with --statistic cross-moran, and that statistic needs it")
+	if c.opt.Adjustment, err = shuffle.ParseMethod(c.adjust); err != nil {
+		return usagef("--adjust: %v", err)
 	}
-	if opt.Adjustment, err = shuffle.ParseMethod(c.adjust); err != nil {
-		return kind, opt, usagef("--adjust: %v", err)
-	}
-	if opt.RawCategories, err = choice.Parse("--categories", c.categories,
+	if c.opt.RawCategories, err = choice.Parse("--categories", c.categories,
 		choice.Name[bool]{Name: "adjusted", Value: false}, choice.Name[bool]{Name: "raw", Value: true}); err != nil {
-		return kind, opt, usagef("%v", err)
+		return usagef("%v", err)
 	}
-	if !(c.alpha > 0 && c.alpha < 1) {
-		return kind, opt, usagef("--alpha must be between 0 and 1")
+	if c.classRule, err = choice.Parse("--classes", c.classes,
+		choice.Name[plot.Classes]{Name: "quantile", Value: plot.Quantile}, choice.Name[plot.Classes]{Name: "natural", Value: plot.NaturalBreaks}); err != nil {
+		return usagef("%v", err)
 	}
-	if err := c.pics.check(c.classes); err != nil {
-		return kind, opt, err
+	switch ext := strings.ToLower(filepath.Ext(c.out)); {
+	case (c.kind == local.CrossMoran) != (c.against != ""):
+		err = usagef("--against goes with --statistic cross-moran, and that statistic needs it")
+	case !(c.alpha > 0 && c.alpha < 1):
+		err = usagef("--alpha must be between 0 and 1")
+	case (c.histogram == "") != (c.area == ""):
+		err = usagef("--histogram and --area go together")
+	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
+		err = usagef("--out must end in .csv or .geojson, not %q", ext)
 	}
-	if c.out != "" {
-		if ext := strings.ToLower(filepath.Ext(c.out)); ext != ".csv" && ext != ".geojson" && ext != ".json" {
-			return kind, opt, usagef("--out must end in .csv or .geojson, not %q", ext)
+	for _, f := range []string{c.mapFile, c.choropleth, c.scatter, c.histogram} {
+		if f == "" || err != nil {
+			continue
+		}
+		if _, ferr := plot.FormatFromPath(f); ferr != nil {
+			err = usagef("%v", ferr)
 		}
 	}
-	opt.Permutations, opt.Seed, opt.Workers, opt.Alpha = c.permutations, c.seed, c.workers, c.alpha
-	return kind, opt, nil
+	c.opt.Permutations, c.opt.Seed, c.opt.Workers, c.opt.Alpha = c.permutations, c.seed, c.workers, c.alpha
+	return err
 }
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -111,25 +123,23 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	kind, opt, err := c.options()
-	if err != nil {
+	if err := c.check(); err != nil {
 		return err
 	}
-	p, err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative, "text", "json")
-	if err != nil {
+	if err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative); err != nil {
 		return err
 	}
-	if (kind == local.Gi || kind == local.GiStar) && !c.weights.changed("transform") {
+	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.changed("transform") {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
 		// 1995), with w_ii = 1 for Gi*.
-		p.transform = weights.Binary
+		c.transform = weights.Binary
 	}
-	in, err := c.input(p)
+	in, err := c.input()
 	if err != nil {
 		return err
 	}
-	opt.Alternative = p.alt
-	res, err := local.Analyse(kind, in, opt)
+	c.opt.Alternative = c.alt
+	res, err := local.Analyse(c.kind, in, c.opt)
 	if na := (*local.NotAnalysedError)(nil); errors.As(err, &na) {
 		return fmt.Errorf("%s: --area %q is not an analysed area (unknown id, no value of %s, or no neighbour)", na.File, na.ID, na.Variable)
 	}
@@ -137,7 +147,7 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
-	if err := c.write(p.lay, res, stdout); err != nil {
+	if err := c.write(report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule}, stdout); err != nil {
 		return err
 	}
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
@@ -147,16 +157,16 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 }
 
 // input gathers the columns of the analysis from the layer.
-func (c *localFlags) input(p *layerGraph) (local.Input, error) {
-	in := local.Input{File: p.lay.Source, IDs: p.lay.IDs, Variable: c.variable, Against: c.against,
-		Graph: p.graph, Transform: p.transform, KeepIslands: p.keepIslands, NullOf: c.pics.area}
-	col, err := numericColumn(p.lay, c.variable, "the variable")
+func (c *localFlags) input() (local.Input, error) {
+	in := local.Input{File: c.lay.Source, IDs: c.lay.IDs, Variable: c.variable, Against: c.against,
+		Graph: c.graph, Transform: c.transform, KeepIslands: c.keepIslands, NullOf: c.area}
+	col, err := numericColumn(c.lay, c.variable, "the variable")
 	if err != nil {
 		return in, err
 	}
 	in.Values, in.Missing = col.Num, col.Missing
 	if c.against != "" {
-		if col, err = numericColumn(p.lay, c.against, "the --against column"); err != nil {
+		if col, err = numericColumn(c.lay, c.against, "the --against column"); err != nil {
 			return in, err
 		}
 		in.AgainstValues, in.AgainstMissing = col.Num, col.Missing
@@ -164,20 +174,35 @@ func (c *localFlags) input(p *layerGraph) (local.Input, error) {
 	return in, nil
 }
 
-// write writes the per-area table (CSV, or the layer with the results
-// added) and the pictures, and lists them in res.Written.
-func (c *localFlags) write(lay *layer.Layer, res *local.Result, stdout io.Writer) error {
-	if c.out != "" {
-		err := writeOutput(c.out, stdout, c.inputs(), func(w io.Writer) error {
-			if strings.EqualFold(filepath.Ext(c.out), ".csv") {
-				return report.LocalCSV(w, res)
-			}
-			return geojson.Write(w, lay, report.LocalColumns(res))
-		})
-		if err != nil {
+// write writes the per-area table (CSV, or a copy of the layer with the
+// results added) and the pictures asked for, and lists them in
+// res.Written.
+func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
+	res := pics.Result
+	scatter := func(w io.Writer, f plot.Format) error {
+		if res.Kind != local.Moran && res.Kind != local.CrossMoran {
+			return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
+		}
+		return pics.Scatter(w, f)
+	}
+	table := func(w io.Writer, _ plot.Format) error {
+		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
+			return report.LocalCSV(w, res)
+		}
+		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
+	}
+	for _, out := range []struct {
+		path string
+		draw func(io.Writer, plot.Format) error
+	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, scatter}, {c.histogram, pics.Histogram}} {
+		if out.path == "" {
+			continue
+		}
+		f, _ := plot.FormatFromPath(out.path) // checked by options; none for the table
+		if err := writeOutput(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
 			return err
 		}
-		res.Written = append(res.Written, c.out)
+		res.Written = append(res.Written, out.path)
 	}
-	return c.pics.draw(lay, res, stdout, c.inputs())
+	return nil
 }

@@ -33,7 +33,7 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlags("screen", screenUsage, stderr)
 	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
 	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
-	c.register(fs, "text, json or csv")
+	c.register(fs, "text", "json", "csv")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
@@ -41,14 +41,13 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usagef("--adjust: %v", err)
 	}
-	p, err := c.prepare("screen", stdin, stderr, shuffle.ParseAlternative, "text", "json", "csv")
-	if err != nil {
+	if err := c.prepare("screen", stdin, stderr, shuffle.ParseAlternative); err != nil {
 		return err
 	}
-	in, opt := p.clustering(&c)
+	in, opt := c.clustering()
 	opt.Adjust = method
-	sin := clustering.ScreenInput{Input: in, IDColumn: p.lay.IDColumn, Excluded: exclude}
-	for _, col := range p.lay.Columns {
+	sin := clustering.ScreenInput{Input: in, IDColumn: c.lay.IDColumn, Excluded: exclude}
+	for _, col := range c.lay.Columns {
 		if col.Kind == layer.Number {
 			sin.Numeric = append(sin.Numeric, clusterColumn(col))
 		} else {
@@ -56,7 +55,7 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 	}
 	for _, e := range exclude {
-		if _, err := p.lay.Column(e); err != nil {
+		if _, err := c.lay.Column(e); err != nil {
 			return fmt.Errorf("--exclude: %w", err)
 		}
 	}

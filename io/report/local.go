@@ -2,6 +2,7 @@ package report
 
 import (
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"io"
 	"strconv"
@@ -9,7 +10,9 @@ import (
 
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/spatial/local"
+	"github.com/areatest/areatest/weights"
 )
 
 // LocalText writes the summary of a local analysis: counts per category and
@@ -104,4 +107,86 @@ func LocalColumns(d *local.Result) []*layer.Column {
 		num("local_p_adjusted", func(a local.Area) float64 { return a.AdjustedP }),
 		cat,
 	}
+}
+
+// LocalPictures draws the pictures of a local result on the layer it was
+// computed on; each method renders one picture in format f.
+type LocalPictures struct {
+	Layer  *layer.Layer
+	Result *local.Result
+	// Classes is the class rule of the choropleth.
+	Classes plot.Classes
+}
+
+// classNames name the class rules in the choropleth's subtitle.
+var classNames = map[plot.Classes]string{plot.Quantile: "quantile", plot.NaturalBreaks: "natural-breaks"}
+
+func (p LocalPictures) note() string {
+	return fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
+		p.Layer.Source, p.Result.Summary.Seed, numtext.Count(p.Result.Summary.Permutations), p.Result.Version)
+}
+
+func (p LocalPictures) mapOptions(title, subtitle string) plot.MapOptions {
+	return plot.MapOptions{Title: title, Subtitle: subtitle, LonLat: weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
+		Note: p.note(), IDs: p.Layer.IDs}
+}
+
+// Map draws every area of the layer in its category.
+func (p LocalPictures) Map(w io.Writer, f plot.Format) error {
+	r, s := p.Result, p.Result.Summary
+	cats := make([]int, len(r.Areas))
+	for i, a := range r.Areas {
+		cats[i] = local.CategoryIndex(r.Kind, a.Category)
+	}
+	opt := p.mapOptions("Where "+r.Variable+" clusters",
+		fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", s.Statistic, r.Variable, s.CategoriesFrom, s.Alpha, s.Adjustment, r.Weights.Kind))
+	opt.LegendTitle = "category"
+	return plot.CategoryMap(w, f, p.Layer.Geoms, cats, plot.LocalLegend(r.Kind), opt)
+}
+
+// Choropleth draws the variable in five classes.
+func (p LocalPictures) Choropleth(w io.Writer, f plot.Format) error {
+	r := p.Result
+	values, missing := make([]float64, len(r.Areas)), make([]bool, len(r.Areas))
+	for i, a := range r.Areas {
+		if a.Value == nil {
+			missing[i] = true
+		} else {
+			values[i] = *a.Value
+		}
+	}
+	opt := p.mapOptions(r.Variable, classNames[p.Classes]+" classes")
+	return plot.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, r.Variable, opt)
+}
+
+// Scatter draws the Moran scatter of the analysed areas: the standardised
+// value against the lag of the neighbours', coloured by category, with the
+// slope of the global statistic.
+func (p LocalPictures) Scatter(w io.Writer, f plot.Format) error {
+	r := p.Result
+	areas := r.Analysed()
+	z, lag, cats := make([]float64, len(areas)), make([]float64, len(areas)), make([]int, len(areas))
+	for k, a := range areas {
+		z[k], lag[k], cats[k] = a.Standardised, a.StandardisedLag, local.CategoryIndex(r.Kind, a.Category)
+	}
+	yLabel := "mean of the neighbours (standardised)"
+	if r.Against != "" {
+		yLabel = "neighbours' " + r.Against + " (standardised)"
+	}
+	opt := plot.PlotOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Transform,
+		XLabel: r.Variable + " (standardised)", YLabel: yLabel, Note: p.note()}
+	return plot.MoranScatter(w, f, z, lag, cats, plot.LocalLegend(r.Kind), r.Summary.Total/float64(len(areas)), opt)
+}
+
+// Histogram draws the null distribution of the area whose null the result
+// kept (local.Result.NullArea).
+func (p LocalPictures) Histogram(w io.Writer, f plot.Format) error {
+	a, s := p.Result.NullArea(), p.Result.Summary
+	if a == nil {
+		return errors.New("the result kept no area's null distribution")
+	}
+	opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", s.Statistic, a.ID),
+		Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(a.Permutations), PValue(a.P), s.Alternative, a.Category),
+		XLabel:   s.Statistic, YLabel: "shuffles", Note: p.note()}
+	return plot.Histogram(w, f, a.Null, a.Statistic, opt)
 }
