@@ -265,3 +265,34 @@ func fromMoran(t autocorr.Test, alt shuffle.Alternative) Statistic {
 func named(err error, name string) error {
 	return fmt.Errorf("column %q: %w", name, err)
 }
+
+// Shuffles is the number of shuffles per test of the result: every test
+// of one run draws the same number.
+func (r *Result) Shuffles() int {
+	for _, v := range r.Variables {
+		return v.MoransI.Permutation.Permutations
+	}
+	if r.Rate != nil {
+		return r.Rate.Raw.Permutation.Permutations
+	}
+	for _, j := range r.Joins {
+		return j.Test.Different.Permutation.Permutations
+	}
+	return 0
+}
+
+// RangeShare is how far Moran's I lies from its expected value towards the
+// bound of Bounds on its side, as a fraction; towardsMax says the side is
+// the maximum.
+func (v *Variable) RangeShare() (share float64, towardsMax bool) {
+	i, e := v.MoransI.Value, v.MoransI.Expected
+	switch {
+	case i >= e && v.Bounds.Max != e:
+		return (i - e) / (v.Bounds.Max - e), true
+	case i >= e:
+		return 0, true
+	case v.Bounds.Min == e:
+		return 0, false
+	}
+	return -(i - e) / (v.Bounds.Min - e), false
+}
