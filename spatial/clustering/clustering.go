@@ -1,8 +1,3 @@
-// Package clustering answers "does this variable cluster in space, how
-// strongly, and can I trust it?" for one or more variables of a layer
-// (Autocorr), and for every numeric column at once (Screen). It assembles
-// the global statistics of package autocorr on the neighbour graph among the
-// areas that have data, and holds the result structs the reports render.
 package clustering
 
 import (
