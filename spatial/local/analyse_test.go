@@ -44,8 +44,8 @@ func TestAnalyseLayer(t *testing.T) {
 	if a := res.NullArea(); a == nil || a.ID != "f" || len(a.Null) != a.Permutations {
 		t.Fatalf("null area %+v", a)
 	}
-	if len(res.Warnings) != 2 {
-		t.Errorf("warnings %q, want the missing value and the island", res.Warnings)
+	if n := len(res.Weights.Warnings); len(res.Warnings) != n+2 {
+		t.Errorf("warnings %q, want the weights' and then the missing value and the island", res.Warnings)
 	}
 	in.NullOf = "a"
 	var na *NotAnalysedError
