@@ -1,16 +1,18 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
 	"strings"
 
+	"github.com/spf13/pflag"
+
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
-	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
@@ -38,261 +40,169 @@ Examples:
   areatest local -i counties.geojson --variable rate --histogram d017.svg --area D017
 `
 
-// nodata is the category of areas without a value of the variable.
-const nodata = "no data"
+// localFlags are the settings of `areatest local`.
+type localFlags struct {
+	sharedFlags
+	variable, against, statistic, adjust, out, categories, classes string
+	// The pictures, and the area of the histogram.
+	mapFile, choropleth, scatter, histogram, area string
+	alpha                                         float64
+	top                                           int
+	// Set by check.
+	kind      local.Kind
+	opt       local.Options
+	classRule plot.Classes
+}
+
+func (c *localFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&c.variable, "variable", "", "numeric column to analyse")
+	fs.StringVar(&c.against, "against", "", "with --statistic cross-moran: the column whose neighbours' values are compared")
+	fs.StringVar(&c.statistic, "statistic", "moran", "moran, cross-moran, geary, gi or gi-star")
+	fs.StringVar(&c.adjust, "adjust", "bh", "adjustment across areas: bh (Benjamini–Hochberg), by, holm, bonferroni or none")
+	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which an area counts as significant")
+	fs.StringVar(&c.categories, "categories", "adjusted", "categories from the adjusted or the raw p-values")
+	fs.StringVar(&c.out, "out", "", "per-area results: a .csv table or a .geojson copy of the layer with the results added")
+	fs.StringVar(&c.mapFile, "map", "", "map of the areas' categories (.svg or .png)")
+	fs.StringVar(&c.choropleth, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
+	fs.StringVar(&c.scatter, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
+	fs.StringVar(&c.histogram, "histogram", "", "permutation histogram of one area, named by --area (.svg or .png)")
+	fs.StringVar(&c.area, "area", "", "the area (id) for --histogram")
+	fs.StringVar(&c.classes, "classes", "quantile", "classes of --choropleth: quantile or natural (natural breaks, Fisher 1958), 5 of them")
+	fs.IntVar(&c.top, "top", 10, "how many of the strongest areas the text report lists")
+	c.sharedFlags.register(fs, "text", "json")
+	fs.Lookup("alternative").Usage = "two-sided (default), folded (the tail the observed value falls in; flags about 2·alpha of areas without any pattern), greater or less"
+}
+
+// check checks local's own flags and reads the statistic, the options of
+// the tests (the alternative comes with the shared flags) and the class
+// rule of the choropleth.
+func (c *localFlags) check() (err error) {
+	if c.variable == "" {
+		return usagef("--variable is required (see areatest local --help)")
+	}
+	if c.kind, err = local.ParseKind(c.statistic); err != nil {
+		return usagef("--statistic: %v", err)
+	}
+	if c.opt.Adjustment, err = shuffle.ParseMethod(c.adjust); err != nil {
+		return usagef("--adjust: %v", err)
+	}
+	if c.opt.RawCategories, err = choice.Parse("--categories", c.categories,
+		choice.Name[bool]{Name: "adjusted", Value: false}, choice.Name[bool]{Name: "raw", Value: true}); err != nil {
+		return usagef("%v", err)
+	}
+	if c.classRule, err = choice.Parse("--classes", c.classes,
+		choice.Name[plot.Classes]{Name: "quantile", Value: plot.Quantile}, choice.Name[plot.Classes]{Name: "natural", Value: plot.NaturalBreaks}); err != nil {
+		return usagef("%v", err)
+	}
+	switch ext := strings.ToLower(filepath.Ext(c.out)); {
+	case (c.kind == local.CrossMoran) != (c.against != ""):
+		err = usagef("--against goes with --statistic cross-moran, and that statistic needs it")
+	case !(c.alpha > 0 && c.alpha < 1):
+		err = usagef("--alpha must be between 0 and 1")
+	case (c.histogram == "") != (c.area == ""):
+		err = usagef("--histogram and --area go together")
+	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
+		err = usagef("--out must end in .csv or .geojson, not %q", ext)
+	}
+	for _, f := range []string{c.mapFile, c.choropleth, c.scatter, c.histogram} {
+		if f == "" || err != nil {
+			continue
+		}
+		if _, ferr := plot.FormatFromPath(f); ferr != nil {
+			err = usagef("%v", ferr)
+		}
+	}
+	c.opt.Permutations, c.opt.Seed, c.opt.Workers, c.opt.Alpha = c.permutations, c.seed, c.workers, c.alpha
+	return err
+}
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
-	var c clusterFlags
-	var variable, against, statistic, adjust, out, mapFile, valueMap, scatterFile, histFile, area, classes, categoriesFrom string
-	var alpha float64
-	var top int
+	var c localFlags
 	fs := newFlags("local", localUsage, stderr)
-	fs.StringVar(&variable, "variable", "", "numeric column to analyse")
-	fs.StringVar(&against, "against", "", "with --statistic cross-moran: the column whose neighbours' values are compared")
-	fs.StringVar(&statistic, "statistic", "moran", "moran, cross-moran, geary, gi or gi-star")
-	fs.StringVar(&adjust, "adjust", "bh", "adjustment across areas: bh (Benjamini–Hochberg), by, holm, bonferroni or none")
-	fs.Float64Var(&alpha, "alpha", 0.05, "level at which an area counts as significant")
-	fs.StringVar(&categoriesFrom, "categories", "adjusted", "categories from the adjusted or the raw p-values")
-	fs.StringVar(&out, "out", "", "per-area results: a .csv table or a .geojson copy of the layer with the results added")
-	fs.StringVar(&mapFile, "map", "", "map of the areas' categories (.svg or .png)")
-	fs.StringVar(&valueMap, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
-	fs.StringVar(&scatterFile, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
-	fs.StringVar(&histFile, "histogram", "", "permutation histogram of one area, named by --area (.svg or .png)")
-	fs.StringVar(&area, "area", "", "the area (id) for --histogram")
-	fs.StringVar(&classes, "classes", "quantile", "classes of --choropleth: quantile or natural (natural breaks, Fisher 1958), 5 of them")
-	fs.IntVar(&top, "top", 10, "how many of the strongest areas the text report lists")
-	c.register(fs, "text or json")
-	fs.Lookup("alternative").Usage = "two-sided (default), folded (the tail the observed value falls in; flags about 2·alpha of areas without any pattern), greater or less"
+	c.register(fs)
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	if variable == "" {
-		return usagef("--variable is required (see areatest local --help)")
-	}
-	kind, err := local.ParseKind(statistic)
-	if err != nil {
-		return usagef("--statistic: %v", err)
-	}
-	if (kind == local.CrossMoran) != (against != "") {
-		return usagef("--against goes with --statistic cross-moran, and that statistic needs it")
-	}
-	method, err := shuffle.ParseMethod(adjust)
-	if err != nil {
-		return usagef("--adjust: %v", err)
-	}
-	if categoriesFrom != "adjusted" && categoriesFrom != "raw" {
-		return usagef("--categories must be adjusted or raw")
-	}
-	if !(alpha > 0 && alpha < 1) {
-		return usagef("--alpha must be between 0 and 1")
-	}
-	if (histFile == "") != (area == "") {
-		return usagef("--histogram and --area go together")
-	}
-	if classes != "quantile" && classes != "natural" {
-		return usagef("--classes must be quantile or natural, not %q", classes)
-	}
-	for _, f := range []string{mapFile, valueMap, scatterFile, histFile} {
-		if f != "" {
-			if _, err := plot.FormatFromPath(f); err != nil {
-				return usagef("%v", err)
-			}
-		}
-	}
-	if out != "" {
-		if ext := strings.ToLower(filepath.Ext(out)); ext != ".csv" && ext != ".geojson" && ext != ".json" {
-			return usagef("--out must end in .csv or .geojson, not %q", ext)
-		}
-	}
-	alt, err := shuffle.ParseLocalAlternative(c.alternative)
-	if err != nil {
-		return usagef("--alternative: %v", err)
-	}
-	c.alternative = "two-sided" // checked above; prepare knows only the global alternatives
-	lay, in, _, err := c.prepare("local", stdin, stderr, "text", "json")
-	if err != nil {
+	if err := c.check(); err != nil {
 		return err
 	}
-	if (kind == local.Gi || kind == local.GiStar) && !c.weights.changed("transform") {
+	if err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative); err != nil {
+		return err
+	}
+	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.changed("transform") {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
 		// 1995), with w_ii = 1 for Gi*.
-		in.Transform = weights.Binary
+		c.transform = weights.Binary
 	}
-	col, err := numericColumn(lay, variable, "the variable")
+	in, err := c.input()
 	if err != nil {
 		return err
 	}
-	masks := [][]bool{col.Missing}
-	var yCol *clustering.Column
-	if against != "" {
-		if yCol, err = numericColumn(lay, against, "the --against column"); err != nil {
-			return err
-		}
-		masks = append(masks, yCol.Missing)
+	c.opt.Alternative = c.alt
+	res, err := local.Analyse(c.kind, in, c.opt)
+	if na := (*local.NotAnalysedError)(nil); errors.As(err, &na) {
+		return fmt.Errorf("%s: --area %q is not an analysed area (unknown id, no value of %s, or no neighbour)", na.File, na.ID, na.Variable)
 	}
-	keep := presentAreas(lay.Len(), masks...)
-	r, err := weights.Restrict(in.Graph, keep, lay.IDs, in.Transform, in.KeepIslands)
 	if err != nil {
 		return err
 	}
-	if len(r.Used) < 3 || r.Graph.Links() == 0 {
-		return fmt.Errorf("%s: only %d areas with a value of %s have a neighbour among themselves; a local analysis needs more", lay.Source, len(r.Used), variable)
-	}
-	x := make([]float64, len(r.Used))
-	var y []float64
-	for k, u := range r.Used {
-		x[k] = col.Values[keep[u]]
-	}
-	if yCol != nil {
-		y = make([]float64, len(r.Used))
-		for k, u := range r.Used {
-			y[k] = yCol.Values[keep[u]]
-		}
-	}
-	histIndex := -1
-	if area != "" {
-		for k, u := range r.Used {
-			if lay.IDs[keep[u]] == area {
-				histIndex = k
-			}
-		}
-		if histIndex < 0 {
-			return fmt.Errorf("%s: --area %q is not an analysed area (unknown id, no value of %s, or no neighbour)", lay.Source, area, variable)
-		}
-	}
-	lopt := local.Options{Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alternative: alt, Alpha: alpha,
-		Adjustment: method, RawCategories: categoriesFrom == "raw"}
-	if histIndex >= 0 {
-		lopt.KeepNull = []int{histIndex}
-	}
-	results, err := local.Run(kind, x, y, r.Graph, lopt)
-	if err != nil {
-		return fmt.Errorf("%s: %v", lay.Source, err)
-	}
-	doc := &report.LocalDocument{Version: Version, Input: lay.Source, Variable: variable, Against: against,
-		Weights: r.Summary, Summary: local.Summarise(kind, results, lopt), Warnings: append([]string{}, r.Summary.Warnings...),
-		Cautions: localCautions}
-	for _, res := range results {
-		if res.P <= alpha {
-			doc.RawSignificant++
-		}
-		if res.AdjustedP <= alpha {
-			doc.AdjustedSignificant++
-		}
-	}
-	doc.Areas = make([]report.LocalArea, lay.Len())
-	for i := range doc.Areas {
-		doc.Areas[i] = report.LocalArea{ID: lay.IDs[i], AreaResult: local.AreaResult{Index: i, Category: nodata}}
-		if !col.Missing[i] {
-			doc.Areas[i].Value = &col.Values[i]
-		}
-	}
-	for _, k := range keep {
-		doc.Areas[k].Category = local.NoNeighbours
-	}
-	for k, res := range results {
-		i := keep[r.Used[k]]
-		res.Index = i
-		doc.Areas[i] = report.LocalArea{ID: lay.IDs[i], Value: &col.Values[i], AreaResult: res, Analysed: true}
-	}
-	// Count categories over the whole layer, so the areas left out show too.
-	count := map[string]int{}
-	for _, a := range doc.Areas {
-		count[a.Category]++
-	}
-	doc.Summary.Categories = doc.Summary.Categories[:0]
-	for _, name := range append(local.Categories(kind), nodata) {
-		if name != nodata || count[nodata] > 0 {
-			doc.Summary.Categories = append(doc.Summary.Categories, local.CategoryCount{Category: name, Areas: count[name]})
-		}
-	}
-	if missing := lay.Len() - len(keep); missing > 0 {
-		doc.Warnings = append(doc.Warnings, fmt.Sprintf("%d area(s) have no value and are drawn as \"%s\".", missing, nodata))
-	}
-	if islands := len(keep) - len(r.Used); islands > 0 {
-		doc.Warnings = append(doc.Warnings, fmt.Sprintf("%d area(s) have no neighbour among the areas with values and are left out (category \"%s\").", islands, local.NoNeighbours))
-	}
-	if alt == shuffle.Folded {
-		doc.Warnings = append(doc.Warnings, fmt.Sprintf("Folded p-values are one-sided in the direction each area departs: on a map without any spatial pattern about %g%% of areas pass at %g before adjustment.", 200*alpha, alpha))
-	}
-	inputs := []string{c.input, c.weights.file}
-	if out != "" {
-		if err := writeLocalTable(out, lay, doc, stdout, inputs); err != nil {
-			return err
-		}
-		doc.Written = append(doc.Written, out)
-	}
-	pics := localPictures{category: mapFile, value: valueMap, scatter: scatterFile, histogram: histFile, classes: classes, area: area}
-	if err := pics.draw(lay, doc, kind, variable, results, histIndex, stdout, inputs); err != nil {
+	res.Version = Version
+	if err := c.write(report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule}, stdout); err != nil {
 		return err
 	}
-	for _, f := range []string{mapFile, valueMap, scatterFile, histFile} {
-		if f != "" {
-			doc.Written = append(doc.Written, f)
-		}
-	}
-	if c.format == "json" {
-		for _, w := range doc.Warnings {
-			warn(stderr, w)
-		}
-	}
-	return writeOutput(c.output, stdout, inputs, func(w io.Writer) error {
-		if c.format == "json" {
-			return report.JSON(w, doc)
-		}
-		return report.LocalText(w, doc, top)
+	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
+		"json": func(w io.Writer) error { return report.JSON(w, res) },
+		"text": func(w io.Writer) error { return report.LocalText(w, res, c.top) },
 	})
 }
 
-var localCautions = []string{
-	"A cluster on the map is a pattern across areas; it does not say what causes it.",
-	"Results for areas do not carry over to the individuals living in them (the ecological fallacy).",
-	"Rates from areas with small populations are unstable and often show up as outliers; smooth or standardise rates first.",
-	"This tool supports, and does not replace, the judgement of trained epidemiologists and local rules of practice.",
+// input gathers the columns of the analysis from the layer.
+func (c *localFlags) input() (local.Input, error) {
+	in := local.Input{File: c.lay.Source, IDs: c.lay.IDs, Variable: c.variable, Against: c.against,
+		Graph: c.graph, Transform: c.transform, KeepIslands: c.keepIslands, NullOf: c.area}
+	col, err := numericColumn(c.lay, c.variable, "the variable")
+	if err != nil {
+		return in, err
+	}
+	in.Values, in.Missing = col.Num, col.Missing
+	if c.against != "" {
+		if col, err = numericColumn(c.lay, c.against, "the --against column"); err != nil {
+			return in, err
+		}
+		in.AgainstValues, in.AgainstMissing = col.Num, col.Missing
+	}
+	return in, nil
 }
 
-// presentAreas lists the areas where no mask is set.
-func presentAreas(n int, masks ...[]bool) []int {
-	var keep []int
-outer:
-	for i := 0; i < n; i++ {
-		for _, m := range masks {
-			if m[i] {
-				continue outer
-			}
+// write writes the per-area table (CSV, or a copy of the layer with the
+// results added) and the pictures asked for, and lists them in
+// res.Written.
+func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
+	res := pics.Result
+	scatter := func(w io.Writer, f plot.Format) error {
+		if res.Kind != local.Moran && res.Kind != local.CrossMoran {
+			return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
 		}
-		keep = append(keep, i)
+		return pics.Scatter(w, f)
 	}
-	return keep
-}
-
-// writeLocalTable writes the per-area results as CSV, or as the input
-// features with the results added as properties.
-func writeLocalTable(path string, lay *layer.Layer, doc *report.LocalDocument, stdout io.Writer, inputs []string) error {
-	if strings.EqualFold(filepath.Ext(path), ".csv") {
-		return writeOutput(path, stdout, inputs, func(w io.Writer) error { return report.LocalCSV(w, doc) })
-	}
-	n := lay.Len()
-	num := func(name string, get func(a report.LocalArea) float64) *layer.Column {
-		c := &layer.Column{Name: name, Kind: layer.Number, Num: make([]float64, n), Missing: make([]bool, n)}
-		for i, a := range doc.Areas {
-			c.Num[i], c.Missing[i] = get(a), !a.Analysed
+	table := func(w io.Writer, _ plot.Format) error {
+		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
+			return report.LocalCSV(w, res)
 		}
-		return c
+		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
 	}
-	cat := &layer.Column{Name: "local_category", Kind: layer.Text, Str: make([]string, n), Missing: make([]bool, n)}
-	for i, a := range doc.Areas {
-		cat.Str[i] = a.Category
+	for _, out := range []struct {
+		path string
+		draw func(io.Writer, plot.Format) error
+	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, scatter}, {c.histogram, pics.Histogram}} {
+		if out.path == "" {
+			continue
+		}
+		f, _ := plot.FormatFromPath(out.path) // checked by options; none for the table
+		if err := writeOutput(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
+			return err
+		}
+		res.Written = append(res.Written, out.path)
 	}
-	extra := []*layer.Column{
-		num("local_lag", func(a report.LocalArea) float64 { return a.Lag }),
-		num("local_statistic", func(a report.LocalArea) float64 { return a.Statistic }),
-		num("local_expected", func(a report.LocalArea) float64 { return a.Expected }),
-		num("local_sd", func(a report.LocalArea) float64 { return a.SD }),
-		num("local_z", func(a report.LocalArea) float64 { return a.Z }),
-		num("local_p", func(a report.LocalArea) float64 { return a.P }),
-		num("local_p_adjusted", func(a report.LocalArea) float64 { return a.AdjustedP }),
-		cat,
-	}
-	return writeOutput(path, stdout, inputs, func(w io.Writer) error { return geojson.Write(w, lay, extra) })
+	return nil
 }

@@ -11,9 +11,16 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime"
 
 	"github.com/spf13/pflag"
 	"golang.org/x/term"
+
+	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
 )
 
 // Version is the release of this build; it is written into every output.
@@ -97,27 +104,25 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "areatest: %v\n", err)
 		return 2
 	default:
-		fmt.Fprintf(stderr, "%s %v\n", paint(stderr, "areatest: error:"), err)
+		fmt.Fprintf(stderr, "%s %v\n", paint(stderr, "31", "areatest: error:"), err)
 		return 1
 	}
 }
 
-// paint colours a label red for a terminal, unless NO_COLOR is set
-// (no-color.org).
-func paint(w io.Writer, s string) string {
+// paint colours a label for a terminal (ANSI code, 31 red, 33 yellow),
+// unless NO_COLOR is set (no-color.org).
+func paint(w io.Writer, code, s string) string {
 	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) && os.Getenv("NO_COLOR") == "" {
-		return "\x1b[1;31m" + s + "\x1b[0m"
+		return "\x1b[1;" + code + "m" + s + "\x1b[0m"
 	}
 	return s
 }
 
-// warn writes one warning line to stderr.
-func warn(w io.Writer, msg string) {
-	label := "areatest: warning:"
-	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) && os.Getenv("NO_COLOR") == "" {
-		label = "\x1b[1;33m" + label + "\x1b[0m"
+// warn writes one warning line a message to stderr.
+func warn(w io.Writer, msgs ...string) {
+	for _, m := range msgs {
+		fmt.Fprintf(w, "%s %s\n", paint(w, "33", "areatest: warning:"), m)
 	}
-	fmt.Fprintf(w, "%s %s\n", label, msg)
 }
 
 // newFlags makes a flag set that reports errors instead of exiting, with
@@ -146,4 +151,94 @@ func parseFlags(fs *pflag.FlagSet, args []string) error {
 		return usagef("unexpected argument %q (see areatest %s --help)", fs.Arg(0), fs.Name())
 	}
 	return nil
+}
+
+// sharedFlags are the settings autocorr, screen and local share, and what
+// prepare makes of them.
+type sharedFlags struct {
+	input, id, alternative, format, output string
+	skipBadGeometry                        bool
+	permutations, workers                  int
+	seed                                   uint64
+	weights                                weightFlags
+	formats                                []choice.Name[string]
+	// Set by prepare: the layer, the neighbour graph of all its areas and
+	// how the statistics use it.
+	lay         *layer.Layer
+	graph       *weights.Graph
+	spec        weights.Spec
+	transform   weights.Transform
+	keepIslands bool
+	alt         shuffle.Alternative
+}
+
+// register adds the shared flags to fs; the first of formats is the
+// default.
+func (c *sharedFlags) register(fs *pflag.FlagSet, formats ...string) {
+	for _, f := range formats {
+		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
+	}
+	fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+	fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
+	fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
+	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (more clustered than chance) or less (more dispersed)")
+	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test")
+	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
+	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
+	fs.StringVar(&c.format, "format", formats[0], choice.List(c.formats))
+	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+	c.weights.register(fs)
+}
+
+// prepare checks the shared flags (the alternative read by parseAlt),
+// reads the layer and builds the graph.
+func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, parseAlt func(string) (shuffle.Alternative, error)) (err error) {
+	if c.input == "" {
+		return usagef("--input is required (see areatest %s --help)", cmd)
+	}
+	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
+		return usagef("%v", err)
+	}
+	if c.alt, err = parseAlt(c.alternative); err != nil {
+		return usagef("--alternative: %v", err)
+	}
+	if c.permutations < 1 || c.workers < 1 {
+		return usagef("--permutations and --workers must be at least 1")
+	}
+	if c.spec, c.transform, c.keepIslands, err = c.weights.spec(); err != nil {
+		return err
+	}
+	var warnings []string
+	if c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry}); err != nil {
+		return err
+	}
+	warn(stderr, warnings...)
+	c.graph, warnings, err = c.weights.graph(c.lay, c.spec)
+	warn(stderr, warnings...)
+	return err
+}
+
+// emit writes the result in the chosen format, by render; the text report
+// shows its warnings itself, the other formats leave them to stderr.
+func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
+	if c.format != "text" {
+		warn(stderr, warnings...)
+	}
+	return writeOutput(c.output, stdout, c.inputs(), render[c.format])
+}
+
+// inputs are the files no output may overwrite.
+func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file} }
+
+// numericColumn returns the named column, which must be numeric; role
+// says what it is for, in the error.
+func numericColumn(lay *layer.Layer, name, role string) (*layer.Column, error) {
+	col, err := lay.Column(name)
+	if err != nil {
+		return nil, err
+	}
+	if col.Kind != layer.Number {
+		return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); %s must be a number", lay.Source, name, firstValue(col), firstID(lay, col), role)
+	}
+	return col, nil
 }

@@ -27,13 +27,13 @@ Examples:
 `
 
 func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
-	var c clusterFlags
+	var c sharedFlags
 	var exclude []string
 	var adjust string
 	fs := newFlags("screen", screenUsage, stderr)
 	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
 	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
-	c.register(fs, "text, json or csv")
+	c.register(fs, "text", "json", "csv")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
@@ -41,25 +41,22 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usagef("--adjust: %v", err)
 	}
-	lay, in, opt, err := c.prepare("screen", stdin, stderr, "text", "json", "csv")
-	if err != nil {
+	if err := c.prepare("screen", stdin, stderr, shuffle.ParseAlternative); err != nil {
 		return err
 	}
+	in, opt := c.clustering()
 	opt.Adjust = method
-	known := map[string]bool{}
-	sin := clustering.ScreenInput{Input: in, IDColumn: lay.IDColumn, Excluded: exclude}
-	for _, col := range lay.Columns {
-		known[col.Name] = true
+	sin := clustering.ScreenInput{Input: in, IDColumn: c.lay.IDColumn, Excluded: exclude}
+	for _, col := range c.lay.Columns {
 		if col.Kind == layer.Number {
-			sin.Numeric = append(sin.Numeric, clustering.Column{Name: col.Name, Values: col.Num, Missing: col.Missing})
+			sin.Numeric = append(sin.Numeric, clusterColumn(col))
 		} else {
 			sin.Text = append(sin.Text, col.Name)
 		}
 	}
 	for _, e := range exclude {
-		if !known[e] {
-			_, err := lay.Column(e)
-			return fmt.Errorf("--exclude: %v", err)
+		if _, err := c.lay.Column(e); err != nil {
+			return fmt.Errorf("--exclude: %w", err)
 		}
 	}
 	bar := newProgress(stderr)
@@ -70,18 +67,9 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
-	if c.format != "text" {
-		for _, w := range res.Warnings {
-			warn(stderr, w)
-		}
-	}
-	return writeOutput(c.output, stdout, []string{c.input, c.weights.file}, func(w io.Writer) error {
-		switch c.format {
-		case "json":
-			return report.JSON(w, res)
-		case "csv":
-			return report.ScreenCSV(w, res)
-		}
-		return report.ScreenText(w, res)
+	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
+		"json": func(w io.Writer) error { return report.JSON(w, res) },
+		"csv":  func(w io.Writer) error { return report.ScreenCSV(w, res) },
+		"text": func(w io.Writer) error { return report.ScreenText(w, res) },
 	})
 }

@@ -18,116 +18,106 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 	fmt.Fprintf(&b, "  input      %s, %s areas\n", r.Input, numtext.Count(r.Areas))
 	fmt.Fprintf(&b, "  weights    %s, %s; %s, %s without neighbours%s\n\n", r.Weights.Kind, r.Weights.Transform,
 		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
-	head := func() {
-		fmt.Fprintf(&b, "  %-12s %9s %9s %9s %10s %10s %10s\n", "", "value", "expected", "z", "p normal", "p random", "p shuffle")
-	}
-	line := func(name string, s clustering.Statistic, withNormal bool) {
-		pn := "–"
-		if withNormal {
-			pn = PValue(s.PNormality)
-		}
-		fmt.Fprintf(&b, "  %-12s %9s %9s %9s %10s %10s %10s\n", name, Number(s.Value), Number(s.Expected),
-			Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
-	}
 	for _, v := range r.Variables {
-		fmt.Fprintf(&b, "%s (%s areas", v.Name, numtext.Count(v.Areas))
-		if v.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without a value", numtext.Count(v.Missing))
-		}
-		if v.Islands > 0 {
-			fmt.Fprintf(&b, ", %s left out without neighbours", numtext.Count(v.Islands))
-		}
-		b.WriteString(")\n")
-		head()
-		line("Moran's I", v.MoransI, true)
-		line("Geary's C", v.GearysC, true)
-		if v.GeneralG != nil {
-			line("General G", *v.GeneralG, false)
-		}
-		if v.Bivariate != nil {
-			line("bivariate I", v.Bivariate.Statistic, false)
-		}
-		side := "maximum"
-		if v.MoransI.Value < v.MoransI.Expected {
-			side = "minimum"
-		}
-		b.WriteString(Wrap(fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
-			Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share(v.MoransI.Value, v.MoransI.Expected, v.Bounds.Max, v.Bounds.Min), side), width, "  ", "  "))
-		if v.GeneralGSkipped != "" {
-			b.WriteString(Wrap("General G skipped: "+v.GeneralGSkipped+".", width, "  ", "  "))
-		}
-		if len(v.Correlogram) > 0 {
-			fmt.Fprintf(&b, "  %-30s %9s %9s %9s %10s\n", "correlogram", "pairs", "Moran's I", "expected", "p shuffle")
-			for k, l := range v.Correlogram {
-				fmt.Fprintf(&b, "  %-30s %9s %9.3f %9.3f %10s\n", truncate(v.CorrelogramClasses[k], 30), numtext.Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
-			}
-		}
-		b.WriteString("\n")
+		variableText(&b, v)
 	}
 	for _, j := range r.Joins {
-		fmt.Fprintf(&b, "%s: join counts (%s areas, %s joins", j.Name, numtext.Count(j.Areas), numtext.Count(j.Test.Joins))
-		if j.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without a value", numtext.Count(j.Missing))
-		}
-		b.WriteString(")\n")
-		fmt.Fprintf(&b, "  %-22s %7s %7s %10s %8s %10s\n", "joins", "areas", "count", "expected", "z", "p shuffle")
-		for _, s := range j.Test.Same {
-			fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", truncate("both "+j.Levels[s.Category], 22), numtext.Count(s.Areas), numtext.Count(s.Joins), s.Expected, s.Z, PValue(s.Permutation.PValue))
-		}
-		d := j.Test.Different
-		fmt.Fprintf(&b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", numtext.Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
-		b.WriteString("  Clustering shows as more same-category joins and fewer different-category joins than expected.\n\n")
+		joinsText(&b, j)
 	}
 	if rt := r.Rate; rt != nil {
-		fmt.Fprintf(&b, "rate %s per %s (%s areas, overall rate %s", rt.Events, rt.Population, numtext.Count(rt.Areas), Number(rt.MeanRate))
-		if rt.Missing > 0 {
-			fmt.Fprintf(&b, ", %s without counts", numtext.Count(rt.Missing))
-		}
-		b.WriteString(")\n")
-		head()
-		line("raw rate", rt.Raw, true)
-		line("EB scores", rt.EB, true)
-		b.WriteString(Wrap(fmt.Sprintf("The empirical-Bayes (EB) Moran's I (Assunção & Reis 1999) weighs each area's rate by how much its population lets it be trusted; populations here range from %s to %s. When the two disagree, trust the EB value.", Number(rt.Smallest), Number(rt.Largest)), width, "  ", "  "))
-		if len(rt.Floored) > 0 {
-			b.WriteString(Wrap(fmt.Sprintf("%d area(s) had a negative estimated variance and used the Poisson part alone: %s.", len(rt.Floored), strings.Join(first(rt.Floored, 8), ", ")), width, "  ", "  "))
-		}
-		b.WriteString("\n")
+		rateText(&b, rt)
 	}
 	b.WriteString(Wrap("z is under randomisation; \"p normal\" and \"p random\" are the normal approximations under the normality and randomisation hypotheses (Cliff & Ord 1981), \"p shuffle\" the permutation p-value (1 + b)/(1 + B). Geary's C below 1 and Moran's I above its expected value mean neighbours are alike.", width, "  ", "  "))
 	b.WriteString("\n")
 	writeWarnings(&b, r.Warnings)
 	writeCautions(&b, r.Cautions)
-	fmt.Fprintf(&b, "\nseed %d · %s shuffles per test · areatest %s\n", r.Seed, numtext.Count(shuffles(r)), r.Version)
+	fmt.Fprintf(&b, "\nseed %d · %s shuffles per test · areatest %s\n", r.Seed, numtext.Count(r.Shuffles()), r.Version)
 	_, err := io.WriteString(w, b.String())
 	return err
 }
 
-func shuffles(r *clustering.Result) int {
-	for _, v := range r.Variables {
-		return v.MoransI.Permutation.Permutations
-	}
-	if r.Rate != nil {
-		return r.Rate.Raw.Permutation.Permutations
-	}
-	for _, j := range r.Joins {
-		return j.Test.Different.Permutation.Permutations
-	}
-	return 0
+// statisticHead writes the column heads of statistic lines.
+func statisticHead(b *strings.Builder) {
+	fmt.Fprintf(b, "  %-12s %9s %9s %9s %10s %10s %10s\n", "", "value", "expected", "z", "p normal", "p random", "p shuffle")
 }
 
-// share is how far v lies from the expected value towards the bound on its
-// side, as a fraction.
-func share(v, expected, max, min float64) float64 {
-	if v >= expected {
-		if max == expected {
-			return 0
+// statisticLine writes one statistic; withNormal shows its p-value under
+// normality, where it has one.
+func statisticLine(b *strings.Builder, name string, s clustering.Statistic, withNormal bool) {
+	pn := "–"
+	if withNormal {
+		pn = PValue(s.PNormality)
+	}
+	fmt.Fprintf(b, "  %-12s %9s %9s %9s %10s %10s %10s\n", name, Number(s.Value), Number(s.Expected),
+		Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
+}
+
+func variableText(b *strings.Builder, v clustering.Variable) {
+	fmt.Fprintf(b, "%s (%s areas", v.Name, numtext.Count(v.Areas))
+	if v.Missing > 0 {
+		fmt.Fprintf(b, ", %s without a value", numtext.Count(v.Missing))
+	}
+	if v.Islands > 0 {
+		fmt.Fprintf(b, ", %s left out without neighbours", numtext.Count(v.Islands))
+	}
+	b.WriteString(")\n")
+	statisticHead(b)
+	statisticLine(b, "Moran's I", v.MoransI, true)
+	statisticLine(b, "Geary's C", v.GearysC, true)
+	if v.GeneralG != nil {
+		statisticLine(b, "General G", *v.GeneralG, false)
+	}
+	if v.Bivariate != nil {
+		statisticLine(b, "bivariate I", v.Bivariate.Statistic, false)
+	}
+	share, towardsMax := v.RangeShare()
+	side := "minimum"
+	if towardsMax {
+		side = "maximum"
+	}
+	b.WriteString(Wrap(fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
+		Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share, side), width, "  ", "  "))
+	if v.GeneralGSkipped != "" {
+		b.WriteString(Wrap("General G skipped: "+v.GeneralGSkipped+".", width, "  ", "  "))
+	}
+	if len(v.Correlogram) > 0 {
+		fmt.Fprintf(b, "  %-30s %9s %9s %9s %10s\n", "correlogram", "pairs", "Moran's I", "expected", "p shuffle")
+		for k, l := range v.Correlogram {
+			fmt.Fprintf(b, "  %-30s %9s %9.3f %9.3f %10s\n", truncate(v.CorrelogramClasses[k], 30), numtext.Count(l.Pairs), l.MoransI, l.Expected, PValue(l.Permutation.PValue))
 		}
-		return (v - expected) / (max - expected)
 	}
-	if min == expected {
-		return 0
+	b.WriteString("\n")
+}
+
+func joinsText(b *strings.Builder, j clustering.Joins) {
+	fmt.Fprintf(b, "%s: join counts (%s areas, %s joins", j.Name, numtext.Count(j.Areas), numtext.Count(j.Test.Joins))
+	if j.Missing > 0 {
+		fmt.Fprintf(b, ", %s without a value", numtext.Count(j.Missing))
 	}
-	return -(v - expected) / (min - expected)
+	b.WriteString(")\n")
+	fmt.Fprintf(b, "  %-22s %7s %7s %10s %8s %10s\n", "joins", "areas", "count", "expected", "z", "p shuffle")
+	for _, s := range j.Test.Same {
+		fmt.Fprintf(b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", truncate("both "+j.Levels[s.Category], 22), numtext.Count(s.Areas), numtext.Count(s.Joins), s.Expected, s.Z, PValue(s.Permutation.PValue))
+	}
+	d := j.Test.Different
+	fmt.Fprintf(b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", numtext.Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
+	b.WriteString("  Clustering shows as more same-category joins and fewer different-category joins than expected.\n\n")
+}
+
+func rateText(b *strings.Builder, rt *clustering.Rate) {
+	fmt.Fprintf(b, "rate %s per %s (%s areas, overall rate %s", rt.Events, rt.Population, numtext.Count(rt.Areas), Number(rt.MeanRate))
+	if rt.Missing > 0 {
+		fmt.Fprintf(b, ", %s without counts", numtext.Count(rt.Missing))
+	}
+	b.WriteString(")\n")
+	statisticHead(b)
+	statisticLine(b, "raw rate", rt.Raw, true)
+	statisticLine(b, "EB scores", rt.EB, true)
+	b.WriteString(Wrap(fmt.Sprintf("The empirical-Bayes (EB) Moran's I (Assunção & Reis 1999) weighs each area's rate by how much its population lets it be trusted; populations here range from %s to %s. When the two disagree, trust the EB value.", Number(rt.Smallest), Number(rt.Largest)), width, "  ", "  "))
+	if len(rt.Floored) > 0 {
+		b.WriteString(Wrap(fmt.Sprintf("%d area(s) had a negative estimated variance and used the Poisson part alone: %s.", len(rt.Floored), strings.Join(first(rt.Floored, 8), ", ")), width, "  ", "  "))
+	}
+	b.WriteString("\n")
 }
 
 func writeWarnings(b *strings.Builder, warnings []string) {

@@ -2,50 +2,22 @@ package report
 
 import (
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"io"
-	"math"
-	"sort"
 	"strconv"
 	"strings"
 
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/weights"
 )
 
-// LocalArea is one area of a local analysis, named by id. Areas left out
-// (no value, or no neighbour) carry only their id, value and category.
-type LocalArea struct {
-	ID string `json:"id"`
-	// Value is the area's value, null when it has none (JSON has no NaN);
-	// it shadows the embedded result's value.
-	Value *float64 `json:"value"`
-	local.AreaResult
-	Analysed bool `json:"analysed"`
-}
-
-// LocalDocument is what `areatest local` reports.
-type LocalDocument struct {
-	Version  string          `json:"version"`
-	Input    string          `json:"input"`
-	Variable string          `json:"variable"`
-	Against  string          `json:"against,omitempty"`
-	Weights  weights.Summary `json:"weights"`
-	Summary  local.Summary   `json:"summary"`
-	// RawSignificant and AdjustedSignificant count the areas with a p-value
-	// at most alpha before and after the multiple-testing adjustment.
-	RawSignificant      int         `json:"significant_before_adjustment"`
-	AdjustedSignificant int         `json:"significant_after_adjustment"`
-	Areas               []LocalArea `json:"areas"`
-	Warnings            []string    `json:"warnings"`
-	Cautions            []string    `json:"cautions"`
-	Written             []string    `json:"written,omitempty"`
-}
-
 // LocalText writes the summary of a local analysis: counts per category and
 // the strongest areas.
-func LocalText(w io.Writer, d *LocalDocument, top int) error {
+func LocalText(w io.Writer, d *local.Result, top int) error {
 	var b strings.Builder
 	s := d.Summary
 	subject := d.Variable
@@ -64,7 +36,7 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 		fmt.Fprintf(&b, "  %-22s %7s\n", c.Category, numtext.Count(c.Areas))
 	}
 	b.WriteString("\n")
-	strongest := strongestAreas(d.Areas, top)
+	strongest := d.Strongest(top)
 	if len(strongest) > 0 {
 		fmt.Fprintf(&b, "  strongest areas (by |z|)\n  %-14s %-16s %10s %10s %8s %10s %10s\n", "id", "category", "value", "statistic", "z", "p", "adjusted")
 		for _, a := range strongest {
@@ -86,24 +58,10 @@ func LocalText(w io.Writer, d *LocalDocument, top int) error {
 	return err
 }
 
-func strongestAreas(areas []LocalArea, top int) []LocalArea {
-	var out []LocalArea
-	for _, a := range areas {
-		if a.Analysed && a.Category != local.NotSignificant && a.Category != local.NoNeighbours {
-			out = append(out, a)
-		}
-	}
-	sort.SliceStable(out, func(i, j int) bool { return math.Abs(out[i].Z) > math.Abs(out[j].Z) })
-	if len(out) > top {
-		out = out[:top]
-	}
-	return out
-}
-
 // LocalCSV writes one row per area of the layer: id, value, lag,
 // statistic, expected, sd, z, p, adjusted p and category. Areas that were
 // not analysed have empty statistics.
-func LocalCSV(w io.Writer, d *LocalDocument) error {
+func LocalCSV(w io.Writer, d *local.Result) error {
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"id", "value", "lag", "statistic", "expected", "sd", "z", "p", "p_adjusted", "category", "neighbours", "exact"})
 	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
@@ -121,4 +79,114 @@ func LocalCSV(w io.Writer, d *LocalDocument) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// LocalColumns returns the per-area results as layer columns, to be added
+// to a copy of the layer: lag, statistic, expected, sd, z, p, adjusted p
+// (missing where the area was not analysed) and category.
+func LocalColumns(d *local.Result) []*layer.Column {
+	n := len(d.Areas)
+	num := func(name string, get func(a local.Area) float64) *layer.Column {
+		c := &layer.Column{Name: name, Kind: layer.Number, Num: make([]float64, n), Missing: make([]bool, n)}
+		for i, a := range d.Areas {
+			c.Num[i], c.Missing[i] = get(a), !a.Analysed
+		}
+		return c
+	}
+	cat := &layer.Column{Name: "local_category", Kind: layer.Text, Str: make([]string, n), Missing: make([]bool, n)}
+	for i, a := range d.Areas {
+		cat.Str[i] = a.Category
+	}
+	return []*layer.Column{
+		num("local_lag", func(a local.Area) float64 { return a.Lag }),
+		num("local_statistic", func(a local.Area) float64 { return a.Statistic }),
+		num("local_expected", func(a local.Area) float64 { return a.Expected }),
+		num("local_sd", func(a local.Area) float64 { return a.SD }),
+		num("local_z", func(a local.Area) float64 { return a.Z }),
+		num("local_p", func(a local.Area) float64 { return a.P }),
+		num("local_p_adjusted", func(a local.Area) float64 { return a.AdjustedP }),
+		cat,
+	}
+}
+
+// LocalPictures draws the pictures of a local result on the layer it was
+// computed on; each method renders one picture in format f.
+type LocalPictures struct {
+	Layer  *layer.Layer
+	Result *local.Result
+	// Classes is the class rule of the choropleth.
+	Classes plot.Classes
+}
+
+// classNames name the class rules in the choropleth's subtitle.
+var classNames = map[plot.Classes]string{plot.Quantile: "quantile", plot.NaturalBreaks: "natural-breaks"}
+
+func (p LocalPictures) note() string {
+	return fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
+		p.Layer.Source, p.Result.Summary.Seed, numtext.Count(p.Result.Summary.Permutations), p.Result.Version)
+}
+
+func (p LocalPictures) mapOptions(title, subtitle string) plot.MapOptions {
+	return plot.MapOptions{Title: title, Subtitle: subtitle, LonLat: weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
+		Note: p.note(), IDs: p.Layer.IDs}
+}
+
+// Map draws every area of the layer in its category.
+func (p LocalPictures) Map(w io.Writer, f plot.Format) error {
+	r, s := p.Result, p.Result.Summary
+	cats := make([]int, len(r.Areas))
+	for i, a := range r.Areas {
+		cats[i] = local.CategoryIndex(r.Kind, a.Category)
+	}
+	opt := p.mapOptions("Where "+r.Variable+" clusters",
+		fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", s.Statistic, r.Variable, s.CategoriesFrom, s.Alpha, s.Adjustment, r.Weights.Kind))
+	opt.LegendTitle = "category"
+	return plot.CategoryMap(w, f, p.Layer.Geoms, cats, plot.LocalLegend(r.Kind), opt)
+}
+
+// Choropleth draws the variable in five classes.
+func (p LocalPictures) Choropleth(w io.Writer, f plot.Format) error {
+	r := p.Result
+	values, missing := make([]float64, len(r.Areas)), make([]bool, len(r.Areas))
+	for i, a := range r.Areas {
+		if a.Value == nil {
+			missing[i] = true
+		} else {
+			values[i] = *a.Value
+		}
+	}
+	opt := p.mapOptions(r.Variable, classNames[p.Classes]+" classes")
+	return plot.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, r.Variable, opt)
+}
+
+// Scatter draws the Moran scatter of the analysed areas: the standardised
+// value against the lag of the neighbours', coloured by category, with the
+// slope of the global statistic.
+func (p LocalPictures) Scatter(w io.Writer, f plot.Format) error {
+	r := p.Result
+	areas := r.Analysed()
+	z, lag, cats := make([]float64, len(areas)), make([]float64, len(areas)), make([]int, len(areas))
+	for k, a := range areas {
+		z[k], lag[k], cats[k] = a.Standardised, a.StandardisedLag, local.CategoryIndex(r.Kind, a.Category)
+	}
+	yLabel := "mean of the neighbours (standardised)"
+	if r.Against != "" {
+		yLabel = "neighbours' " + r.Against + " (standardised)"
+	}
+	opt := plot.PlotOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Transform,
+		XLabel: r.Variable + " (standardised)", YLabel: yLabel, Note: p.note()}
+	return plot.MoranScatter(w, f, z, lag, cats, plot.LocalLegend(r.Kind), r.Summary.Total/float64(len(areas)), opt)
+}
+
+// Histogram draws the null distribution of the area whose null the result
+// kept (local.Result.NullArea).
+func (p LocalPictures) Histogram(w io.Writer, f plot.Format) error {
+	a, s := p.Result.NullArea(), p.Result.Summary
+	if a == nil {
+		return errors.New("the result kept no area's null distribution")
+	}
+	opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", s.Statistic, a.ID),
+		Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(a.Permutations), PValue(a.P), s.Alternative, a.Category),
+		XLabel:   s.Statistic, YLabel: "shuffles", Note: p.note()}
+	return plot.Histogram(w, f, a.Null, a.Statistic, opt)
 }

@@ -24,8 +24,8 @@ func Autocorr(in Input, opt Options) (*Result, error) {
 	}
 	res.Weights = all.Summary
 	res.Warnings = append(res.Warnings, all.Summary.Warnings...)
-	if all.Summary.Islands > 0 && !in.KeepIslands {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d area(s) have no neighbour and are left out of every statistic (use --islands keep to keep them with a zero spatial lag).", all.Summary.Islands))
+	if !in.KeepIslands {
+		res.IslandsLeftOut = all.Summary.Islands
 	}
 	for c, col := range in.Numeric {
 		v, err := in.variable(col, opt, uint64(100*(c+1)), res)
@@ -51,6 +51,8 @@ func Autocorr(in Input, opt Options) (*Result, error) {
 	return res, nil
 }
 
+// variable computes everything reported for one numeric column on the
+// areas that have a value (and a value of Against, when set).
 func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) (Variable, error) {
 	masks := [][]bool{col.Missing}
 	if in.Against != nil {
@@ -68,100 +70,157 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	}
 	v.Areas, v.Islands = len(r.Used), len(keep)-len(r.Used)
 	x := pick(col.Values, keep, r.Used)
-	alt := opt.Alternative
-	m, err := autocorr.RunTest(x, r.Graph, planFor(opt, col.Name+": Moran's I", purpose, alt))
-	if err != nil {
+	sm := &sample{x: x, ids: in.IDs, keep: keep, r: r, opt: opt, purpose: purpose, res: res}
+	if err := v.global(sm); err != nil {
 		return v, named(err, col.Name)
+	}
+	if err := v.generalG(sm); err != nil {
+		return v, named(err, col.Name)
+	}
+	if in.Against != nil && in.Against.Name != col.Name {
+		y := pick(in.Against.Values, keep, r.Used)
+		b, err := autocorr.RunBivariate(x, y, r.Graph, plan(opt, purpose+3, opt.Alternative))
+		if err != nil {
+			return v, named(err, col.Name+" against "+in.Against.Name)
+		}
+		v.Bivariate = &Bivariate{Against: in.Against.Name, Areas: len(x), Statistic: Statistic{Value: b.BivariateI,
+			Expected: b.Expected, VarianceRandomisation: b.VarianceRandomisation, ZRandomisation: b.ZRandomisation,
+			PRandomisation: normalP(b.ZRandomisation, opt.Alternative), Permutation: b.Permutation}}
+	}
+	if in.Lags > 0 {
+		if err := v.orderCorrelogram(sm, in.Lags); err != nil {
+			return v, named(err, col.Name)
+		}
+	}
+	if len(in.DistanceClasses) > 0 {
+		if err := v.distanceCorrelogram(sm, in.DistanceClasses); err != nil {
+			return v, named(err, col.Name)
+		}
+	}
+	return v, nil
+}
+
+// sample is one numeric column on the areas it is analysed on, with what
+// its tests share.
+type sample struct {
+	// x holds the values of the used areas: x[k] is area
+	// ids[keep[r.Used[k]]].
+	x    []float64
+	ids  []string
+	keep []int
+	r    *weights.Restricted
+	opt  Options
+	// purpose is the first of the column's shuffle streams.
+	purpose uint64
+	// res collects the warnings.
+	res *Result
+}
+
+func (s *sample) id(k int) string { return s.ids[s.keep[s.r.Used[k]]] }
+
+// global sets Moran's I with its bounds and Geary's C.
+func (v *Variable) global(s *sample) error {
+	x, g, opt, purpose, alt := s.x, s.r.Graph, s.opt, s.purpose, s.opt.Alternative
+	m, err := autocorr.RunTest(x, g, planFor(opt, v.Name+": Moran's I", purpose, alt))
+	if err != nil {
+		return err
 	}
 	v.MoransI = fromMoran(m, alt)
-	if v.Bounds, err = autocorr.MoranBounds(r.Graph); err != nil {
-		return v, named(err, col.Name)
+	if v.Bounds, err = autocorr.MoranBounds(g); err != nil {
+		return err
 	}
-	gt, err := autocorr.RunGeary(x, r.Graph, planFor(opt, col.Name+": Geary's C", purpose+1, flip(alt)))
+	gt, err := autocorr.RunGeary(x, g, planFor(opt, v.Name+": Geary's C", purpose+1, flip(alt)))
 	if err != nil {
-		return v, named(err, col.Name)
+		return err
 	}
 	v.GearysC = Statistic{Value: gt.GearysC, Expected: gt.Expected, VarianceNormality: gt.VarianceNormality,
 		VarianceRandomisation: gt.VarianceRandomisation, ZNormality: gt.ZNormality, ZRandomisation: gt.ZRandomisation,
 		PNormality: normalP(gt.ZNormality, flip(alt)), PRandomisation: normalP(gt.ZRandomisation, flip(alt)), Permutation: gt.Permutation}
-	gg, err := autocorr.RunGeneralG(x, r.Graph, plan(opt, purpose+2, alt))
+	return nil
+}
+
+// generalG sets General G, or says why it was skipped: it needs values
+// that are zero or more.
+func (v *Variable) generalG(s *sample) error {
+	x, opt := s.x, s.opt
+	gg, err := autocorr.RunGeneralG(x, s.r.Graph, plan(opt, s.purpose+2, opt.Alternative))
 	switch {
 	case errors.Is(err, autocorr.ErrNegative):
 		count, firstID := 0, ""
 		for k, val := range x {
 			if val < 0 {
 				if count == 0 {
-					firstID = in.IDs[keep[r.Used[k]]]
+					firstID = s.id(k)
 				}
 				count++
 			}
 		}
-		v.GeneralGSkipped = fmt.Sprintf("General G needs values that are zero or more; %s has %d negative value(s), the first in area %q", col.Name, count, firstID)
+		v.GeneralGSkipped = fmt.Sprintf("General G needs values that are zero or more; %s has %d negative value(s), the first in area %q", v.Name, count, firstID)
 	case errors.Is(err, autocorr.ErrConstant):
 		v.GeneralGSkipped = "General G needs at least two values above zero"
 	case err != nil:
-		return v, named(err, col.Name)
+		return err
 	default:
 		v.GeneralG = &Statistic{Value: gg.G, Expected: gg.Expected, VarianceRandomisation: gg.VarianceRandomisation,
-			ZRandomisation: gg.ZRandomisation, PRandomisation: normalP(gg.ZRandomisation, alt), Permutation: gg.Permutation}
+			ZRandomisation: gg.ZRandomisation, PRandomisation: normalP(gg.ZRandomisation, opt.Alternative), Permutation: gg.Permutation}
 	}
-	if in.Against != nil && in.Against.Name != col.Name {
-		y := pick(in.Against.Values, keep, r.Used)
-		b, err := autocorr.RunBivariate(x, y, r.Graph, plan(opt, purpose+3, alt))
+	return nil
+}
+
+// orderCorrelogram sets the correlogram over neighbour orders 1..lags.
+// Orders beyond the widest reach of the graph have no links: it stops
+// there and says so rather than fail.
+func (v *Variable) orderCorrelogram(s *sample, lags int) error {
+	graphs, err := autocorr.LagGraphs(s.r.Binary, lags, weights.Transform(s.r.Summary.Transform))
+	if err != nil {
+		return err
+	}
+	usable := graphs[:0]
+	for _, g := range graphs {
+		if g.Links() == 0 {
+			break
+		}
+		usable = append(usable, g)
+	}
+	if len(usable) < lags {
+		s.res.Warnings = append(s.res.Warnings, fmt.Sprintf("%s: no two areas are %d steps apart, so the correlogram stops at order %d.", v.Name, len(usable)+1, len(usable)))
+	}
+	if v.Correlogram, err = autocorr.Correlogram(s.x, usable, plan(s.opt, s.purpose+4, s.opt.Alternative)); err != nil {
+		return err
+	}
+	for k := range v.Correlogram {
+		v.CorrelogramClasses = append(v.CorrelogramClasses, fmt.Sprintf("order %d", k+1))
+	}
+	return nil
+}
+
+// distanceCorrelogram sets the correlogram over distance classes (graphs
+// of all areas), each cut down to the analysed areas; a class without a
+// pair of them is left out, with a warning.
+func (v *Variable) distanceCorrelogram(s *sample, classes []*weights.Graph) error {
+	var usable []*weights.Graph
+	var names []string
+	for _, class := range classes {
+		g, err := class.Subset(s.keep).Subset(s.r.Used).Transformed(weights.Transform(s.r.Summary.Transform))
 		if err != nil {
-			return v, named(err, col.Name+" against "+in.Against.Name)
+			return err
 		}
-		v.Bivariate = &Bivariate{Against: in.Against.Name, Areas: len(x), Statistic: Statistic{Value: b.BivariateI,
-			Expected: b.Expected, VarianceRandomisation: b.VarianceRandomisation, ZRandomisation: b.ZRandomisation,
-			PRandomisation: normalP(b.ZRandomisation, alt), Permutation: b.Permutation}}
+		if g.Links() == 0 {
+			s.res.Warnings = append(s.res.Warnings, fmt.Sprintf("%s: no two areas with a value fall in the %s; the correlogram leaves it out.", v.Name, class.Kind))
+			continue
+		}
+		usable = append(usable, g)
+		names = append(names, class.Kind)
 	}
-	if in.Lags > 0 {
-		graphs, err := autocorr.LagGraphs(r.Binary, in.Lags, weights.Transform(r.Summary.Transform))
-		if err != nil {
-			return v, named(err, col.Name)
-		}
-		// Orders beyond the widest reach of the graph have no links: stop
-		// there and say so rather than fail.
-		usable := graphs[:0]
-		for _, g := range graphs {
-			if g.Links() == 0 {
-				break
-			}
-			usable = append(usable, g)
-		}
-		if len(usable) < in.Lags {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("%s: no two areas are %d steps apart, so the correlogram stops at order %d.", col.Name, len(usable)+1, len(usable)))
-		}
-		if v.Correlogram, err = autocorr.Correlogram(x, usable, plan(opt, purpose+4, alt)); err != nil {
-			return v, named(err, col.Name)
-		}
-		for k := range v.Correlogram {
-			v.CorrelogramClasses = append(v.CorrelogramClasses, fmt.Sprintf("order %d", k+1))
-		}
+	if len(usable) == 0 {
+		return nil
 	}
-	if len(in.DistanceClasses) > 0 {
-		var usable []*weights.Graph
-		var names []string
-		for _, class := range in.DistanceClasses {
-			g, err := class.Subset(keep).Subset(r.Used).Transformed(weights.Transform(r.Summary.Transform))
-			if err != nil {
-				return v, named(err, col.Name)
-			}
-			if g.Links() == 0 {
-				res.Warnings = append(res.Warnings, fmt.Sprintf("%s: no two areas with a value fall in the %s; the correlogram leaves it out.", col.Name, class.Kind))
-				continue
-			}
-			usable = append(usable, g)
-			names = append(names, class.Kind)
-		}
-		if len(usable) > 0 {
-			if v.Correlogram, err = autocorr.Correlogram(x, usable, plan(opt, purpose+4, alt)); err != nil {
-				return v, named(err, col.Name)
-			}
-			v.CorrelogramClasses = names
-		}
+	var err error
+	if v.Correlogram, err = autocorr.Correlogram(s.x, usable, plan(s.opt, s.purpose+4, s.opt.Alternative)); err != nil {
+		return err
 	}
-	return v, nil
+	v.CorrelogramClasses = names
+	return nil
 }
 
 func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, error) {

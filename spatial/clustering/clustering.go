@@ -1,8 +1,3 @@
-// Package clustering answers "does this variable cluster in space, how
-// strongly, and can I trust it?" for one or more variables of a layer
-// (Autocorr), and for every numeric column at once (Screen). It assembles
-// the global statistics of package autocorr on the neighbour graph among the
-// areas that have data, and holds the result structs the reports render.
 package clustering
 
 import (
@@ -154,8 +149,15 @@ type Result struct {
 	Variables []Variable      `json:"variables"`
 	Joins     []Joins         `json:"join_counts,omitempty"`
 	Rate      *Rate           `json:"rate,omitempty"`
-	Warnings  []string        `json:"warnings"`
-	Cautions  []string        `json:"cautions"`
+	// Warnings start with the weights' own (Weights.Warnings), then those
+	// of the statistics.
+	Warnings []string `json:"warnings"`
+	Cautions []string `json:"cautions"`
+	// IslandsLeftOut counts the areas without a neighbour that every
+	// statistic leaves out (Input.KeepIslands unset). The warning about
+	// them is the caller's to word, after the weights' warnings, since how
+	// to keep them is a setting of the caller's.
+	IslandsLeftOut int `json:"-"`
 }
 
 // Cautions are printed with every clustering result.
@@ -257,4 +259,35 @@ func fromMoran(t autocorr.Test, alt shuffle.Alternative) Statistic {
 
 func named(err error, name string) error {
 	return fmt.Errorf("column %q: %w", name, err)
+}
+
+// Shuffles is the number of shuffles per test of the result: every test
+// of one run draws the same number.
+func (r *Result) Shuffles() int {
+	for _, v := range r.Variables {
+		return v.MoransI.Permutation.Permutations
+	}
+	if r.Rate != nil {
+		return r.Rate.Raw.Permutation.Permutations
+	}
+	for _, j := range r.Joins {
+		return j.Test.Different.Permutation.Permutations
+	}
+	return 0
+}
+
+// RangeShare is how far Moran's I lies from its expected value towards the
+// bound of Bounds on its side, as a fraction; towardsMax says the side is
+// the maximum.
+func (v *Variable) RangeShare() (share float64, towardsMax bool) {
+	i, e := v.MoransI.Value, v.MoransI.Expected
+	switch {
+	case i >= e && v.Bounds.Max != e:
+		return (i - e) / (v.Bounds.Max - e), true
+	case i >= e:
+		return 0, true
+	case v.Bounds.Min == e:
+		return 0, false
+	}
+	return -(i - e) / (v.Bounds.Min - e), false
 }

@@ -98,82 +98,104 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 			res.Skipped = append(res.Skipped, Skipped{t, "not numeric"})
 		}
 	}
-	// Group the columns to screen by their missing areas.
-	type group struct {
-		keep []int
-		cols []Column
-	}
-	var order []string
-	byPattern := map[string]*group{}
-	for _, col := range in.Numeric {
-		if reason := skipReason(col, in.IDColumn, excluded); reason != "" {
-			res.Skipped = append(res.Skipped, Skipped{col.Name, reason})
-			continue
-		}
-		keep := present(n, col.Missing)
-		key := patternKey(col.Missing)
-		g, ok := byPattern[key]
-		if !ok {
-			g = &group{keep: keep}
-			byPattern[key] = g
-			order = append(order, key)
-		}
-		g.cols = append(g.cols, col)
-	}
-	for gi, key := range order {
-		g := byPattern[key]
-		r, err := in.restrict(g.keep)
-		if err != nil {
-			for _, c := range g.cols {
-				res.Skipped = append(res.Skipped, Skipped{c.Name, err.Error()})
-			}
-			continue
-		}
-		// A column constant on the used areas cannot be screened; find
-		// those first so the rest share one run.
-		var xs [][]float64
-		var cols []Column
-		for _, c := range g.cols {
-			x := pick(c.Values, g.keep, r.Used)
-			if isConstant(x) {
-				res.Skipped = append(res.Skipped, Skipped{c.Name, "constant on the areas with a value"})
-				continue
-			}
-			xs, cols = append(xs, x), append(cols, c)
-		}
-		if len(xs) == 0 {
-			continue
-		}
-		labels, stats, f, err := autocorr.MoranGearyMany(xs, r.Graph, opt.Alternative)
-		if err != nil {
+	for gi, g := range res.groups(in, excluded) {
+		if err := res.screenGroup(&in.Input, g, opt, uint64(1000+gi)); err != nil {
 			return nil, err
-		}
-		p := planFor(opt, fmt.Sprintf("screening %d column(s)", len(xs)), uint64(1000+gi), opt.Alternative)
-		p.Labels = labels
-		out, err := shuffle.RunMany(p, stats, f)
-		if err != nil {
-			return nil, err
-		}
-		for c, col := range cols {
-			m, err := autocorr.MoranMoments(xs[c], r.Graph)
-			if err != nil {
-				return nil, named(err, col.Name)
-			}
-			mi, gc := out[2*c], out[2*c+1]
-			res.Rows = append(res.Rows, ScreenRow{Name: col.Name, Areas: len(xs[c]), Missing: n - len(g.keep),
-				MoransI: mi.Observed, MoranZ: (mi.Observed - m.Expected) / math.Sqrt(m.VarianceRandomisation),
-				MoranP: mi.PValue, GearysC: gc.Observed, GearyP: gc.PValue, Exact: mi.Exact, MoranInterval: mi.Interval})
 		}
 	}
 	if len(res.Rows) == 0 {
 		return nil, fmt.Errorf("%s: no numeric column could be screened (%d skipped)", in.File, len(res.Skipped))
 	}
+	res.adjustAndRank(opt.Adjust)
+	return res, nil
+}
+
+// columnGroup is the columns that lack values in the same areas: they
+// share one graph and one run of shuffles.
+type columnGroup struct {
+	keep []int
+	cols []Column
+}
+
+// groups sorts the numeric columns to screen into groups by their missing
+// areas, in the order the groups first appear; the others are skipped.
+func (res *ScreenResult) groups(in ScreenInput, excluded map[string]bool) []*columnGroup {
+	var order []*columnGroup
+	byPattern := map[string]*columnGroup{}
+	for _, col := range in.Numeric {
+		if reason := skipReason(col, in.IDColumn, excluded); reason != "" {
+			res.Skipped = append(res.Skipped, Skipped{col.Name, reason})
+			continue
+		}
+		key := patternKey(col.Missing)
+		g, ok := byPattern[key]
+		if !ok {
+			g = &columnGroup{keep: present(len(in.IDs), col.Missing)}
+			byPattern[key] = g
+			order = append(order, g)
+		}
+		g.cols = append(g.cols, col)
+	}
+	return order
+}
+
+// screenGroup screens the columns of one group, purpose marking its
+// shuffle streams.
+func (res *ScreenResult) screenGroup(in *Input, g *columnGroup, opt Options, purpose uint64) error {
+	r, err := in.restrict(g.keep)
+	if err != nil {
+		for _, c := range g.cols {
+			res.Skipped = append(res.Skipped, Skipped{c.Name, err.Error()})
+		}
+		return nil
+	}
+	// A column constant on the used areas cannot be screened; find those
+	// first so the rest share one run.
+	var xs [][]float64
+	var cols []Column
+	for _, c := range g.cols {
+		x := pick(c.Values, g.keep, r.Used)
+		if isConstant(x) {
+			res.Skipped = append(res.Skipped, Skipped{c.Name, "constant on the areas with a value"})
+			continue
+		}
+		xs, cols = append(xs, x), append(cols, c)
+	}
+	if len(xs) == 0 {
+		return nil
+	}
+	labels, stats, f, err := autocorr.MoranGearyMany(xs, r.Graph, opt.Alternative)
+	if err != nil {
+		return err
+	}
+	p := planFor(opt, fmt.Sprintf("screening %d column(s)", len(xs)), purpose, opt.Alternative)
+	p.Labels = labels
+	out, err := shuffle.RunMany(p, stats, f)
+	if err != nil {
+		return err
+	}
+	for c, col := range cols {
+		m, err := autocorr.MoranMoments(xs[c], r.Graph)
+		if err != nil {
+			return named(err, col.Name)
+		}
+		mi, gc := out[2*c], out[2*c+1]
+		res.Rows = append(res.Rows, ScreenRow{Name: col.Name, Areas: len(xs[c]), Missing: len(in.IDs) - len(g.keep),
+			MoransI: mi.Observed, MoranZ: (mi.Observed - m.Expected) / math.Sqrt(m.VarianceRandomisation),
+			MoranP: mi.PValue, GearysC: gc.Observed, GearyP: gc.PValue, Exact: mi.Exact, MoranInterval: mi.Interval})
+	}
+	return nil
+}
+
+// adjustAndRank adjusts the p-values across the screened columns and ranks
+// the columns by Moran's I, largest first.
+func (res *ScreenResult) adjustAndRank(method shuffle.Method) {
 	mp := make([]float64, len(res.Rows))
 	gp := make([]float64, len(res.Rows))
 	for k, r := range res.Rows {
 		mp[k], gp[k] = r.MoranP, r.GearyP
 	}
-	ma, ga := shuffle.Adjust(mp, opt.Adjust), shuffle.Adjust(gp, opt.Adjust)
+	ma, ga := shuffle.Adjust(mp, method), shuffle.Adjust(gp, method)
 	for k := range res.Rows {
 		res.Rows[k].MoranPAdjusted, res.Rows[k].GearyPAdjusted = ma[k], ga[k]
 	}
@@ -181,7 +203,6 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 	for k := range res.Rows {
 		res.Rows[k].Rank = k + 1
 	}
-	return res, nil
 }
 
 // skipReason says why a numeric column is not screened, or "".

@@ -288,6 +288,31 @@ func Categories(kind Kind) []string {
 	return []string{HighHigh, LowLow, HighLow, LowHigh, NotSignificant, NoNeighbours}
 }
 
+// legends gives the significant categories their legend line: the name
+// and what it means in words.
+var legends = map[string]string{
+	HighHigh:     HighHigh + ": high, neighbours high",
+	LowLow:       LowLow + ": low, neighbours low",
+	HighLow:      HighLow + ": high, neighbours low",
+	LowHigh:      LowHigh + ": low, neighbours high",
+	SimilarHigh:  SimilarHigh + " (like neighbours, high)",
+	SimilarLow:   SimilarLow + " (like neighbours, low)",
+	SimilarMixed: SimilarMixed + " (like neighbours, mixed)",
+	Dissimilar:   Dissimilar + " (unlike neighbours)",
+	HighCluster:  HighCluster + ": high values around",
+	LowCluster:   LowCluster + ": low values around",
+}
+
+// Legend returns the line of a category in a map legend: for a pattern its
+// name and what it means ("high-high: high, neighbours high"), otherwise
+// the name alone.
+func Legend(category string) string {
+	if l, ok := legends[category]; ok {
+		return l
+	}
+	return category
+}
+
 // Summarise gathers the run-level figures of res, the result of Run with
 // opt.
 func Summarise(kind Kind, res []AreaResult, opt Options) Summary {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
@@ -93,14 +94,14 @@ func (k Kind) Code() string {
 	return ""
 }
 
-// ParseKind reads moran, cross-moran, geary, gi or gi-star.
+// ParseKind reads moran, cross-moran, geary, gi or gi-star (case and
+// surrounding space ignored).
 func ParseKind(s string) (Kind, error) {
+	var names []choice.Name[Kind]
 	for k := Moran; k <= GiStar; k++ {
-		if s == k.Code() {
-			return k, nil
-		}
+		names = append(names, choice.Name[Kind]{Name: k.Code(), Value: k})
 	}
-	return Moran, fmt.Errorf("local statistic must be moran, cross-moran, geary, gi or gi-star, not %q", s)
+	return choice.Parse("local statistic", s, names...)
 }
 
 // prepared holds what a kind's evaluator needs: the graph, the values drawn
@@ -124,35 +125,15 @@ type prepared struct {
 
 // prepare checks the columns and builds the evaluator constants of kind.
 func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
-	if g == nil {
-		return nil, errors.New("no neighbour graph")
-	}
-	if kind < Moran || kind > GiStar {
-		return nil, fmt.Errorf("unknown local statistic %d", int(kind))
-	}
-	if err := checkColumn("x", x, g); err != nil {
+	if err := check(kind, x, y, g); err != nil {
 		return nil, err
-	}
-	if (kind == CrossMoran) != (y != nil) {
-		if y == nil {
-			return nil, errors.New("the cross local Moran needs a second variable")
-		}
-		return nil, fmt.Errorf("%s takes one variable, not two", kind)
-	}
-	n := len(x)
-	least := 2
-	if kind == Gi {
-		least = 3 // its moments divide by n − 2
-	}
-	if n < least {
-		return nil, fmt.Errorf("%s needs at least %d areas, got %d", kind, least, n)
 	}
 	zx, ssx, err := autocorr.Centre(x)
 	if err != nil {
 		return nil, err
 	}
-	fn := float64(n)
-	sx := math.Sqrt(ssx / fn)
+	n := len(x)
+	sx := math.Sqrt(ssx / float64(n))
 	p := &prepared{kind: kind, g: g, own: make([]float64, n)}
 	switch kind {
 	case Moran, Geary:
@@ -161,78 +142,128 @@ func prepare(kind Kind, x, y []float64, g *weights.Graph) (*prepared, error) {
 		}
 		p.slot = p.own
 	case CrossMoran:
-		if err := checkColumn("y", y, g); err != nil {
+		if err := p.crossSlots(zx, sx, y); err != nil {
 			return nil, err
-		}
-		zy, ssy, err := autocorr.Centre(y)
-		if err != nil {
-			return nil, fmt.Errorf("second variable: %w", err)
-		}
-		sy := math.Sqrt(ssy / fn)
-		p.slot = make([]float64, n)
-		for i := range zx {
-			p.own[i] = zx[i] / sx
-			p.slot[i] = zy[i] / sy
 		}
 	case Gi, GiStar:
 		// Centred values: Σ_j w_ij x_j − x̄ W_i is then one sum, free of
-		// the cancellation of two large terms; the denominators depend on
-		// i's row and value only, which stay fixed under the permutation.
+		// the cancellation of two large terms.
 		p.slot = zx
-		p.add = make([]float64, n)
-		for i := 0; i < n; i++ {
-			_, w := g.Row(i)
-			var wi, s1 float64
-			for _, v := range w {
-				wi += v
-				s1 += v * v
+		p.getisOrd(zx, ssx, sx)
+	}
+	p.axes(zx, sx)
+	return p, nil
+}
+
+// check rejects a kind, columns or graph the statistics cannot use.
+func check(kind Kind, x, y []float64, g *weights.Graph) error {
+	if g == nil {
+		return errors.New("no neighbour graph")
+	}
+	if kind < Moran || kind > GiStar {
+		return fmt.Errorf("unknown local statistic %d", int(kind))
+	}
+	if err := checkColumn("x", x, g); err != nil {
+		return err
+	}
+	if (kind == CrossMoran) != (y != nil) {
+		if y == nil {
+			return errors.New("the cross local Moran needs a second variable")
+		}
+		return fmt.Errorf("%s takes one variable, not two", kind)
+	}
+	least := 2
+	if kind == Gi {
+		least = 3 // its moments divide by n − 2
+	}
+	if len(x) < least {
+		return fmt.Errorf("%s needs at least %d areas, got %d", kind, least, len(x))
+	}
+	if kind == CrossMoran {
+		return checkColumn("y", y, g)
+	}
+	return nil
+}
+
+// crossSlots sets the constants of the cross local Moran: x standardised
+// at the area, y standardised in the slots.
+func (p *prepared) crossSlots(zx []float64, sx float64, y []float64) error {
+	zy, ssy, err := autocorr.Centre(y)
+	if err != nil {
+		return fmt.Errorf("second variable: %w", err)
+	}
+	sy := math.Sqrt(ssy / float64(len(y)))
+	p.slot = make([]float64, len(y))
+	for i := range zx {
+		p.own[i] = zx[i] / sx
+		p.slot[i] = zy[i] / sy
+	}
+	return nil
+}
+
+// getisOrd sets the per-area terms of Gi and Gi* on the centred values zx
+// (sum of squares ssx, standard deviation sx). The denominators depend on
+// i's row and value only, which stay fixed under the permutation.
+func (p *prepared) getisOrd(zx []float64, ssx, sx float64) {
+	n := len(zx)
+	fn := float64(n)
+	p.add = make([]float64, n)
+	for i := 0; i < n; i++ {
+		_, w := p.g.Row(i)
+		var wi, s1 float64
+		for _, v := range w {
+			wi += v
+			s1 += v * v
+		}
+		// d is the variance factor under the root of the denominator; a
+		// neighbourhood of equal weights on every other area leaves none,
+		// and the statistic is then 0, as autocorr.GiStar has it (same
+		// relative threshold).
+		var d, spread float64
+		if p.kind == GiStar {
+			wi, s1 = wi+1, s1+1
+			p.add[i] = zx[i]
+			d = (fn*s1 - wi*wi) / (fn - 1)
+			if d > 1e-12*fn*s1 {
+				spread = sx
 			}
-			// d is the variance factor under the root of the
-			// denominator; a neighbourhood of equal weights on every other
-			// area leaves none, and the statistic is then 0, as
-			// autocorr.GiStar has it (same relative threshold).
-			var d, spread float64
-			if kind == GiStar {
-				wi, s1 = wi+1, s1+1
-				p.add[i] = zx[i]
-				d = (fn*s1 - wi*wi) / (fn - 1)
-				if d > 1e-12*fn*s1 {
-					spread = sx
-				}
-			} else {
-				// x̄(i) − x̄ = −z_i/(n−1); s(i)² is the centred sum of
-				// squares without area i, about the mean without it.
-				p.add[i] = wi * zx[i] / (fn - 1)
-				d = ((fn-1)*s1 - wi*wi) / (fn - 2)
-				if vi := (ssx - zx[i]*zx[i]*fn/(fn-1)) / (fn - 1); d > 1e-12*(fn-1)*s1 && vi > 1e-24*ssx {
-					spread = math.Sqrt(vi)
-				}
-			}
-			if spread > 0 {
-				p.own[i] = 1 / (spread * math.Sqrt(d))
+		} else {
+			// x̄(i) − x̄ = −z_i/(n−1); s(i)² is the centred sum of squares
+			// without area i, about the mean without it.
+			p.add[i] = wi * zx[i] / (fn - 1)
+			d = ((fn-1)*s1 - wi*wi) / (fn - 2)
+			if vi := (ssx - zx[i]*zx[i]*fn/(fn-1)) / (fn - 1); d > 1e-12*(fn-1)*s1 && vi > 1e-24*ssx {
+				spread = math.Sqrt(vi)
 			}
 		}
+		if spread > 0 {
+			p.own[i] = 1 / (spread * math.Sqrt(d))
+		}
 	}
+}
+
+// axes sets the standardised value and the lag of the standardised moving
+// values of every area, for the categories and the Moran scatter.
+func (p *prepared) axes(zx []float64, sx float64) {
+	n := len(zx)
 	p.std = make([]float64, n)
 	p.lag = make([]float64, n)
 	for i := 0; i < n; i++ {
 		p.std[i] = zx[i] / sx
-		nb, w := g.Row(i)
+		nb, w := p.g.Row(i)
 		var l float64
-		for k, j := range nb {
-			l += w[k] * zx[j]
-		}
-		if kind == CrossMoran {
-			l = 0
+		if p.kind == CrossMoran {
 			for k, j := range nb {
 				l += w[k] * p.slot[j]
 			}
 			p.lag[i] = l
-		} else {
-			p.lag[i] = l / sx
+			continue
 		}
+		for k, j := range nb {
+			l += w[k] * zx[j]
+		}
+		p.lag[i] = l / sx
 	}
-	return p, nil
 }
 
 // factory returns the evaluators of the prepared statistic. Each is a
