@@ -45,26 +45,14 @@ func queenNeighbours(r *Region) [][]int {
 
 // moran is Moran's I with binary weights over the districts where x is not
 // NaN (links to a district with NaN are dropped).
-func moran(x []float64, nb [][]int) float64 {
-	mean, n := nanMean(x)
-	var num, den, s0 float64
-	for i, v := range x {
-		if math.IsNaN(v) {
-			continue
-		}
-		den += (v - mean) * (v - mean)
-		for _, j := range nb[i] {
-			if !math.IsNaN(x[j]) {
-				num += (v - mean) * (x[j] - mean)
-				s0++
-			}
-		}
-	}
-	return float64(n) / s0 * num / den
-}
+func moran(x []float64, nb [][]int) float64 { return moranOver(x, nb, false) }
 
 // moranRow is Moran's I with row-standardised weights.
-func moranRow(x []float64, nb [][]int) float64 {
+func moranRow(x []float64, nb [][]int) float64 { return moranOver(x, nb, true) }
+
+// moranOver is Moran's I over the districts where x is not NaN, with
+// binary weights or, with row set, row-standardised ones.
+func moranOver(x []float64, nb [][]int, row bool) float64 {
 	mean, n := nanMean(x)
 	var num, den, s0 float64
 	for i, v := range x {
@@ -74,9 +62,14 @@ func moranRow(x []float64, nb [][]int) float64 {
 		den += (v - mean) * (v - mean)
 		var lag, k float64
 		for _, j := range nb[i] {
-			if !math.IsNaN(x[j]) {
+			switch {
+			case math.IsNaN(x[j]):
+			case row:
 				lag += x[j] - mean
 				k++
+			default:
+				num += (v - mean) * (x[j] - mean)
+				s0++
 			}
 		}
 		if k > 0 {

@@ -73,6 +73,21 @@ func medianSplit(x []float64) []int32 {
 	return lab
 }
 
+// prepared is the basis of g with options opt and the outcome y prepared
+// on it.
+func prepared(tb testing.TB, g *weights.Graph, opt Options, y []float64) (*Basis, *Outcome) {
+	tb.Helper()
+	b, err := NewBasis(g, opt)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	o, err := b.Prepare(y)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return b, o
+}
+
 // moranLinked is Moran's I of y over the linked areas of b (Moran 1950),
 // computed by spatial/autocorr on the graph restricted to them.
 func moranLinked(tb testing.TB, b *Basis, g *weights.Graph, y []float64) float64 {

@@ -51,14 +51,7 @@ func TestDenseSurrogatesKeepMoranMeanVariance(t *testing.T) {
 // and checks that each keeps Moran's I, the mean and the variance, that
 // islands get island values, and that the surrogates are not y.
 func checkDenseSurrogates(t *testing.T, g *weights.Graph, y []float64, opt Options) {
-	b, err := NewBasis(g, opt)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := b.Prepare(y)
-	if err != nil {
-		t.Fatal(err)
-	}
+	b, o := prepared(t, g, opt, y)
 	if o.MoranTolerance() > 1e-12 {
 		t.Errorf("complete basis: tolerance %g", o.MoranTolerance())
 	}
@@ -129,14 +122,7 @@ func TestSparseSurrogateMoranTolerance(t *testing.T) {
 		rng := shuffle.NewStream(4, 4, 0)
 		y := field.draw(t, &rng)
 		for _, mode := range []Residual{White, Matched} {
-			b, err := NewBasis(g, Options{Method: Sparse, Top: 60, Bottom: 30, Residual: mode})
-			if err != nil {
-				t.Fatal(err)
-			}
-			o, err := b.Prepare(y)
-			if err != nil {
-				t.Fatal(err)
-			}
+			b, o := prepared(t, g, Options{Method: Sparse, Top: 60, Bottom: 30, Residual: mode}, y)
 			tol := o.MoranTolerance()
 			i0 := moranLinked(t, b, g, y)
 			m0, v0 := meanVar(y)
@@ -180,14 +166,7 @@ func TestDrawAllocatesNothingAndRepeats(t *testing.T) {
 		y[i] = math.Sin(float64(i) / 7)
 	}
 	for _, opt := range []Options{{}, {Method: Sparse, Top: 40, Bottom: 20}, {Method: Sparse, Top: 40, Bottom: 20, Residual: White}, {RotationGap: 0.01}} {
-		b, err := NewBasis(g, opt)
-		if err != nil {
-			t.Fatal(err)
-		}
-		o, err := b.Prepare(y)
-		if err != nil {
-			t.Fatal(err)
-		}
+		b, o := prepared(t, g, opt, y)
 		s := b.NewScratch()
 		out := make([]float64, len(y))
 		rng := shuffle.NewStream(1, 2, 3)
