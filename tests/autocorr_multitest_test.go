@@ -1,12 +1,11 @@
 package tests
 
 import (
-	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 )
 
 // The adjusted p-values of shuffle.Adjust equal statsmodels'
@@ -15,10 +14,6 @@ import (
 // Benjamini & Hochberg (1995, section 3.1; the p-values recalled from
 // memory), and each method rejects the same hypotheses at α = 0.05.
 func TestAdjustAgainstStatsmodels(t *testing.T) {
-	b, err := os.ReadFile("testdata/scipy/refs.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var refs struct {
 		Multitest struct {
 			Alpha   float64
@@ -29,9 +24,7 @@ func TestAdjustAgainstStatsmodels(t *testing.T) {
 			}
 		}
 	}
-	if err := json.Unmarshal(b, &refs); err != nil {
-		t.Fatal(err)
-	}
+	testkit.LoadJSON(t, "scipy/refs.json", &refs)
 	mt := refs.Multitest
 	if len(mt.PValues) != 15 || len(mt.Methods) != 4 {
 		t.Fatalf("refs: %d p-values, %d methods", len(mt.PValues), len(mt.Methods))

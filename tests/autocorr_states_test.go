@@ -1,16 +1,14 @@
 package tests
 
 import (
-	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -55,59 +53,9 @@ type autocorrRefs struct {
 
 func loadAutocorrRefs(t *testing.T) *autocorrRefs {
 	t.Helper()
-	b, err := os.ReadFile("testdata/scipy/autocorr_refs.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r autocorrRefs
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	testkit.LoadJSON(t, "scipy/autocorr_refs.json", &r)
 	return &r
-}
-
-// statesQueen returns the queen graph of the 49 states with a neighbour (48
-// contiguous and DC), in file order, checking that it links exactly the
-// pairs the reference script found by shared vertices on its own.
-func statesQueen(t *testing.T, r *autocorrRefs) *weights.Graph {
-	t.Helper()
-	l := loadStates(t)
-	queen, err := weights.ContiguityGraph(l.Geoms, weights.Queen)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var keep []int
-	for i := range l.IDs {
-		if queen.Degree(i) > 0 {
-			keep = append(keep, i)
-		}
-	}
-	if len(keep) != len(r.IDs) {
-		t.Fatalf("%d linked states, reference %d", len(keep), len(r.IDs))
-	}
-	for k, i := range keep {
-		if l.IDs[i] != r.IDs[k] {
-			t.Fatalf("area %d is %s, reference %s", k, l.IDs[i], r.IDs[k])
-		}
-	}
-	ours := map[[2]string]bool{}
-	for i := range l.IDs {
-		nb, _ := queen.Row(i)
-		for _, j := range nb {
-			if int(j) > i {
-				ours[[2]string{l.IDs[i], l.IDs[j]}] = true
-			}
-		}
-	}
-	if len(ours) != len(r.QueenPairs) {
-		t.Fatalf("%d queen pairs, reference %d", len(ours), len(r.QueenPairs))
-	}
-	for _, p := range r.QueenPairs {
-		if !ours[p] {
-			t.Fatalf("reference pair %v missing", p)
-		}
-	}
-	return queen.Subset(keep)
 }
 
 func relClose(a, b, tol float64) bool {
@@ -249,13 +197,7 @@ func TestStatesGiStarAgainstGonum(t *testing.T) {
 			t.Fatal(err)
 		}
 		n := w.Len()
-		d := mat.NewDense(n, n, nil)
-		for i := 0; i < n; i++ {
-			nb, wt := w.Row(i)
-			for k, j := range nb {
-				d.Set(i, int(j), wt[k])
-			}
-		}
+		d := testkit.Dense(w.Offsets, w.Neighbours, w.Weights)
 		wantI, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		if i, _ := autocorr.MoransI(x, w); math.Abs(i-wantI) > 1e-12 {
 			t.Errorf("%s: I %v gonum %v", w.Transform, i, wantI)

@@ -1,13 +1,12 @@
 package tests
 
 import (
-	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
 	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -61,14 +60,8 @@ type effRefs struct {
 
 func loadEffRefs(t *testing.T) *effRefs {
 	t.Helper()
-	b, err := os.ReadFile("testdata/scipy/effective_refs.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r effRefs
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	testkit.LoadJSON(t, "scipy/effective_refs.json", &r)
 	return &r
 }
 

@@ -3,15 +3,14 @@ package tests
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -49,14 +48,8 @@ type exactConditional struct {
 
 func loadLocalRefs(t *testing.T) *localRefs {
 	t.Helper()
-	b, err := os.ReadFile("testdata/scipy/local_refs.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r localRefs
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	testkit.LoadJSON(t, "scipy/local_refs.json", &r)
 	return &r
 }
 
@@ -114,13 +107,7 @@ func TestLocalStatesAgainstNumpy(t *testing.T) {
 			s0 += v
 		}
 		n := g.Len()
-		d := mat.NewDense(n, n, nil)
-		for i := 0; i < n; i++ {
-			nb, w := g.Row(i)
-			for k, j := range nb {
-				d.Set(i, int(j), w[k])
-			}
-		}
+		d := testkit.Dense(g.Offsets, g.Neighbours, g.Weights)
 		I, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		if !localClose(sum, s0*I, 1e-12) {
 			t.Errorf("%s: Σ I_i %v, S0·I %v (S0 %v)", name, sum, s0*I, s0)
@@ -147,13 +134,8 @@ func TestLocalStatesGiStarAgainstGonum(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	n := g.Len()
-	d := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		nb, w := g.Row(i)
-		for k, j := range nb {
-			d.Set(i, int(j), w[k])
-		}
+	d := testkit.Dense(g.Offsets, g.Neighbours, g.Weights)
+	for i := 0; i < g.Len(); i++ {
 		d.Set(i, i, 1)
 	}
 	for i := range got {

@@ -1,16 +1,12 @@
-// Package tests holds the end-to-end tests of the built command and the
-// checks of the statistics against references outside the project. Each
-// reference file under testdata/ has its provenance in testdata/README.md.
 package tests
 
 import (
-	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 )
 
 // scipyRefs mirrors testdata/scipy/refs.json, made by testdata/scipy/make_refs.py
@@ -59,14 +55,8 @@ type scipyRefs struct {
 
 func loadScipy(t *testing.T) *scipyRefs {
 	t.Helper()
-	b, err := os.ReadFile("testdata/scipy/refs.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r scipyRefs
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	testkit.LoadJSON(t, "scipy/refs.json", &r)
 	return &r
 }
 

@@ -4,40 +4,12 @@ import (
 	"math"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
-	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
-
-// US states, DC and territories from the Census Bureau's cartographic
-// boundaries (us-atlas 3.0.1, converted by testdata/us-states.js); feature
-// ids are FIPS codes.
-func loadStates(t *testing.T) *layer.Layer {
-	t.Helper()
-	l, _, err := geojson.ReadFile("testdata/us-states.geojson", geojson.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return l
-}
-
-func neighbourSet(g *weights.Graph, ids []string, id string) map[string]bool {
-	for i, v := range ids {
-		if v == id {
-			nb, _ := g.Row(i)
-			out := map[string]bool{}
-			for _, j := range nb {
-				out[ids[j]] = true
-			}
-			return out
-		}
-	}
-	return nil
-}
 
 // Facts of common knowledge, no source: Arizona and Colorado meet only at
 // the Four Corners point, as do Utah and New Mexico, so they are queen but not
@@ -93,16 +65,7 @@ func TestStatesContiguity(t *testing.T) {
 // stat/spatial.GlobalMoransI for binary and row-standardised weights.
 func TestStatesMoranAgainstGonum(t *testing.T) {
 	l := loadStates(t)
-	queen, err := weights.ContiguityGraph(l.Geoms, weights.Queen)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var keep []int
-	for i := range l.IDs {
-		if queen.Degree(i) > 0 {
-			keep = append(keep, i)
-		}
-	}
+	queen, keep := linkedStates(t, l)
 	if len(keep) != 49 {
 		t.Fatalf("%d states with neighbours, want 49 (48 contiguous and DC)", len(keep))
 	}
@@ -120,14 +83,7 @@ func TestStatesMoranAgainstGonum(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		n := w.Len()
-		d := mat.NewDense(n, n, nil)
-		for i := 0; i < n; i++ {
-			nb, wt := w.Row(i)
-			for k, j := range nb {
-				d.Set(i, int(j), wt[k])
-			}
-		}
+		d := testkit.Dense(w.Offsets, w.Neighbours, w.Weights)
 		want, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		if math.Abs(got-want) > 1e-12 {
 			t.Errorf("%s: I %v, gonum %v", w.Transform, got, want)

@@ -4,13 +4,13 @@ import (
 	"math"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
 	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -51,13 +51,7 @@ func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
 	x := r.CentroidLat
 	n := len(x)
 	for _, w := range []*weights.Graph{g, g.RowStandardised()} {
-		d := mat.NewDense(n, n, nil)
-		for i := 0; i < n; i++ {
-			nb, wt := w.Row(i)
-			for k, j := range nb {
-				d.Set(i, int(j), wt[k])
-			}
-		}
+		d := testkit.Dense(w.Offsets, w.Neighbours, w.Weights)
 		want, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		b, err := surrogate.NewBasis(w, surrogate.Options{})
 		if err != nil {
@@ -67,7 +61,7 @@ func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		m0, v0 := meanVariance(x)
+		m0, v0 := testkit.MeanVar(x)
 		s := b.NewScratch()
 		y := make([]float64, n)
 		rng := shuffle.NewStream(7, 7, 0)
@@ -76,7 +70,7 @@ func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
 			o.Draw(&rng, y, s)
 			got, _, _ := gspatial.GlobalMoransI(y, nil, d)
 			worst = math.Max(worst, math.Abs(got-want))
-			m, v := meanVariance(y)
+			m, v := testkit.MeanVar(y)
 			if math.Abs(m-m0) > 1e-12*math.Abs(m0) || math.Abs(v-v0) > 1e-12*v0 {
 				t.Fatalf("%s: draw %d has mean %v and variance %v, the latitude %v and %v", w.Transform, k, m, v, m0, v0)
 			}
@@ -189,15 +183,4 @@ func TestSurrogateStatesIslandsAndTest(t *testing.T) {
 	if !(spec.NullSD > free.NullSD) {
 		t.Errorf("spectral null sd %v not above the free shuffle's %v", spec.NullSD, free.NullSD)
 	}
-}
-
-func meanVariance(y []float64) (m, v float64) {
-	for _, x := range y {
-		m += x
-	}
-	m /= float64(len(y))
-	for _, x := range y {
-		v += (x - m) * (x - m)
-	}
-	return m, v / float64(len(y)-1)
 }

@@ -49,22 +49,45 @@ func dist2(a, b site) float64 {
 // growing next, so provinces are contiguous and of similar size. An island
 // joins the province of the nearest mainland district.
 func assignProvinces(sites []site, adj adjacency, mainland, n int) []int {
-	// Farthest-point start: first the district farthest from the mainland's
-	// mean centre, then repeatedly the one farthest from those chosen.
+	centres := spreadCentres(sites[:mainland], n)
+	kMeans(sites[:mainland], centres, 12)
+	label := growProvinces(sites, adj, mainland, centres)
+	// Islands, and any district the growth could not reach (none, as long as
+	// the land is one piece), join the province of the nearest district
+	// that has one.
+	for d := range sites {
+		if d < mainland && label[d] >= 0 {
+			continue
+		}
+		best, bestD := 0, math.Inf(1)
+		for e, s := range sites[:mainland] {
+			if label[e] >= 0 && dist2(s, sites[d]) < bestD {
+				best, bestD = e, dist2(s, sites[d])
+			}
+		}
+		label[d] = label[best]
+	}
+	return label
+}
+
+// spreadCentres picks n of the sites by farthest-point selection: first the
+// one farthest from their mean centre, then repeatedly the one farthest from
+// those chosen.
+func spreadCentres(sites []site, n int) []site {
 	var mean site
-	for _, s := range sites[:mainland] {
-		mean.x += s.x / float64(mainland)
-		mean.y += s.y / float64(mainland)
+	for _, s := range sites {
+		mean.x += s.x / float64(len(sites))
+		mean.y += s.y / float64(len(sites))
 	}
 	centres := make([]site, 0, n)
-	near := make([]float64, mainland)
+	near := make([]float64, len(sites))
 	for d := range near {
 		near[d] = math.Inf(1)
 	}
 	pick := site{x: mean.x, y: mean.y}
 	for len(centres) < n {
 		best, bestD := 0, -1.0
-		for d, s := range sites[:mainland] {
+		for d, s := range sites {
 			if len(centres) > 0 {
 				near[d] = math.Min(near[d], dist2(s, pick))
 			} else {
@@ -77,14 +100,20 @@ func assignProvinces(sites []site, adj adjacency, mainland, n int) []int {
 		pick = sites[best]
 		centres = append(centres, pick)
 	}
-	label := make([]int, len(sites))
-	for range 12 {
+	return centres
+}
+
+// kMeans moves the centres to the means of the sites nearest them, rounds
+// times (Lloyd's algorithm); a centre no site is nearest stays.
+func kMeans(sites []site, centres []site, rounds int) {
+	n := len(centres)
+	for range rounds {
 		var sx, sy, cnt = make([]float64, n), make([]float64, n), make([]float64, n)
-		for d, s := range sites[:mainland] {
-			label[d] = nearest(s, centres)
-			sx[label[d]] += s.x
-			sy[label[d]] += s.y
-			cnt[label[d]]++
+		for _, s := range sites {
+			p := nearest(s, centres)
+			sx[p] += s.x
+			sy[p] += s.y
+			cnt[p]++
 		}
 		for p := range centres {
 			if cnt[p] > 0 {
@@ -92,12 +121,19 @@ func assignProvinces(sites []site, adj adjacency, mainland, n int) []int {
 			}
 		}
 	}
+}
 
+// growProvinces labels the mainland districts with provinces grown through
+// edge neighbours from the district nearest each centre, the smallest
+// province always taking the next district from its queue. Districts left
+// over (islands) keep the label −1.
+func growProvinces(sites []site, adj adjacency, mainland int, centres []site) []int {
+	label := make([]int, len(sites))
 	for d := range label {
 		label[d] = -1
 	}
-	queues := make([][]int32, n)
-	size := make([]int, n)
+	queues := make([][]int32, len(centres))
+	size := make([]int, len(centres))
 	for p, c := range centres {
 		best, bestD := -1, math.Inf(1)
 		for d, s := range sites[:mainland] {
@@ -117,7 +153,7 @@ func assignProvinces(sites []site, adj adjacency, mainland, n int) []int {
 			}
 		}
 		if p < 0 {
-			break
+			return label
 		}
 		d := queues[p][0]
 		queues[p] = queues[p][1:]
@@ -128,22 +164,6 @@ func assignProvinces(sites []site, adj adjacency, mainland, n int) []int {
 		size[p]++
 		queues[p] = append(queues[p], adj.of(int(d))...)
 	}
-	// Islands, and any district the growth could not reach (none, as long as
-	// the land is one piece), join the province of the nearest district
-	// that has one.
-	for d := range sites {
-		if d < mainland && label[d] >= 0 {
-			continue
-		}
-		best, bestD := 0, math.Inf(1)
-		for e, s := range sites[:mainland] {
-			if label[e] >= 0 && dist2(s, sites[d]) < bestD {
-				best, bestD = e, dist2(s, sites[d])
-			}
-		}
-		label[d] = label[best]
-	}
-	return label
 }
 
 func nearest(s site, centres []site) int {
@@ -177,32 +197,11 @@ const (
 	urbanShare   = 0.2  // share of mainland districts counted as urban
 )
 
-// makeAttributes draws the columns. The fields' node spacing is a fixed
-// multiple of the mean district spacing, so the degree of clustering stays
-// alike at any number of districts.
+// makeAttributes draws the columns. Each stage has a random stream of its
+// own: the smooth fields, the district noise, the case counts and the
+// choice of missing values.
 func makeAttributes(cfg Config, sites []site, spacing float64) attributes {
 	n := len(sites)
-	fs := newStream(cfg.Seed, tagFields)
-	mk := func(districts float64) *field {
-		step := districts * spacing
-		gx := max(2, int(math.Round((boxEast-boxWest)*lonScale/step)))
-		gy := max(2, int(math.Round((boxNorth-boxSouth)/step)))
-		return newField(fs, gx, gy, 2)
-	}
-	sample := func(f *field) []float64 {
-		out := make([]float64, n)
-		for d, s := range sites {
-			out[d] = f.at((s.x-boxWest)/(boxEast-boxWest), (s.y-boxSouth)/(boxNorth-boxSouth))
-		}
-		standardise(out)
-		return out
-	}
-	risk := sample(mk(4))
-	policyField := sample(mk(4))
-	incomeField := sample(mk(5))
-	urbanField := sample(mk(2.5))
-
-	vs := newStream(cfg.Seed, tagValues)
 	a := attributes{
 		population: make([]float64, n),
 		cases:      make([]float64, n),
@@ -211,10 +210,54 @@ func makeAttributes(cfg Config, sites []site, spacing float64) attributes {
 		policy:     make([]string, n),
 		urban:      make([]string, n),
 	}
+	f := sampleFields(newStream(cfg.Seed, tagFields), sites, spacing)
+	logRate, propensity := a.drawDistricts(newStream(cfg.Seed, tagValues), sites, f)
+	a.drawCases(newStream(cfg.Seed, tagCases), logRate)
+	a.classify(sites, propensity)
+	a.blankMissing(newStream(cfg.Seed, tagMissing), sites, cfg.MissingRate, cfg.MissingPolicy)
+	return a
+}
+
+// smoothFields are the smooth random fields behind the attributes, sampled
+// at the district centres and standardised.
+type smoothFields struct {
+	risk, policy, income, urban []float64
+}
+
+// sampleFields draws the fields. Their node spacing is a fixed multiple of
+// the mean district spacing, so the degree of clustering stays alike at any
+// number of districts.
+func sampleFields(fs *stream, sites []site, spacing float64) smoothFields {
+	mk := func(districts float64) *field {
+		step := districts * spacing
+		gx := max(2, int(math.Round((boxEast-boxWest)*lonScale/step)))
+		gy := max(2, int(math.Round((boxNorth-boxSouth)/step)))
+		return newField(fs, gx, gy, 2)
+	}
+	sample := func(f *field) []float64 {
+		out := make([]float64, len(sites))
+		for d, s := range sites {
+			out[d] = f.at((s.x-boxWest)/(boxEast-boxWest), (s.y-boxSouth)/(boxNorth-boxSouth))
+		}
+		standardise(out)
+		return out
+	}
+	var f smoothFields
+	f.risk = sample(mk(4))
+	f.policy = sample(mk(4))
+	f.income = sample(mk(5))
+	f.urban = sample(mk(2.5))
+	return f
+}
+
+// drawDistricts sets population and income from the fields and district
+// noise, and returns each district's log relative rate and policy
+// propensity.
+func (a *attributes) drawDistricts(vs *stream, sites []site, f smoothFields) (logRate, propensity []float64) {
 	// The policy field's own weight, so that the blend keeps unit variance.
 	policyOwn := math.Sqrt(1 - float64(policyOnRisk*policyOnRisk))
-	logRate := make([]float64, n)
-	propensity := make([]float64, n)
+	logRate = make([]float64, len(sites))
+	propensity = make([]float64, len(sites))
 	for d, s := range sites {
 		nPop, nInc, nRisk, nPol := vs.normal(), vs.normal(), vs.normal(), vs.normal()
 		var log10Pop float64
@@ -224,28 +267,36 @@ func makeAttributes(cfg Config, sites []site, spacing float64) attributes {
 		case s.island:
 			log10Pop = 3.7 + float64(0.15*nPop)
 		default:
-			log10Pop = 4.3 + float64(0.42*(float64(0.8*urbanField[d])+float64(0.6*nPop)))
+			log10Pop = 4.3 + float64(0.42*(float64(0.8*f.urban[d])+float64(0.6*nPop)))
 		}
 		pop := math.Round(expDet(log10Pop * math.Ln10))
 		a.population[d] = math.Min(400000, math.Max(2000, pop))
 
-		z := float64(0.55*urbanField[d]) + float64(0.835*incomeField[d])
+		z := float64(0.55*f.urban[d]) + float64(0.835*f.income[d])
 		if s.city {
 			z = math.Max(z, 1.5)
 		}
 		a.income[d] = math.Round(10*math.Max(14, 34+float64(6.5*z)+float64(2*nInc))) / 10
 
-		logRate[d] = float64(riskSpread*risk[d]) + float64(riskNoise*nRisk)
-		propensity[d] = float64(policyOnRisk*risk[d]) + float64(policyOwn*policyField[d]) + float64(policyNoise*nPol)
+		logRate[d] = float64(riskSpread*f.risk[d]) + float64(riskNoise*nRisk)
+		propensity[d] = float64(policyOnRisk*f.risk[d]) + float64(policyOwn*f.policy[d]) + float64(policyNoise*nPol)
 	}
+	return logRate, propensity
+}
 
-	cs := newStream(cfg.Seed, tagCases)
-	for d := range sites {
+// drawCases draws each district's cases from its expected count and sets
+// the rate.
+func (a *attributes) drawCases(cs *stream, logRate []float64) {
+	for d := range logRate {
 		lambda := a.population[d] * baseRate * expDet(logRate[d]) / 1e5
 		a.cases[d] = float64(cs.poisson(lambda))
 		a.rate[d] = math.Round(a.cases[d]*1e6/a.population[d]) / 10
 	}
+}
 
+// classify gives the policy to the districts of highest propensity and
+// calls the densest mainland districts, and the enclave, urban.
+func (a *attributes) classify(sites []site, propensity []float64) {
 	cut := quantile(propensity, 1-policyShare)
 	for d := range sites {
 		if propensity[d] >= cut {
@@ -254,7 +305,6 @@ func makeAttributes(cfg Config, sites []site, spacing float64) attributes {
 			a.policy[d] = "no"
 		}
 	}
-
 	var dens []float64
 	for d, s := range sites {
 		if !s.island {
@@ -268,24 +318,27 @@ func makeAttributes(cfg Config, sites []site, spacing float64) attributes {
 			a.urban[d] = "urban"
 		}
 	}
+}
 
-	// Missing values go to ordinary mainland districts, never the enclave or
-	// an island, and never two kinds to the same district.
+// blankMissing removes the population (and so the rate) of rate districts
+// and the policy status of policy others. Missing values go to ordinary
+// mainland districts, never the enclave or an island, and never two kinds
+// to the same district.
+func (a *attributes) blankMissing(ms *stream, sites []site, rate, policy int) {
 	var pool []int32
 	for d, s := range sites {
 		if !s.city && !s.island {
 			pool = append(pool, int32(d))
 		}
 	}
-	newStream(cfg.Seed, tagMissing).shuffle(pool)
-	for _, d := range pool[:cfg.MissingRate] {
+	ms.shuffle(pool)
+	for _, d := range pool[:rate] {
 		a.population[d] = math.NaN()
 		a.rate[d] = math.NaN()
 	}
-	for _, d := range pool[cfg.MissingRate : cfg.MissingRate+cfg.MissingPolicy] {
+	for _, d := range pool[rate : rate+policy] {
 		a.policy[d] = ""
 	}
-	return a
 }
 
 // quantile returns the value at position ⌊q·n⌋ of xs in ascending order.

@@ -342,15 +342,7 @@ func (g *grid) grow(s *stream, n int, enclave bool, cellsPerArea int) error {
 	if len(land) < n+16 {
 		return fmt.Errorf("region: only %d land cells for %d districts", len(land), n)
 	}
-	frontier := make([][]int32, n)
-	var nb []int
-	push := func(d int32, c int) {
-		for _, q := range g.neighbours4(c, nb[:0]) {
-			if g.owner[q] == ownerUnassigned {
-				frontier[d] = append(frontier[d], int32(q))
-			}
-		}
-	}
+	gr := &growth{g: g, frontier: make([][]int32, n)}
 	next := int32(0)
 	if enclave {
 		if !g.placeEnclave(s, land) {
@@ -359,60 +351,12 @@ func (g *grid) grow(s *stream, n int, enclave bool, cellsPerArea int) error {
 		next = 2
 		for c, o := range g.owner {
 			if o == 1 {
-				push(1, c)
+				gr.push(1, c)
 			}
 		}
 	}
-
-	// Spread the seeds with a bucket grid whose buckets are at least one
-	// spacing wide, so only the 3 × 3 buckets around a cell need checking.
-	spacing := 0.75 * math.Sqrt(float64(cellsPerArea))
-	bucket := max(1, int(math.Ceil(spacing)))
-	bx, by := (g.nx+bucket-1)/bucket, (g.ny+bucket-1)/bucket
-	seedsIn := make([][]int32, bx*by)
-	order := slices.Clone(land)
-	s.shuffle(order)
-	far := func(c int32) bool {
-		i, j := int(c)%g.nx, int(c)/g.nx
-		for bj := max(0, j/bucket-1); bj <= min(by-1, j/bucket+1); bj++ {
-			for bi := max(0, i/bucket-1); bi <= min(bx-1, i/bucket+1); bi++ {
-				for _, o := range seedsIn[bj*bx+bi] {
-					oi, oj := int(o)%g.nx, int(o)/g.nx
-					di, dj := float64(oi-i), float64(oj-j)
-					if float64(di*di)+float64(dj*dj) < float64(spacing*spacing) {
-						return false
-					}
-				}
-			}
-		}
-		return true
-	}
-	seeds := make([]int32, 0, n-int(next))
-	chosen := make([]bool, len(g.owner))
-	seed := func(c int32) {
-		chosen[c] = true
-		seeds = append(seeds, c)
-		i, j := int(c)%g.nx, int(c)/g.nx
-		b := (j/bucket)*bx + i/bucket
-		seedsIn[b] = append(seedsIn[b], c)
-	}
-	for _, c := range order {
-		if len(seeds) == cap(seeds) {
-			break
-		}
-		if g.owner[c] == ownerUnassigned && far(c) {
-			seed(c)
-		}
-	}
-	for _, c := range order {
-		if len(seeds) == cap(seeds) {
-			break
-		}
-		if g.owner[c] == ownerUnassigned && !chosen[c] {
-			seed(c)
-		}
-	}
-	if len(seeds) != cap(seeds) {
+	seeds := g.spreadSeeds(s, land, n-int(next), 0.75*math.Sqrt(float64(cellsPerArea)))
+	if len(seeds) != n-int(next) {
 		return fmt.Errorf("region: could only place %d of %d districts", int(next)+len(seeds), n)
 	}
 	// Numbering the districts in lattice order keeps the growth rounds
@@ -420,49 +364,144 @@ func (g *grid) grow(s *stream, n int, enclave bool, cellsPerArea int) error {
 	slices.Sort(seeds)
 	for _, c := range seeds {
 		g.owner[c] = next
-		push(next, int(c))
+		gr.push(next, int(c))
 		next++
 	}
-
-	// Rounds: every district still able to grow claims one more cell.
-	active := make([]int32, 0, n)
-	for d := range frontier {
-		if len(frontier[d]) > 0 {
-			active = append(active, int32(d))
-		}
-	}
-	for len(active) > 0 {
-		keep := active[:0]
-		for _, d := range active {
-			f := frontier[d]
-			for len(f) > 0 {
-				k := s.intN(len(f))
-				c := f[k]
-				f[k] = f[len(f)-1]
-				f = f[:len(f)-1]
-				if g.owner[c] == ownerUnassigned {
-					g.owner[c] = d
-					frontier[d] = f
-					push(d, int(c))
-					f = frontier[d]
-					break
-				}
-			}
-			if len(f) > 0 {
-				frontier[d] = f
-				keep = append(keep, d)
-			} else {
-				frontier[d] = nil
-			}
-		}
-		active = keep
-	}
+	gr.rounds(s)
 	for _, c := range land {
 		if g.owner[c] < 0 {
 			return fmt.Errorf("region: internal error: cell %d left without a district", c)
 		}
 	}
 	return nil
+}
+
+// spreadSeeds picks up to want unassigned land cells as district seeds, in
+// a random order of the land: first only cells at least spacing cells from
+// every seed so far, then, if that leaves too few, any cell not yet chosen.
+func (g *grid) spreadSeeds(s *stream, land []int32, want int, spacing float64) []int32 {
+	b := newSeedBuckets(g, spacing)
+	order := slices.Clone(land)
+	s.shuffle(order)
+	seeds := make([]int32, 0, want)
+	chosen := make([]bool, len(g.owner))
+	for _, spread := range []bool{true, false} {
+		for _, c := range order {
+			if len(seeds) == want {
+				return seeds
+			}
+			if g.owner[c] == ownerUnassigned && (spread && b.far(c) || !spread && !chosen[c]) {
+				chosen[c] = true
+				seeds = append(seeds, c)
+				b.add(c)
+			}
+		}
+	}
+	return seeds
+}
+
+// seedBuckets files the seeds placed so far in square buckets at least one
+// spacing wide, so that whether a cell is far from every seed needs only
+// the 3 × 3 buckets around it.
+type seedBuckets struct {
+	nx, bucket, bx, by int
+	spacing            float64
+	in                 [][]int32
+}
+
+func newSeedBuckets(g *grid, spacing float64) *seedBuckets {
+	bucket := max(1, int(math.Ceil(spacing)))
+	bx, by := (g.nx+bucket-1)/bucket, (g.ny+bucket-1)/bucket
+	return &seedBuckets{nx: g.nx, bucket: bucket, bx: bx, by: by, spacing: spacing, in: make([][]int32, bx*by)}
+}
+
+// far reports whether cell c lies at least spacing cells from every seed.
+func (b *seedBuckets) far(c int32) bool {
+	i, j := int(c)%b.nx, int(c)/b.nx
+	for bj := max(0, j/b.bucket-1); bj <= min(b.by-1, j/b.bucket+1); bj++ {
+		for bi := max(0, i/b.bucket-1); bi <= min(b.bx-1, i/b.bucket+1); bi++ {
+			for _, o := range b.in[bj*b.bx+bi] {
+				oi, oj := int(o)%b.nx, int(o)/b.nx
+				di, dj := float64(oi-i), float64(oj-j)
+				if float64(di*di)+float64(dj*dj) < float64(b.spacing*b.spacing) {
+					return false
+				}
+			}
+		}
+	}
+	return true
+}
+
+func (b *seedBuckets) add(c int32) {
+	i, j := int(c)%b.nx, int(c)/b.nx
+	k := (j/b.bucket)*b.bx + i/b.bucket
+	b.in[k] = append(b.in[k], c)
+}
+
+// growth is the state of the growth rounds: for each district, the
+// unassigned cells next to it (a cell may be listed more than once, and
+// may have been claimed by another district since).
+type growth struct {
+	g        *grid
+	frontier [][]int32
+	nb       []int
+}
+
+// push adds the unassigned edge neighbours of cell c to district d's
+// frontier.
+func (gr *growth) push(d int32, c int) {
+	gr.nb = gr.g.neighbours4(c, gr.nb[:0])
+	for _, q := range gr.nb {
+		if gr.g.owner[q] == ownerUnassigned {
+			gr.frontier[d] = append(gr.frontier[d], int32(q))
+		}
+	}
+}
+
+// rounds lets every district still able to grow claim one more cell per
+// round until none can.
+func (gr *growth) rounds(s *stream) {
+	active := make([]int32, 0, len(gr.frontier))
+	for d := range gr.frontier {
+		if len(gr.frontier[d]) > 0 {
+			active = append(active, int32(d))
+		}
+	}
+	for len(active) > 0 {
+		keep := active[:0]
+		for _, d := range active {
+			if gr.claim(s, d) {
+				keep = append(keep, d)
+			}
+		}
+		active = keep
+	}
+}
+
+// claim gives district d one cell drawn at random from its frontier,
+// dropping the cells other districts took meanwhile, and reports whether
+// the frontier still holds cells.
+func (gr *growth) claim(s *stream, d int32) bool {
+	f := gr.frontier[d]
+	for len(f) > 0 {
+		k := s.intN(len(f))
+		c := f[k]
+		f[k] = f[len(f)-1]
+		f = f[:len(f)-1]
+		if gr.g.owner[c] == ownerUnassigned {
+			gr.g.owner[c] = d
+			gr.frontier[d] = f
+			gr.push(d, int(c))
+			f = gr.frontier[d]
+			break
+		}
+	}
+	if len(f) > 0 {
+		gr.frontier[d] = f
+		return true
+	}
+	gr.frontier[d] = nil
+	return false
 }
 
 // placeEnclave looks for a 4 × 4 block of land whose middle 2 × 2 cells become

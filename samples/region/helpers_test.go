@@ -45,30 +45,51 @@ func queenNeighbours(r *Region) [][]int {
 
 // moran is Moran's I with binary weights over the districts where x is not
 // NaN (links to a district with NaN are dropped).
-func moran(x []float64, nb [][]int) float64 {
-	var mean float64
-	var n int
-	for _, v := range x {
-		if !math.IsNaN(v) {
-			mean += v
-			n++
-		}
-	}
-	mean /= float64(n)
+func moran(x []float64, nb [][]int) float64 { return moranOver(x, nb, false) }
+
+// moranRow is Moran's I with row-standardised weights.
+func moranRow(x []float64, nb [][]int) float64 { return moranOver(x, nb, true) }
+
+// moranOver is Moran's I over the districts where x is not NaN, with
+// binary weights or, with row set, row-standardised ones.
+func moranOver(x []float64, nb [][]int, row bool) float64 {
+	mean, n := nanMean(x)
 	var num, den, s0 float64
 	for i, v := range x {
 		if math.IsNaN(v) {
 			continue
 		}
 		den += (v - mean) * (v - mean)
+		var lag, k float64
 		for _, j := range nb[i] {
-			if !math.IsNaN(x[j]) {
+			switch {
+			case math.IsNaN(x[j]):
+			case row:
+				lag += x[j] - mean
+				k++
+			default:
 				num += (v - mean) * (x[j] - mean)
 				s0++
 			}
 		}
+		if k > 0 {
+			num += (v - mean) * lag / k
+			s0++
+		}
 	}
 	return float64(n) / s0 * num / den
+}
+
+// nanMean is the mean of the values of x that are not NaN, and their
+// number.
+func nanMean(x []float64) (mean float64, n int) {
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			mean += v
+			n++
+		}
+	}
+	return mean / float64(n), n
 }
 
 // indicator turns a text column into 1 where it equals yes, 0 where it holds

@@ -1,24 +1,3 @@
-// Package region builds Halvaren, an invented coastal region divided into
-// districts, as demo data for areatest: polygons that tile the land exactly and
-// a table of attributes with the traits that make naive tests of area data
-// mislead — an outcome that clusters in space, a policy adopted by groups of
-// neighbours, and only a weak link between the two.
-//
-// Nothing here describes a real place. The data exist to show the tool at
-// work and must never be used to check a statistic.
-//
-// The same Config always yields the same bytes from WriteGeoJSON, on any
-// machine: every random number comes from a seeded PCG stream through code in
-// this package; no floating-point routine with platform-specific assembly
-// (math.Exp, math.Log, …) is used on the way to the output; and every product
-// that feeds a sum is rounded explicitly with float64(…), so no compiler can
-// fuse it into a multiply–add, which some architectures would otherwise do.
-//
-// To get the demo region at another size, start from DefaultConfig:
-//
-//	cfg := region.DefaultConfig()
-//	cfg.Areas = 3000
-//	r, err := region.Build(cfg)
 package region
 
 import (
@@ -196,24 +175,54 @@ func build(cfg Config) (*Region, *internals, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	seed := cfg.Seed
 	mainland := cfg.Areas - cfg.Islands
+	g, err := newLand(cfg, mainland)
+	if err != nil {
+		return nil, nil, err
+	}
+	sites, geoms, err := g.districts(cfg, mainland)
+	if err != nil {
+		return nil, nil, err
+	}
+	landArea := float64(len(g.landCells())) * g.meanCellArea()
+	spacing := math.Sqrt(landArea / float64(mainland))
+	adj := newAdjacency(mainland, g.rookPairs())
+	province := assignProvinces(sites, adj, mainland, cfg.Provinces)
+	a := makeAttributes(cfg, sites, spacing)
+	order, provOrder := numbering(sites, province, cfg.Provinces, spacing)
+	r := named(cfg, layout{geoms: geoms, province: province, attrs: a}, order, provOrder)
+	return r, &internals{g: g, mainland: mainland, order: order}, nil
+}
 
+// newLand lays out the lattice, carves the coast and grows the mainland
+// districts.
+func newLand(cfg Config, mainland int) (*grid, error) {
 	// Very small regions get a minimum lattice, so that there is room for a
 	// coastline and an enclave; their districts are then larger.
 	want := max(256, int(math.Round(float64(mainland*cfg.CellsPerArea)/(1-cfg.Sea))))
-	g := newGrid(newStream(seed, tagLattice), want)
-	if err := g.carveCoast(newStream(seed, tagCoast), cfg.Sea); err != nil {
-		return nil, nil, err
+	g := newGrid(newStream(cfg.Seed, tagLattice), want)
+	if err := g.carveCoast(newStream(cfg.Seed, tagCoast), cfg.Sea); err != nil {
+		return nil, err
 	}
-	if err := g.grow(newStream(seed, tagGrow), mainland, cfg.Enclave, cfg.CellsPerArea); err != nil {
-		return nil, nil, err
+	if err := g.grow(newStream(cfg.Seed, tagGrow), mainland, cfg.Enclave, cfg.CellsPerArea); err != nil {
+		return nil, err
 	}
+	return g, nil
+}
 
+// meanCellArea is the box's area over its number of cells, in square
+// degrees: the unit of site.size.
+func (g *grid) meanCellArea() float64 {
+	return (boxEast - boxWest) * (boxNorth - boxSouth) / float64(g.nx*g.ny)
+}
+
+// districts traces the outlines of the mainland districts, places the
+// islands, and returns every district's site and outline in internal
+// order (the mainland first).
+func (g *grid) districts(cfg Config, mainland int) ([]site, []orb.MultiPolygon, error) {
 	sites := make([]site, cfg.Areas)
 	geoms := make([]orb.MultiPolygon, cfg.Areas)
 	used := make([]uint8, len(g.lon))
-	cellArea := (boxEast - boxWest) * (boxNorth - boxSouth) / float64(g.nx*g.ny)
 	for d, cells := range g.cellsByDistrict(mainland) {
 		mp, err := g.trace(int32(d), cells, used)
 		if err != nil {
@@ -232,31 +241,43 @@ func build(cfg Config) (*Region, *internals, error) {
 	if cfg.Enclave {
 		sites[0].city = true
 	}
-	for k, mp := range g.islands(newStream(seed, tagIslands), cfg.Islands) {
-		d := mainland + k
-		geoms[d] = mp
-		var x, y, a float64
-		var n int
-		for _, poly := range mp {
-			ring := poly[0]
-			for _, p := range ring[:len(ring)-1] {
-				x += p[0]
-				y += p[1]
-				n++
-			}
-			a += ringArea(ring)
-		}
-		sites[d] = site{x: x / float64(n), y: y / float64(n), size: a / cellArea, island: true}
+	for k, mp := range g.islands(newStream(cfg.Seed, tagIslands), cfg.Islands) {
+		geoms[mainland+k] = mp
+		sites[mainland+k] = islandSite(mp, g.meanCellArea())
 	}
+	return sites, geoms, nil
+}
 
-	landArea := float64(len(g.landCells())) * cellArea
-	spacing := math.Sqrt(landArea / float64(mainland))
-	adj := newAdjacency(mainland, g.rookPairs())
-	province := assignProvinces(sites, adj, mainland, cfg.Provinces)
-	a := makeAttributes(cfg, sites, spacing)
+// islandSite places an island at the mean of its outer vertices; its size
+// is its area in cells.
+func islandSite(mp orb.MultiPolygon, cellArea float64) site {
+	var x, y, a float64
+	var n int
+	for _, poly := range mp {
+		ring := poly[0]
+		for _, p := range ring[:len(ring)-1] {
+			x += p[0]
+			y += p[1]
+			n++
+		}
+		a += ringArea(ring)
+	}
+	return site{x: x / float64(n), y: y / float64(n), size: a / cellArea, island: true}
+}
 
-	order, provOrder := numbering(sites, province, cfg.Provinces, spacing)
-	names := newNamer(newStream(seed, tagNames))
+// layout is what the build stages made of each district, in internal
+// order.
+type layout struct {
+	geoms    []orb.MultiPolygon
+	province []int
+	attrs    attributes
+}
+
+// named numbers and names the districts and provinces in the order of
+// numbering (order, provOrder) and copies each district's outline and
+// attributes into the Region.
+func named(cfg Config, l layout, order, provOrder []int) *Region {
+	names := newNamer(newStream(cfg.Seed, tagNames))
 	r := &Region{Name: "Halvaren"}
 	provName := make([]string, cfg.Provinces)
 	for _, p := range provOrder {
@@ -264,11 +285,12 @@ func build(cfg Config) (*Region, *internals, error) {
 		r.ProvinceNames = append(r.ProvinceNames, provName[p])
 	}
 	width := max(3, len(fmt.Sprint(cfg.Areas)))
+	a := l.attrs
 	for k, d := range order {
 		r.IDs = append(r.IDs, fmt.Sprintf("D%0*d", width, k+1))
 		r.Names = append(r.Names, names.next())
-		r.Geoms = append(r.Geoms, geoms[d])
-		r.Province = append(r.Province, provName[province[d]])
+		r.Geoms = append(r.Geoms, l.geoms[d])
+		r.Province = append(r.Province, provName[l.province[d]])
 		r.Population = append(r.Population, a.population[d])
 		r.Cases = append(r.Cases, a.cases[d])
 		r.Rate = append(r.Rate, a.rate[d])
@@ -276,7 +298,7 @@ func build(cfg Config) (*Region, *internals, error) {
 		r.Income = append(r.Income, a.income[d])
 		r.Urban = append(r.Urban, a.urban[d])
 	}
-	return r, &internals{g: g, mainland: mainland, order: order}, nil
+	return r
 }
 
 // site is what the attribute and numbering stages need to know of a district.

@@ -474,38 +474,6 @@ func TestClustering(t *testing.T) {
 	}
 }
 
-// moranRow is Moran's I with row-standardised weights.
-func moranRow(x []float64, nb [][]int) float64 {
-	var mean float64
-	var n int
-	for _, v := range x {
-		if !math.IsNaN(v) {
-			mean += v
-			n++
-		}
-	}
-	mean /= float64(n)
-	var num, den, s0 float64
-	for i, v := range x {
-		if math.IsNaN(v) {
-			continue
-		}
-		den += (v - mean) * (v - mean)
-		var lag, k float64
-		for _, j := range nb[i] {
-			if !math.IsNaN(x[j]) {
-				lag += x[j] - mean
-				k++
-			}
-		}
-		if k > 0 {
-			num += (v - mean) * lag / k
-			s0++
-		}
-	}
-	return float64(n) / s0 * num / den
-}
-
 func correlation(x, y []float64) float64 {
 	var sx, sy, sxx, syy, sxy, n float64
 	for k := range x {

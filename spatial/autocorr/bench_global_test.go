@@ -18,6 +18,17 @@ func benchColumn(m int) []float64 {
 	return x
 }
 
+// benchCategories is category 1 where x is above 0.5, 0 elsewhere.
+func benchCategories(x []float64) []int32 {
+	cat := make([]int32, len(x))
+	for i, v := range x {
+		if v > 0.5 {
+			cat[i] = 1
+		}
+	}
+	return cat
+}
+
 func benchRun(b *testing.B, labels []int32, f shuffle.Factory, perms int) {
 	b.ReportAllocs()
 	b.ResetTimer()
@@ -70,13 +81,7 @@ func BenchmarkBivariate3000x9999(b *testing.B) {
 
 func BenchmarkJoinsDifferent3000x9999(b *testing.B) {
 	g := queenLattice(b, 55)
-	x := benchColumn(55)
-	cat := make([]int32, len(x))
-	for i, v := range x {
-		if v > 0.5 {
-			cat[i] = 1
-		}
-	}
+	cat := benchCategories(benchColumn(55))
 	benchRun(b, cat, DifferentJoinsFactory(g), 9999)
 }
 
@@ -108,12 +113,6 @@ func BenchmarkBounds3000(b *testing.B) {
 
 func BenchmarkJoinsSame3000x9999(b *testing.B) {
 	g := queenLattice(b, 55)
-	x := benchColumn(55)
-	cat := make([]int32, len(x))
-	for i, v := range x {
-		if v > 0.5 {
-			cat[i] = 1
-		}
-	}
+	cat := benchCategories(benchColumn(55))
 	benchRun(b, cat, SameJoinsFactory(g, 1), 9999)
 }

@@ -7,6 +7,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -52,33 +53,7 @@ func nearestGraph(tb testing.TB, n, k int) *weights.Graph {
 // denseExtremeVectors returns eigenvectors of M W* M for the smallest and
 // largest eigenvalues orthogonal to 1, from gonum's EigenSym.
 func denseExtremeVectors(t *testing.T, g *weights.Graph) (vmin, vmax []float64) {
-	n := g.Len()
-	a := mat.NewSymDense(n, nil)
-	for i := 0; i < n; i++ {
-		nb, w := g.Row(i)
-		for k, j := range nb {
-			a.SetSym(i, int(j), a.At(i, int(j))+w[k]/2)
-		}
-	}
-	c := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		for j := 0; j < n; j++ {
-			v := -1.0 / float64(n)
-			if i == j {
-				v++
-			}
-			c.Set(i, j, v)
-		}
-	}
-	var t1, t2 mat.Dense
-	t1.Mul(c, a)
-	t2.Mul(&t1, c)
-	s := mat.NewSymDense(n, nil)
-	for i := 0; i < n; i++ {
-		for j := i; j < n; j++ {
-			s.SetSym(i, j, (t2.At(i, j)+t2.At(j, i))/2)
-		}
-	}
+	s := testkit.DoublyCentred(dense(g))
 	var es mat.EigenSym
 	if !es.Factorize(s, true) {
 		t.Fatal("EigenSym failed")

@@ -9,23 +9,15 @@ import (
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
 // latticeGraph is rook contiguity on an r×c grid, binary weights.
 func latticeGraph(r, c int) *weights.Graph { return weights.Lattice(r, c, weights.Rook) }
 
-func dense(g *weights.Graph) *mat.Dense {
-	n := g.Len()
-	m := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		nb, w := g.Row(i)
-		for k, j := range nb {
-			m.Set(i, int(j), w[k])
-		}
-	}
-	return m
-}
+// dense is g's weights as a dense matrix, for gonum's stat/spatial.
+func dense(g *weights.Graph) *mat.Dense { return testkit.Dense(g.Offsets, g.Neighbours, g.Weights) }
 
 // Moran's I agrees with gonum's stat/spatial.GlobalMoransI (an outside
 // reference implementation) for binary and row-standardised weights.

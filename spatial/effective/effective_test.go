@@ -11,6 +11,7 @@ import (
 
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -31,41 +32,24 @@ func irregular(t testing.TB) *weights.Graph {
 	return g
 }
 
-// sar draws y = (I − ρW)⁻¹ε with W the row-standardised graph and ε
-// standard normal, by the Neumann series Σ ρᵗ Wᵗ ε, which converges because
-// W's rows sum to one and |ρ| < 1.
-func sar(g *weights.Graph, rho float64, rng *rand.Rand) []float64 {
-	w := g.RowStandardised()
-	n := g.Len()
-	y := make([]float64, n)
-	term := make([]float64, n)
-	next := make([]float64, n)
-	for i := range term {
-		term[i] = rng.NormFloat64()
-		y[i] = term[i]
-	}
-	for step := 0; step < 200; step++ {
-		var size float64
-		for i := 0; i < n; i++ {
-			nb, wt := w.Row(i)
-			var s float64
-			for k, j := range nb {
-				s += wt[k] * term[j]
-			}
-			next[i] = rho * s
-			size = math.Max(size, math.Abs(next[i]))
-		}
-		term, next = next, term
-		for i := range y {
-			y[i] += term[i]
-		}
-		if size < 1e-13 {
-			break
-		}
-	}
-	return y
+// sarField draws fields y = (I − ρW)⁻¹ε with W the row-standardised
+// graph and ε standard normal from the test's stream (testkit.SAR: one
+// factorisation, one solve per field).
+type sarField struct {
+	sar *testkit.SAR
+	n   int
 }
 
+func newSAR(g *weights.Graph, rho float64) sarField {
+	w := g.RowStandardised()
+	return sarField{sar: testkit.NewSAR(testkit.Dense(w.Offsets, w.Neighbours, w.Weights), rho), n: g.Len()}
+}
+
+func (f sarField) draw(tb testing.TB, rng *rand.Rand) []float64 {
+	return f.sar.Field(tb, normals(f.n, rng))
+}
+
+// normals draws n standard normal values from rng.
 func normals(n int, rng *rand.Rand) []float64 {
 	out := make([]float64, n)
 	for i := range out {
@@ -105,7 +89,7 @@ func TestCorrelogramMatchesHigherOrder(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(1, 2))
 			n := c.g.Len()
-			y := sar(c.g, 0.7, rng)
+			y := newSAR(c.g, 0.7).draw(t, rng)
 			x := normals(n, rng)
 			res, err := Test(y, x, c.g, Options{})
 			if err != nil {
@@ -169,16 +153,7 @@ func denseVariance(t *testing.T, g *weights.Graph, y, x []float64, K int) float6
 			}
 		}
 	}
-	b := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		for j := 0; j < n; j++ {
-			v := -1 / float64(n)
-			if i == j {
-				v++
-			}
-			b.Set(i, j, v)
-		}
-	}
+	b := testkit.Centring(n)
 	var bry, brx, prod mat.Dense
 	bry.Mul(b, ry)
 	brx.Mul(b, rx)
@@ -201,8 +176,9 @@ func TestVarianceMatchesDenseFormula(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(3, 4))
 			n := c.g.Len()
-			y := sar(c.g, 0.8, rng)
-			x := aboveMedian(sar(c.g, 0.8, rng))
+			field := newSAR(c.g, 0.8)
+			y := field.draw(t, rng)
+			x := aboveMedian(field.draw(t, rng))
 			res, err := Test(y, x, c.g, Options{MaxOrder: c.K})
 			if err != nil {
 				t.Fatal(err)
@@ -312,6 +288,7 @@ func TestEffectiveSizeIndependentAndClustered(t *testing.T) {
 	if l.Orders() != 38 { // the longest rook path between corners: 19 + 19 steps
 		t.Fatalf("orders %d, want 38", l.Orders())
 	}
+	fields := map[float64]sarField{0.8: newSAR(g, 0.8), 0.95: newSAR(g, 0.95)}
 	rng := rand.New(rand.NewPCG(7, 8))
 	const layers, n = 100, 400
 	var iidSum, iidMin float64
@@ -326,7 +303,7 @@ func TestEffectiveSizeIndependentAndClustered(t *testing.T) {
 		iidSum += ratio
 		iidMin = math.Min(iidMin, ratio)
 		for _, rho := range []float64{0.8, 0.95} {
-			s, err := l.Test(sar(g, rho, rng), aboveMedian(sar(g, rho, rng)), shuffle.TwoSided)
+			s, err := l.Test(fields[rho].draw(t, rng), aboveMedian(fields[rho].draw(t, rng)), shuffle.TwoSided)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -355,7 +332,7 @@ func TestGroups(t *testing.T) {
 		t.Fatal(err)
 	}
 	rng := rand.New(rand.NewPCG(9, 10))
-	y := sar(g, 0.5, rng)
+	y := newSAR(g, 0.5).draw(t, rng)
 	labels := make([]int32, 64)
 	for i := range labels {
 		labels[i] = int32((i % 8) / 3) // three vertical bands

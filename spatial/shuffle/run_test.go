@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-// sumOfOnes evaluates the number of units labelled 1 among the first k
+// firstKFactory evaluates the number of units labelled 1 among the first k
 // units: with k units "called" by a taster, it counts the correct calls.
 func firstKFactory(k int) Factory {
 	return func() Evaluator {
@@ -18,6 +18,19 @@ func firstKFactory(k int) Factory {
 			}
 			return s
 		}
+	}
+}
+
+// groupASum evaluates the sum of y over the units labelled 0 (group A).
+func groupASum(y []float64) Evaluator {
+	return func(lab []int32) float64 {
+		var s float64
+		for i, l := range lab {
+			if l == 0 {
+				s += y[i]
+			}
+		}
+		return s
 	}
 }
 
@@ -129,17 +142,7 @@ func TestDeterministicAcrossWorkers(t *testing.T) {
 	for i := range y {
 		y[i] = math.Sin(float64(i)) * float64(i)
 	}
-	f := func() Evaluator {
-		return func(lab []int32) float64 {
-			var s float64
-			for i, l := range lab {
-				if l == 0 {
-					s += y[i]
-				}
-			}
-			return s
-		}
-	}
+	f := func() Evaluator { return groupASum(y) }
 	var first Result
 	for _, w := range []int{1, 2, 3, 8} {
 		for _, strata := range [][]int32{nil, stripes(60, 4)} {
@@ -178,17 +181,7 @@ func stripes(n, k int) []int32 {
 func TestMonteCarloIntervalCoversExact(t *testing.T) {
 	labels := []int32{0, 0, 0, 0, 0, 0, 0, 0, 1, 1, 1, 1, 1, 1, 1, 1}
 	y := []float64{3.1, 4.7, 2.2, 5.9, 4.4, 6.1, 3.3, 5.0, 2.0, 3.9, 1.7, 2.8, 4.1, 2.5, 3.0, 1.2}
-	f := func() Evaluator {
-		return func(lab []int32) float64 {
-			var s float64
-			for i, l := range lab {
-				if l == 0 {
-					s += y[i]
-				}
-			}
-			return s
-		}
-	}
+	f := func() Evaluator { return groupASum(y) }
 	for _, alt := range []Alternative{Greater, Less, TwoSided} {
 		exact, err := Run(Plan{Labels: labels, Alternative: alt}, f)
 		if err != nil || !exact.Exact || exact.Permutations != 12870 {
@@ -268,15 +261,7 @@ func TestRunManyMatchesRun(t *testing.T) {
 		labels[i] = int32(i % 2)
 		y[i] = math.Cos(float64(i) * 1.7)
 	}
-	sumA := func(lab []int32) float64 {
-		var s float64
-		for i, l := range lab {
-			if l == 0 {
-				s += y[i]
-			}
-		}
-		return s
-	}
+	sumA := groupASum(y)
 	firstHalf := func(lab []int32) float64 {
 		var s float64
 		for _, l := range lab[:20] {

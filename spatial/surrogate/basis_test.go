@@ -9,48 +9,20 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
-// denseOmega is M W* M as a dense matrix, written out from its definition
-// (Dray, Legendre & Peres-Neto 2006, eq. 4; de Jong, Sprenger & van Veen
-// 1984), for checks.
+// denseOmega is M W* M of the areas in keep (ascending) as a dense
+// matrix, written out from its definition (Dray, Legendre & Peres-Neto
+// 2006, eq. 4; de Jong, Sprenger & van Veen 1984), for checks.
 func denseOmega(g *weights.Graph, keep []int32) *mat.SymDense {
-	n := len(keep)
-	pos := map[int32]int{}
+	idx := make([]int, len(keep))
 	for k, i := range keep {
-		pos[i] = k
+		idx[k] = int(i)
 	}
-	w := mat.NewDense(n, n, nil)
-	for k, i := range keep {
-		nb, wt := g.Row(int(i))
-		for t, j := range nb {
-			if p, ok := pos[j]; ok {
-				w.Set(k, p, w.At(k, p)+wt[t]/2)
-				w.Set(p, k, w.At(p, k)+wt[t]/2)
-			}
-		}
-	}
-	m := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		for j := 0; j < n; j++ {
-			v := -1 / float64(n)
-			if i == j {
-				v++
-			}
-			m.Set(i, j, v)
-		}
-	}
-	var t, o mat.Dense
-	t.Mul(m, w)
-	o.Mul(&t, m)
-	s := mat.NewSymDense(n, nil)
-	for i := 0; i < n; i++ {
-		for j := i; j < n; j++ {
-			s.SetSym(i, j, (o.At(i, j)+o.At(j, i))/2)
-		}
-	}
-	return s
+	s := g.Subset(idx)
+	return testkit.DoublyCentred(testkit.Dense(s.Offsets, s.Neighbours, s.Weights))
 }
 
 // checkEigenpairs checks that the stored vectors are orthonormal,

@@ -49,15 +49,9 @@ func BenchmarkBasis3000(b *testing.B) {
 	}
 }
 
-// benchOutcome is a smooth outcome with noise and a two-group split of
-// the 3,000-area region, made up for timing only.
-func benchOutcome(tb testing.TB) (*Basis, *Outcome, []float64, []int32) {
-	g := regionGraph(tb, 3000)
-	b, err := NewBasis(g, Options{})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	n := g.Len()
+// benchColumns is a smooth outcome with noise and a split into two groups
+// of bands of 300 areas, made up for timing only.
+func benchColumns(n int) ([]float64, []int32) {
 	y := make([]float64, n)
 	lab := make([]int32, n)
 	rng := shuffle.NewStream(1, 1, 0)
@@ -65,6 +59,19 @@ func benchOutcome(tb testing.TB) (*Basis, *Outcome, []float64, []int32) {
 		y[i] = math.Sin(float64(i)/150) + 0.5*rng.Float64()
 		lab[i] = int32((i / 300) % 2)
 	}
+	return y, lab
+}
+
+// benchOutcome prepares benchColumns on the dense basis of the 3,000-area
+// region.
+func benchOutcome(tb testing.TB) (*Basis, *Outcome, []float64, []int32) {
+	g := regionGraph(tb, 3000)
+	b, err := NewBasis(g, Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	n := g.Len()
+	y, lab := benchColumns(n)
 	o, err := b.Prepare(y)
 	if err != nil {
 		tb.Fatal(err)

@@ -5,11 +5,10 @@ import (
 	"sort"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
-
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -44,36 +43,21 @@ func irregular(tb testing.TB, r, c int, seed uint64) *weights.Graph {
 	return g
 }
 
-// sarField draws fields y = (I − ρW)⁻¹ε, ε standard normal, by one LU
-// factorisation of I − ρW reused for every draw.
+// sarField draws fields y = (I − ρW)⁻¹ε on g, ε standard normal from the
+// test's stream (testkit.SAR: one factorisation, one solve per draw).
 type sarField struct {
-	lu mat.LU
-	n  int
+	sar *testkit.SAR
+	n   int
 }
 
 func newSAR(g *weights.Graph, rho float64) *sarField {
-	n := g.Len()
-	a := mat.NewDense(n, n, nil)
-	for i := 0; i < n; i++ {
-		a.Set(i, i, 1)
-		nb, w := g.Row(i)
-		for k, j := range nb {
-			a.Set(i, int(j), a.At(i, int(j))-rho*w[k])
-		}
-	}
-	s := &sarField{n: n}
-	s.lu.Factorize(a)
-	return s
+	return &sarField{sar: testkit.NewSAR(testkit.Dense(g.Offsets, g.Neighbours, g.Weights), rho), n: g.Len()}
 }
 
 func (s *sarField) draw(tb testing.TB, rng *shuffle.Stream) []float64 {
 	e := make([]float64, s.n)
 	normals(rng, e)
-	var y mat.VecDense
-	if err := s.lu.SolveVecTo(&y, false, mat.NewVecDense(s.n, e)); err != nil {
-		tb.Fatal(err)
-	}
-	return append([]float64(nil), y.RawVector().Data...)
+	return s.sar.Field(tb, e)
 }
 
 // medianSplit labels the areas above the median of x as group 0 (A).
@@ -88,6 +72,21 @@ func medianSplit(x []float64) []int32 {
 		}
 	}
 	return lab
+}
+
+// prepared is the basis of g with options opt and the outcome y prepared
+// on it.
+func prepared(tb testing.TB, g *weights.Graph, opt Options, y []float64) (*Basis, *Outcome) {
+	tb.Helper()
+	b, err := NewBasis(g, opt)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	o, err := b.Prepare(y)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return b, o
 }
 
 // moranLinked is Moran's I of y over the linked areas of b (Moran 1950),
@@ -106,16 +105,8 @@ func moranLinked(tb testing.TB, b *Basis, g *weights.Graph, y []float64) float64
 	return v
 }
 
-func meanVar(y []float64) (m, v float64) {
-	for _, x := range y {
-		m += x
-	}
-	m /= float64(len(y))
-	for _, x := range y {
-		v += (x - m) * (x - m)
-	}
-	return m, v / float64(len(y)-1)
-}
+// meanVar is the mean and sample variance of y.
+func meanVar(y []float64) (m, v float64) { return testkit.MeanVar(y) }
 
 // ksDistance is the two-sample Kolmogorov–Smirnov statistic
 // sup_x |F_a(x) − F_b(x)| (Smirnov 1939), by one merge of the sorted

@@ -13,14 +13,7 @@ import (
 // draws surrogates of y from basis opt.
 func nullOf(t *testing.T, g *weights.Graph, opt Options, y []float64, lab []int32, draws int, purpose uint64) shuffle.Result {
 	t.Helper()
-	b, err := NewBasis(g, opt)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := b.Prepare(y)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, o := prepared(t, g, opt, y)
 	return groupTest(t, o, groups.DiffMedians, lab, groupValue(t, groups.DiffMedians, y, lab),
 		shuffle.SurrogatePlan{Draws: draws, Seed: 3, Purpose: purpose, KeepNull: true})
 }

@@ -43,59 +43,57 @@ func TestDenseSurrogatesKeepMoranMeanVariance(t *testing.T) {
 		{"skewed on binary rook 12×12", binary, binY, Options{}},
 	}
 	for _, c := range cases {
-		t.Run(c.name, func(t *testing.T) {
-			b, err := NewBasis(c.g, c.opt)
-			if err != nil {
-				t.Fatal(err)
+		t.Run(c.name, func(t *testing.T) { checkDenseSurrogates(t, c.g, c.y, c.opt) })
+	}
+}
+
+// checkDenseSurrogates draws 200 surrogates of y on a complete basis of g
+// and checks that each keeps Moran's I, the mean and the variance, that
+// islands get island values, and that the surrogates are not y.
+func checkDenseSurrogates(t *testing.T, g *weights.Graph, y []float64, opt Options) {
+	b, o := prepared(t, g, opt, y)
+	if o.MoranTolerance() > 1e-12 {
+		t.Errorf("complete basis: tolerance %g", o.MoranTolerance())
+	}
+	i0 := moranLinked(t, b, g, y)
+	m0, v0 := meanVar(y)
+	s := b.NewScratch()
+	out := make([]float64, len(y))
+	rng := shuffle.NewStream(9, 9, 0)
+	var worstI, worstM, worstV, corr float64
+	const draws = 200
+	for d := 0; d < draws; d++ {
+		o.Draw(&rng, out, s)
+		worstI = math.Max(worstI, math.Abs(moranLinked(t, b, g, out)-i0))
+		m, v := meanVar(out)
+		worstM = math.Max(worstM, math.Abs(m-m0)/math.Max(1, math.Abs(m0)))
+		worstV = math.Max(worstV, math.Abs(v-v0)/v0)
+		corr += correlation(out, y) / draws
+		for _, i := range b.Islands() {
+			found := false
+			for _, j := range b.Islands() {
+				found = found || out[i] == y[j]
 			}
-			o, err := b.Prepare(c.y)
-			if err != nil {
-				t.Fatal(err)
+			if !found {
+				t.Fatalf("island %d got %v, not an island value", i, out[i])
 			}
-			if o.MoranTolerance() > 1e-12 {
-				t.Errorf("complete basis: tolerance %g", o.MoranTolerance())
-			}
-			i0 := moranLinked(t, b, c.g, c.y)
-			m0, v0 := meanVar(c.y)
-			s := b.NewScratch()
-			out := make([]float64, len(c.y))
-			rng := shuffle.NewStream(9, 9, 0)
-			var worstI, worstM, worstV, corr float64
-			const draws = 200
-			for d := 0; d < draws; d++ {
-				o.Draw(&rng, out, s)
-				worstI = math.Max(worstI, math.Abs(moranLinked(t, b, c.g, out)-i0))
-				m, v := meanVar(out)
-				worstM = math.Max(worstM, math.Abs(m-m0)/math.Max(1, math.Abs(m0)))
-				worstV = math.Max(worstV, math.Abs(v-v0)/v0)
-				corr += correlation(out, c.y) / draws
-				for _, i := range b.Islands() {
-					found := false
-					for _, j := range b.Islands() {
-						found = found || out[i] == c.y[j]
-					}
-					if !found {
-						t.Fatalf("island %d got %v, not an island value", i, out[i])
-					}
-				}
-			}
-			t.Logf("I %.6f; worst |ΔI| %.2g, |Δmean| %.2g, |Δvar|/var %.2g; mean correlation with the outcome %.3f",
-				i0, worstI, worstM, worstV, corr)
-			if worstI > 1e-9 || worstM > 1e-12 || worstV > 1e-12 {
-				t.Errorf("not preserved: ΔI %g, Δmean %g, Δvar %g", worstI, worstM, worstV)
-			}
-			// The surrogates are not the outcome: over random signs the
-			// correlation with it, Σ±c_k²/Σc_k², has mean 0 and standard
-			// deviation √Σc_k⁴/Σc_k² per draw.
-			var c2, c4 float64
-			for _, c := range o.coef {
-				c2 += c * c
-				c4 += c * c * c * c
-			}
-			if sd := math.Sqrt(c4) / c2 / math.Sqrt(draws); math.Abs(corr) > 5*sd+0.01 {
-				t.Errorf("mean correlation with the outcome %v", corr)
-			}
-		})
+		}
+	}
+	t.Logf("I %.6f; worst |ΔI| %.2g, |Δmean| %.2g, |Δvar|/var %.2g; mean correlation with the outcome %.3f",
+		i0, worstI, worstM, worstV, corr)
+	if worstI > 1e-9 || worstM > 1e-12 || worstV > 1e-12 {
+		t.Errorf("not preserved: ΔI %g, Δmean %g, Δvar %g", worstI, worstM, worstV)
+	}
+	// The surrogates are not the outcome: over random signs the
+	// correlation with it, Σ±c_k²/Σc_k², has mean 0 and standard
+	// deviation √Σc_k⁴/Σc_k² per draw.
+	var c2, c4 float64
+	for _, c := range o.coef {
+		c2 += c * c
+		c4 += c * c * c * c
+	}
+	if sd := math.Sqrt(c4) / c2 / math.Sqrt(draws); math.Abs(corr) > 5*sd+0.01 {
+		t.Errorf("mean correlation with the outcome %v", corr)
 	}
 }
 
@@ -124,14 +122,7 @@ func TestSparseSurrogateMoranTolerance(t *testing.T) {
 		rng := shuffle.NewStream(4, 4, 0)
 		y := field.draw(t, &rng)
 		for _, mode := range []Residual{White, Matched} {
-			b, err := NewBasis(g, Options{Method: Sparse, Top: 60, Bottom: 30, Residual: mode})
-			if err != nil {
-				t.Fatal(err)
-			}
-			o, err := b.Prepare(y)
-			if err != nil {
-				t.Fatal(err)
-			}
+			b, o := prepared(t, g, Options{Method: Sparse, Top: 60, Bottom: 30, Residual: mode}, y)
 			tol := o.MoranTolerance()
 			i0 := moranLinked(t, b, g, y)
 			m0, v0 := meanVar(y)
@@ -175,14 +166,7 @@ func TestDrawAllocatesNothingAndRepeats(t *testing.T) {
 		y[i] = math.Sin(float64(i) / 7)
 	}
 	for _, opt := range []Options{{}, {Method: Sparse, Top: 40, Bottom: 20}, {Method: Sparse, Top: 40, Bottom: 20, Residual: White}, {RotationGap: 0.01}} {
-		b, err := NewBasis(g, opt)
-		if err != nil {
-			t.Fatal(err)
-		}
-		o, err := b.Prepare(y)
-		if err != nil {
-			t.Fatal(err)
-		}
+		b, o := prepared(t, g, opt, y)
 		s := b.NewScratch()
 		out := make([]float64, len(y))
 		rng := shuffle.NewStream(1, 2, 3)

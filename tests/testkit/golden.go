@@ -1,7 +1,3 @@
-// Package testkit holds the helpers the project's tests share: golden
-// files and the -update flag that rewrites them. It is imported by tests
-// only, and depends on no package of the project, so that any package's
-// own tests can use it without an import cycle.
 package testkit
 
 import (

@@ -1,68 +1,11 @@
-package tests
+package effective
 
 import (
-	"math"
 	"math/rand/v2"
-	"sort"
 	"testing"
 
-	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/shuffle"
-	"github.com/areatest/areatest/weights"
 )
-
-// effLattice is the rook-contiguity graph of a side×side grid.
-func effLattice(t testing.TB, side int) *weights.Graph {
-	return weights.Lattice(side, side, weights.Rook)
-}
-
-// effSAR draws a simultaneous autoregressive field y = (I − ρW)⁻¹ε (W the
-// row-standardised graph, ε standard normal) by summing the Neumann series
-// Σ ρᵗ Wᵗ ε until its terms vanish; with ρ = 0 it is ε itself.
-func effSAR(w *weights.Graph, rho float64, rng *rand.Rand) []float64 {
-	n := w.Len()
-	y := make([]float64, n)
-	term := make([]float64, n)
-	next := make([]float64, n)
-	for i := range term {
-		term[i] = rng.NormFloat64()
-		y[i] = term[i]
-	}
-	for step := 0; rho != 0 && step < 400; step++ {
-		var size float64
-		for i := 0; i < n; i++ {
-			nb, wt := w.Row(i)
-			var s float64
-			for k, j := range nb {
-				s += wt[k] * term[j]
-			}
-			next[i] = rho * s
-			size = math.Max(size, math.Abs(next[i]))
-		}
-		term, next = next, term
-		for i := range y {
-			y[i] += term[i]
-		}
-		if size < 1e-14 {
-			break
-		}
-	}
-	return y
-}
-
-// effSplit is the 0/1 indicator of the values above the median.
-func effSplit(v []float64) []float64 {
-	s := append([]float64(nil), v...)
-	sort.Float64s(s)
-	med := (s[(len(s)-1)/2] + s[len(s)/2]) / 2
-	out := make([]float64, len(v))
-	for i, x := range v {
-		if x > med {
-			out[i] = 1
-		}
-	}
-	return out
-}
 
 // Size of the modified t-test (Clifford, Richardson & Hémon 1989; Dutilleul
 // 1993) against the ordinary t-test, on layers where the null holds: outcome
@@ -79,9 +22,8 @@ func effSplit(v []float64) []float64 {
 // fields, so the modified test may exceed its level somewhat); with
 // independent data (ρ = 0) both hold 5%. The figures are logged.
 func TestModifiedTTestSize(t *testing.T) {
-	g := effLattice(t, 20)
-	w := g.RowStandardised()
-	lags, err := effective.NewLags(g, 0)
+	g := lattice(t, 20, 20)
+	lags, err := NewLags(g, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -94,12 +36,13 @@ func TestModifiedTTestSize(t *testing.T) {
 		{"SAR ρ = 0.8", 0.8, 20251},
 		{"independent", 0, 20252},
 	} {
+		field := newSAR(g, c.rho)
 		rng := rand.New(rand.NewPCG(c.seed, 1))
 		var modified, ordinary int
 		var neff float64
 		for k := 0; k < layers; k++ {
-			y := effSAR(w, c.rho, rng)
-			x := effSplit(effSAR(w, c.rho, rng))
+			y := field.draw(t, rng)
+			x := aboveMedian(field.draw(t, rng))
 			res, err := lags.Test(y, x, shuffle.TwoSided)
 			if err != nil {
 				t.Fatal(err)
