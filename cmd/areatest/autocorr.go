@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -73,10 +74,10 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 			return fmt.Errorf("%s: %w", c.lay.Source, err)
 		}
 	}
-	bar := newProgress(stderr)
-	opt.Progress = bar.stage
+	bar := progress.New(stderr)
+	opt.Progress = bar.Stage
 	res, err := clustering.Autocorr(in, opt)
-	bar.finish()
+	bar.Finish()
 	if err != nil {
 		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}

@@ -39,24 +39,25 @@ func BenchmarkCompareWhole3000Strata(b *testing.B) {
 }
 
 func benchCompare(b *testing.B, strata string) {
-	data := benchLayer(b, 3000)
-	c := compareFlags{outcome: "rate", group: "policy", strata: strata, alternative: "two-sided", zones: "none", fpShuffles: 199,
-		permutations: 9999, seed: 1, workers: 2, alpha: 0.05, format: "text"}
-	c.weights = weightFlags{contiguity: "queen", points: "centroid", order: 1, transform: "row", islands: "drop", changed: func(string) bool { return false }}
-	opt, spec, err := c.options()
-	if err != nil {
-		b.Fatal(err)
+	args := []string{"-y", "rate", "-g", "policy", "--zones", "none", "--surrogates", "0", "--false-positive-check", "0", "--workers", "2"}
+	if strata != "" {
+		args = append(args, "--strata", strata)
 	}
+	benchRun(b, args)
+}
+
+// benchRun times `areatest compare` on the 3,000-area region, in process,
+// from reading the GeoJSON to writing the text report.
+func benchRun(b *testing.B, args []string) {
+	data := benchLayer(b, 3000)
+	args = append([]string{"compare", "-i", "-"}, args...)
 	b.SetBytes(int64(len(data)))
 	b.ReportAllocs()
 	b.ResetTimer()
 	for range b.N {
-		lay, _, err := geojson.Read(bytes.NewReader(data), "bench.geojson", geojson.Options{})
-		if err != nil {
-			b.Fatal(err)
-		}
-		if _, err := compareLayer(lay, &c, opt, spec, io.Discard); err != nil {
-			b.Fatal(err)
+		var stderr bytes.Buffer
+		if code := run(args, bytes.NewReader(data), io.Discard, &stderr); code != 0 {
+			b.Fatalf("exit %d: %s", code, stderr.String())
 		}
 	}
 }
@@ -66,29 +67,7 @@ func benchCompare(b *testing.B, strata string) {
 // surrogates × 199 shuffles, the effective sample size, automatic zones —
 // ≤ 20 s.
 func BenchmarkCompareAllSchemes3000(b *testing.B) {
-	data := benchLayer(b, 3000)
-	c := compareFlags{outcome: "rate", group: "policy", alternative: "two-sided", zones: "auto",
-		permutations: 9999, surrogates: 999, fpChecks: 500, fpShuffles: 199, seed: 1, workers: 2, alpha: 0.05, format: "text"}
-	c.weights = weightFlags{contiguity: "queen", points: "centroid", order: 1, transform: "row", islands: "drop", changed: func(string) bool { return false }}
-	opt, spec, err := c.options()
-	if err != nil {
-		b.Fatal(err)
-	}
-	b.ReportAllocs()
-	b.ResetTimer()
-	for range b.N {
-		lay, _, err := geojson.Read(bytes.NewReader(data), "bench.geojson", geojson.Options{})
-		if err != nil {
-			b.Fatal(err)
-		}
-		res, err := compareLayer(lay, &c, opt, spec, io.Discard)
-		if err != nil {
-			b.Fatal(err)
-		}
-		if len(res.Tests) != 3 || res.FalsePositiveRate == nil {
-			b.Fatalf("%d schemes", len(res.Tests))
-		}
-	}
+	benchRun(b, []string{"-y", "rate", "-g", "policy", "--workers", "2"})
 }
 
 // Reading and contiguity alone, for the breakdown of the whole run.

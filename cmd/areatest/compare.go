@@ -4,18 +4,15 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"runtime"
 
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/internal/choice"
-	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
-	"github.com/areatest/areatest/weights"
 )
 
 const compareUsage = `areatest compare: does an outcome differ between groups of areas beyond chance?
@@ -40,30 +37,22 @@ Examples:
   cat counties.geojson | areatest compare -i - -y rate -g policy --format json -o result.json
 `
 
-// compareFlags are the settings shared by compare and demo.
+// compareFlags are the settings of compare and demo.
 type compareFlags struct {
-	input, id, outcome, group, strata string
-	statistic, alternative, zones     string
-	format, output                    string
-	contrast, covariates              []string
-	permutations, workers             int
-	surrogates, fpChecks, fpShuffles  int
-	seed                              uint64
-	alpha                             float64
-	skipBadGeometry                   bool
-	weights                           weightFlags
-	transform                         weights.Transform // set by options
-	keepIslands                       bool              // set by options
+	sharedFlags
+	outcome, group, strata, statistic, zones string
+	contrast, covariates                     []string
+	surrogates, fpChecks, fpShuffles         int
+	alpha                                    float64
+	opt                                      compare.Options // set by check
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	if withColumns {
-		fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+		c.registerInput(fs)
 		fs.StringVarP(&c.outcome, "outcome", "y", "", "numeric column to compare")
 		fs.StringVarP(&c.group, "group", "g", "", "column whose values name the groups")
 		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
-		fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
-		fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning, instead of stopping")
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
 	}
 	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none)")
@@ -72,61 +61,39 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	fs.StringVar(&c.zones, "zones", "auto", "without --strata, on 300 or more areas: also shuffle within automatic contiguous zones (auto), or not (none)")
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
-	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (A above B) or less")
-	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per scheme")
-	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
-	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
-	fs.StringVar(&c.format, "format", "text", "text or json")
-	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
-	c.weights.register(fs)
+	c.registerRun(fs, "text", "json")
+	fs.Lookup("alternative").Usage = "two-sided, greater (A above B) or less"
+	fs.Lookup("permutations").Usage = "Monte Carlo shuffles per scheme"
 }
 
-// options checks the flag values and turns them into library options and
-// the recipe of the neighbour graph.
-func (c *compareFlags) options() (compare.Options, weights.Spec, error) {
-	opt := compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
-		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
-	rule, transform, keep, err := c.weights.spec()
-	if err != nil {
-		return opt, rule, err
+// check checks the flag values and turns them into the library's options.
+func (c *compareFlags) check() error {
+	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
+		return err
 	}
-	c.transform, c.keepIslands = transform, keep
+	c.opt = compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
+		Alternative: c.alt, Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
 	if c.statistic != "" {
 		s, err := groups.ParseStatistic(c.statistic)
 		if err != nil {
-			return opt, rule, usagef("--statistic: %v", err)
+			return usagef("--statistic: %v", err)
 		}
-		opt.Statistic = &s
+		c.opt.Statistic = &s
 	}
-	if opt.Alternative, err = shuffle.ParseAlternative(c.alternative); err != nil {
-		return opt, rule, usagef("--alternative: %v", err)
-	}
-	zones, zonesErr := choice.Parse("--zones", c.zones, choice.Name[bool]{Name: "auto", Value: true}, choice.Name[bool]{Name: "none"})
-	_, formatErr := c.json()
+	zones, err := choice.Parse("--zones", c.zones, choice.Name[bool]{Name: "auto", Value: true}, choice.Name[bool]{Name: "none"})
+	c.opt.Zones = zones
 	switch {
+	case err != nil:
+		return usagef("%v", err)
 	case len(c.contrast) != 0 && len(c.contrast) != 2:
-		return opt, rule, usagef("--contrast takes two levels, A,B (got %d)", len(c.contrast))
-	case c.permutations < 1:
-		return opt, rule, usagef("--permutations must be at least 1")
-	case c.workers < 1:
-		return opt, rule, usagef("--workers must be at least 1")
-	case zonesErr != nil:
-		return opt, rule, usagef("%v", zonesErr)
+		return usagef("--contrast takes two levels, A,B (got %d)", len(c.contrast))
 	case c.surrogates < 0 || c.fpChecks < 0 || c.fpShuffles < 1:
-		return opt, rule, usagef("--surrogates and --false-positive-check must not be negative, --check-shuffles at least 1")
+		return usagef("--surrogates and --false-positive-check must not be negative, --check-shuffles at least 1")
 	case !(c.alpha > 0 && c.alpha < 1):
-		return opt, rule, usagef("--alpha must be between 0 and 1")
-	case formatErr != nil:
-		return opt, rule, usagef("%v", formatErr)
+		return usagef("--alpha must be between 0 and 1")
 	}
-	opt.Zones = zones
-	return opt, rule, nil
-}
-
-// json reports whether --format asks for JSON (otherwise text).
-func (c *compareFlags) json() (bool, error) {
-	return choice.Parse("--format", c.format, choice.Name[bool]{Name: "text"}, choice.Name[bool]{Name: "json", Value: true})
+	return nil
 }
 
 func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -141,100 +108,74 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return usagef("--%s is required (see areatest compare --help)", req.name)
 		}
 	}
-	return c.run(stdout, stderr, []string{c.input, c.weights.file}, func() (*layer.Layer, []string, error) {
-		return readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	if err := c.check(); err != nil {
+		return err
+	}
+	if err := c.open(stdin, stderr); err != nil {
+		return err
+	}
+	return c.run(stdout, stderr)
+}
+
+// run compares on the layer that is read and writes the result.
+func (c *compareFlags) run(stdout, stderr io.Writer) error {
+	res, err := c.compare(stderr)
+	if err != nil {
+		return err
+	}
+	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
+		"json": func(w io.Writer) error { return report.JSON(w, res) },
+		"text": func(w io.Writer) error { return report.CompareText(w, res) },
 	})
 }
 
-// run checks the flags, reads the layer, runs the comparison on it and
-// writes the result; inputs are the files the output must not overwrite.
-func (c *compareFlags) run(stdout, stderr io.Writer, inputs []string, read func() (*layer.Layer, []string, error)) error {
-	opt, spec, err := c.options()
-	if err != nil {
-		return err
-	}
-	lay, warnings, err := read()
-	if err != nil {
-		return err
-	}
-	for _, w := range warnings {
-		warn(stderr, w)
-	}
-	res, err := compareLayer(lay, c, opt, spec, stderr)
-	if err != nil {
-		return err
-	}
-	return emitCompare(res, c, stdout, stderr, inputs)
-}
-
-// readLayer reads a GeoJSON layer from a path, or from stdin for "-".
-func readLayer(path string, stdin io.Reader, opt geojson.Options) (*layer.Layer, []string, error) {
-	if path == "-" {
-		return geojson.Read(stdin, "stdin", opt)
-	}
-	return geojson.ReadFile(path, opt)
-}
-
-// compareLayer pulls the named columns out of the layer, builds the
-// neighbour graph and runs the comparison, with the graph's warnings and a
-// progress bar on stderr.
-func compareLayer(lay *layer.Layer, c *compareFlags, opt compare.Options, spec weights.Spec, stderr io.Writer) (*compare.Result, error) {
-	in, err := compareInput(lay, c)
+// compare pulls the named columns out of the layer, builds the neighbour
+// graph and runs the comparison, with a progress bar on stderr.
+func (c *compareFlags) compare(stderr io.Writer) (*compare.Result, error) {
+	in, err := c.columns()
 	if err != nil {
 		return nil, err
 	}
-	var res *compare.Result
-	graph, warnings, err := c.weights.graph(lay, spec)
-	if err == nil {
-		in.Graph, in.Transform, in.KeepIslands = graph, c.transform, c.keepIslands
-		bar := newProgress(stderr)
-		opt.Progress = bar.stage
-		if res, err = compare.Run(in, opt); err != nil {
-			err = fmt.Errorf("%s: %w", lay.Source, flagAdvice(err))
-		}
-		bar.finish()
-	}
-	for _, w := range warnings {
-		warn(stderr, w)
-	}
-	if err != nil {
+	if err := c.build(stderr); err != nil {
 		return nil, err
 	}
-	res.Version, res.Input.File = Version, lay.Source
+	in.Graph, in.Transform, in.KeepIslands = c.graph, c.transform, c.keepIslands
+	bar := progress.New(stderr)
+	opt := c.opt
+	opt.Progress = bar.Stage
+	res, err := compare.Run(in, opt)
+	bar.Finish()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", c.lay.Source, flagAdvice(err))
+	}
+	res.Version, res.Input.File = Version, c.lay.Source
 	return res, nil
 }
 
-// compareInput pulls the outcome, group, covariate and strata columns out
-// of the layer.
-func compareInput(lay *layer.Layer, c *compareFlags) (compare.Input, error) {
-	var in compare.Input
-	outcome, err := lay.Column(c.outcome)
+// columns pulls the outcome, group, covariate and strata columns out of
+// the layer.
+func (c *compareFlags) columns() (compare.Input, error) {
+	lay := c.lay
+	outcome, err := numericColumn(lay, c.outcome, "the outcome")
 	if err != nil {
-		return in, err
-	}
-	if outcome.Kind != layer.Number {
-		return in, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); the outcome must be a number in every area that has one",
-			lay.Source, c.outcome, firstValue(outcome), firstID(lay, outcome))
+		return compare.Input{}, err
 	}
 	group, err := lay.Column(c.group)
 	if err != nil {
-		return in, err
+		return compare.Input{}, err
 	}
 	if c.group == c.outcome {
-		return in, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+		return compare.Input{}, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
 	}
-	in = compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
+	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
 		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
 	for _, name := range c.covariates {
-		cov, err := lay.Column(name)
-		if err != nil {
-			return in, err
-		}
-		if cov.Kind != layer.Number {
-			return in, fmt.Errorf("%s: covariate %q is not numeric (first non-number value %q in area %s)", lay.Source, name, firstValue(cov), firstID(lay, cov))
-		}
 		if name == c.outcome || name == c.group {
 			return in, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
+		}
+		cov, err := numericColumn(lay, name, "a covariate")
+		if err != nil {
+			return in, err
 		}
 		in.Covariates = append(in.Covariates, compare.Covariate{Name: name, Values: cov.Num, Missing: cov.Missing})
 	}
@@ -280,48 +221,4 @@ func wordNotice(n compare.Notice) string {
 		return "Spectral surrogates and the false-positive check are not run with --covariates: the adjusted statistic would need surrogates of the residuals, which this version does not make."
 	}
 	return n.String()
-}
-
-func labels(c *layer.Column) []string {
-	out := make([]string, len(c.Missing))
-	for i := range out {
-		out[i] = c.Label(i)
-	}
-	return out
-}
-
-func firstValue(c *layer.Column) string {
-	for i, m := range c.Missing {
-		if !m {
-			return c.Label(i)
-		}
-	}
-	return ""
-}
-
-func firstID(l *layer.Layer, c *layer.Column) string {
-	for i, m := range c.Missing {
-		if !m {
-			return fmt.Sprintf("%q", l.IDs[i])
-		}
-	}
-	return "?"
-}
-
-// emitCompare writes the result in the chosen format; with JSON on stdout
-// the warnings go to stderr as well, where a reader of the terminal sees
-// them.
-func emitCompare(res *compare.Result, c *compareFlags, stdout, stderr io.Writer, inputs []string) error {
-	json, _ := c.json() // checked by options
-	if json {
-		for _, w := range res.Warnings {
-			warn(stderr, w)
-		}
-	}
-	return writeOutput(c.output, stdout, inputs, func(w io.Writer) error {
-		if json {
-			return report.JSON(w, res)
-		}
-		return report.CompareText(w, res)
-	})
 }

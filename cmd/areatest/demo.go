@@ -7,7 +7,7 @@ import (
 	"path/filepath"
 
 	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/samples"
 )
 
@@ -42,7 +42,7 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 	}
 	if dir != "" {
 		path := filepath.Join(dir, samples.RegionFile)
-		if err := writeOutput(path, stdout, nil, func(w io.Writer) error {
+		if err := output.Write(path, stdout, nil, func(w io.Writer) error {
 			_, err := w.Write(samples.RegionGeoJSON)
 			return err
 		}); err != nil {
@@ -52,7 +52,14 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		return nil
 	}
 	c.outcome, c.group, c.strata = "rate", "policy", "province"
-	return c.run(stdout, stderr, nil, func() (*layer.Layer, []string, error) {
-		return geojson.Read(bytes.NewReader(samples.RegionGeoJSON), "built-in "+samples.RegionFile, geojson.Options{})
-	})
+	if err := c.check(); err != nil {
+		return err
+	}
+	lay, warnings, err := geojson.Read(bytes.NewReader(samples.RegionGeoJSON), "built-in "+samples.RegionFile, geojson.Options{})
+	if err != nil {
+		return err
+	}
+	warn(stderr, warnings...)
+	c.lay = lay
+	return c.run(stdout, stderr)
 }

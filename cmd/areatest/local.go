@@ -11,6 +11,7 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
@@ -199,7 +200,7 @@ func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 			continue
 		}
 		f, _ := plot.FormatFromPath(out.path) // checked by options; none for the table
-		if err := writeOutput(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
+		if err := output.Write(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
 			return err
 		}
 		res.Written = append(res.Written, out.path)

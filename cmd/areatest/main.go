@@ -19,6 +19,7 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -175,29 +176,56 @@ type sharedFlags struct {
 // register adds the shared flags to fs; the first of formats is the
 // default.
 func (c *sharedFlags) register(fs *pflag.FlagSet, formats ...string) {
-	for _, f := range formats {
-		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
-	}
+	c.registerInput(fs)
+	c.registerRun(fs, formats...)
+}
+
+// registerInput adds the flags that name the layer.
+func (c *sharedFlags) registerInput(fs *pflag.FlagSet) {
 	fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
 	fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
 	fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
+}
+
+// registerRun adds the flags of the shuffles, the output and the weights.
+func (c *sharedFlags) registerRun(fs *pflag.FlagSet, formats ...string) {
 	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (more clustered than chance) or less (more dispersed)")
 	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test")
 	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
 	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
+	c.registerOutput(fs, formats...)
+	c.weights.register(fs)
+}
+
+// registerOutput adds --format (the first of formats is the default) and
+// --output.
+func (c *sharedFlags) registerOutput(fs *pflag.FlagSet, formats ...string) {
+	for _, f := range formats {
+		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
+	}
 	fs.StringVar(&c.format, "format", formats[0], choice.List(c.formats))
 	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
-	c.weights.register(fs)
 }
 
 // prepare checks the shared flags (the alternative read by parseAlt),
 // reads the layer and builds the graph.
-func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, parseAlt func(string) (shuffle.Alternative, error)) (err error) {
+func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, parseAlt func(string) (shuffle.Alternative, error)) error {
 	if c.input == "" {
 		return usagef("--input is required (see areatest %s --help)", cmd)
 	}
-	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
-		return usagef("%v", err)
+	if err := c.check(parseAlt); err != nil {
+		return err
+	}
+	if err := c.open(stdin, stderr); err != nil {
+		return err
+	}
+	return c.build(stderr)
+}
+
+// check checks the shared flags and reads the weights settings.
+func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) (err error) {
+	if err = c.checkOutput(); err != nil {
+		return err
 	}
 	if c.alt, err = parseAlt(c.alternative); err != nil {
 		return usagef("--alternative: %v", err)
@@ -205,17 +233,46 @@ func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, par
 	if c.permutations < 1 || c.workers < 1 {
 		return usagef("--permutations and --workers must be at least 1")
 	}
-	if c.spec, c.transform, c.keepIslands, err = c.weights.spec(); err != nil {
-		return err
+	c.spec, c.transform, c.keepIslands, err = c.weights.spec()
+	return err
+}
+
+// checkOutput reads --format.
+func (c *sharedFlags) checkOutput() (err error) {
+	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
+		return usagef("%v", err)
 	}
+	return nil
+}
+
+// open reads the layer named by --input, with its warnings on stderr.
+func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
 	var warnings []string
-	if c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry}); err != nil {
-		return err
-	}
+	c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
 	warn(stderr, warnings...)
+	return err
+}
+
+// build makes (or reads) the neighbour graph of the layer.
+func (c *sharedFlags) build(stderr io.Writer) (err error) {
+	var warnings []string
 	c.graph, warnings, err = c.weights.graph(c.lay, c.spec)
 	warn(stderr, warnings...)
 	return err
+}
+
+// readLayer reads a GeoJSON layer from a path, or from stdin for "-". A
+// feature that could be left out gets the flag that does so named.
+func readLayer(path string, stdin io.Reader, opt geojson.Options) (lay *layer.Layer, warnings []string, err error) {
+	if path == "-" {
+		lay, warnings, err = geojson.Read(stdin, "stdin", opt)
+	} else {
+		lay, warnings, err = geojson.ReadFile(path, opt)
+	}
+	if fe := (*geojson.Error)(nil); errors.As(err, &fe) && fe.Skippable {
+		err = fmt.Errorf("%w (use --skip-bad-geometry to leave such features out)", err)
+	}
+	return lay, warnings, err
 }
 
 // emit writes the result in the chosen format, by render; the text report
@@ -224,21 +281,8 @@ func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render m
 	if c.format != "text" {
 		warn(stderr, warnings...)
 	}
-	return writeOutput(c.output, stdout, c.inputs(), render[c.format])
+	return output.Write(c.output, stdout, c.inputs(), render[c.format])
 }
 
 // inputs are the files no output may overwrite.
 func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file} }
-
-// numericColumn returns the named column, which must be numeric; role
-// says what it is for, in the error.
-func numericColumn(lay *layer.Layer, name, role string) (*layer.Column, error) {
-	col, err := lay.Column(name)
-	if err != nil {
-		return nil, err
-	}
-	if col.Kind != layer.Number {
-		return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %s); %s must be a number", lay.Source, name, firstValue(col), firstID(lay, col), role)
-	}
-	return col, nil
-}

@@ -5,6 +5,7 @@ import (
 	"io"
 
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -59,10 +60,10 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			return fmt.Errorf("--exclude: %w", err)
 		}
 	}
-	bar := newProgress(stderr)
-	opt.Progress = bar.stage
+	bar := progress.New(stderr)
+	opt.Progress = bar.Stage
 	res, err := clustering.Screen(sin, opt)
-	bar.finish()
+	bar.Finish()
 	if err != nil {
 		return err
 	}

@@ -3,8 +3,7 @@ package main
 import (
 	"io"
 
-	"github.com/areatest/areatest/internal/choice"
-	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/weights"
 )
@@ -29,70 +28,56 @@ Examples:
 `
 
 func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
-	var w weightFlags
-	var input, id, format, output, write string
-	var skip bool
+	var c sharedFlags
+	var write string
 	fs := newFlags("weights", weightsUsage, stderr)
-	fs.StringVarP(&input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
-	fs.StringVar(&id, "id", "", "column holding area ids (default: the feature id)")
-	fs.BoolVar(&skip, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
-	w.register(fs)
+	c.registerInput(fs)
+	c.weights.register(fs)
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")
-	fs.StringVar(&format, "format", "text", "text or json")
-	fs.StringVarP(&output, "output", "o", "-", "write the summary here instead of stdout")
+	c.registerOutput(fs, "text", "json")
+	fs.Lookup("output").Usage = "write the summary here instead of stdout"
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	if input == "" {
+	if c.input == "" {
 		return usagef("--input is required (see areatest weights --help)")
 	}
-	asJSON, err := choice.Parse("--format", format, choice.Name[bool]{Name: "text"}, choice.Name[bool]{Name: "json", Value: true})
-	if err != nil {
-		return usagef("%v", err)
+	err := c.checkOutput()
+	if err == nil {
+		c.spec, c.transform, _, err = c.weights.spec()
 	}
-	spec, transform, _, err := w.spec()
-	if err != nil {
-		return err
+	if err == nil {
+		err = c.open(stdin, stderr)
 	}
-	lay, warnings, err := readLayer(input, stdin, geojson.Options{IDColumn: id, SkipBadGeometry: skip})
-	if err != nil {
-		return err
+	if err == nil {
+		err = c.build(stderr)
 	}
-	for _, m := range warnings {
-		warn(stderr, m)
-	}
-	g, warnings, err := w.graph(lay, spec)
 	if err != nil {
 		return err
-	}
-	for _, m := range warnings {
-		warn(stderr, m)
 	}
 	// The summary and the edge list show the weights as built, or scaled
 	// when a scaling is given.
-	shown := g
-	if w.scalingGiven() {
-		if shown, err = g.Transformed(transform); err != nil {
+	shown := c.graph
+	if c.weights.scalingGiven() {
+		if shown, err = shown.Transformed(c.transform); err != nil {
 			return err
 		}
 	}
-	doc := &report.WeightsDocument{Version: Version, Input: lay.Source, Weights: weights.Summarise(shown, lay.IDs)}
-	doc.Settings = []string{"read from " + w.file}
-	if w.file == "" {
-		doc.Settings = []string{spec.Describe(lay.Geoms)}
+	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs)}
+	doc.Settings = []string{"read from " + c.weights.file}
+	if c.weights.file == "" {
+		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}
 	}
 	if write != "" {
-		if err := writeOutput(write, stdout, []string{input}, func(out io.Writer) error {
-			return weights.WriteEdgeList(out, shown, lay.IDs)
-		}); err != nil {
+		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs) }); err != nil {
 			return err
 		}
 		doc.Written = write
 	}
-	return writeOutput(output, stdout, []string{input, write}, func(out io.Writer) error {
-		if asJSON {
-			return report.JSON(out, doc)
+	return output.Write(c.output, stdout, append(c.inputs(), write), func(w io.Writer) error {
+		if c.format == "json" {
+			return report.JSON(w, doc)
 		}
-		return report.WeightsText(out, doc)
+		return report.WeightsText(w, doc)
 	})
 }

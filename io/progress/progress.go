@@ -1,4 +1,7 @@
-package main
+// Package progress draws a one-line progress bar on a terminal while a long
+// run works. It draws only when the writer is a terminal and only once a
+// stage has lasted a second, so pipes, files and quick runs see nothing.
+package progress
 
 import (
 	"fmt"
@@ -11,10 +14,8 @@ import (
 	"golang.org/x/term"
 )
 
-// progress draws a one-line bar on stderr while long runs work. It draws
-// only on a terminal, and only once a run has lasted a second, so pipes,
-// files and quick runs see nothing.
-type progress struct {
+// Bar is the progress line of one run, on one writer (stderr).
+type Bar struct {
 	mu     sync.Mutex
 	w      io.Writer
 	label  string
@@ -24,13 +25,15 @@ type progress struct {
 	active bool
 }
 
-func newProgress(w io.Writer) *progress {
+// New returns the bar for w; it draws only if w is a terminal.
+func New(w io.Writer) *Bar {
 	f, ok := w.(*os.File)
-	return &progress{w: w, active: ok && term.IsTerminal(int(f.Fd()))}
+	return &Bar{w: w, active: ok && term.IsTerminal(int(f.Fd()))}
 }
 
-// stage starts a new labelled stage and returns its callback.
-func (p *progress) stage(label string) func(done, total int) {
+// Stage starts a new labelled stage and returns its callback (done of
+// total steps), or nil when the bar does not draw.
+func (p *Bar) Stage(label string) func(done, total int) {
 	if p == nil || !p.active {
 		return nil
 	}
@@ -40,7 +43,7 @@ func (p *progress) stage(label string) func(done, total int) {
 	return p.update
 }
 
-func (p *progress) update(done, total int) {
+func (p *Bar) update(done, total int) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	now := time.Now()
@@ -54,8 +57,8 @@ func (p *progress) update(done, total int) {
 	p.drawn = true
 }
 
-// finish clears the bar line.
-func (p *progress) finish() {
+// Finish clears the bar line.
+func (p *Bar) Finish() {
 	if p == nil || !p.drawn {
 		return
 	}
