@@ -430,24 +430,11 @@ func TestMonteCarloCoversExact(t *testing.T) {
 			}
 		}
 	}
-	// 99.9% quantile of Binomial(tests, 0.05), by summing its terms.
-	limit, cum := 0, 0.0
-	for ; limit <= tests; limit++ {
-		cum += math.Exp(lgammaInt(tests+1)-lgammaInt(limit+1)-lgammaInt(tests-limit+1)) *
-			math.Pow(0.05, float64(limit)) * math.Pow(0.95, float64(tests-limit))
-		if cum >= 0.999 {
-			break
-		}
-	}
+	limit := binomialQuantile(tests, 0.05, 0.999)
 	t.Logf("%d comparisons, %d outside their 95%% interval (at most %d allowed)", tests, miss95, limit)
 	if miss95 > limit {
 		t.Errorf("%d of %d exact p-values outside the 95%% intervals, more than %d", miss95, tests, limit)
 	}
-}
-
-func lgammaInt(n int) float64 {
-	v, _ := math.Lgamma(float64(n))
-	return v
 }
 
 // Results do not depend on the number of workers.
