@@ -3,8 +3,10 @@
 // boundaries (the US states from the Census Bureau, testdata/us-states.geojson)
 // and values stored by scripts run with scipy, numpy and statsmodels
 // (testdata/scipy). Each file under testdata/ has its provenance in
-// testdata/README.md. Checks of one package's formulas that need no outside
-// data live beside that package instead.
+// testdata/README.md. Checks of one package that need no outside data
+// (its formulas, and its null models on simulated layers, such as the false
+// flags of spatial/local in spatial/local/null_test.go) live beside that
+// package instead.
 //
 // The outside checks of each package:
 //

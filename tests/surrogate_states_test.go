@@ -6,6 +6,7 @@ import (
 
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
+	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -82,43 +83,51 @@ func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
 	}
 }
 
-// On the whole layer (the states, DC and five territories) Alaska, Hawaii
-// and the territories have no neighbour (common knowledge, no source): the
-// basis sets them apart, and a surrogate gives them their own values in a
-// random order. The spectral test of the difference in mean latitude
-// between east and west runs through the shuffle machinery, and its null
-// is wider than the free shuffle's: latitude clusters, and so does any
-// grouping drawn on the map.
-func TestSurrogateStatesIslandsAndTest(t *testing.T) {
+// wholeStates is the setup shared by the tests on the whole layer (the
+// states, DC and five territories): its row-standardised queen graph, the
+// spectral basis of that graph, and the centroid latitude prepared in it.
+type wholeStates struct {
+	l     *layer.Layer
+	queen *weights.Graph
+	b     *surrogate.Basis
+	lat   []float64
+	o     *surrogate.Outcome
+}
+
+func prepareWholeStates(t *testing.T) wholeStates {
+	t.Helper()
 	l := loadStates(t)
 	queen, err := weights.ContiguityGraph(l.Geoms, weights.Queen)
 	if err != nil {
 		t.Fatal(err)
 	}
-	w := queen.RowStandardised()
 	lat, err := l.Column("centroid_lat")
 	if err != nil {
 		t.Fatal(err)
 	}
-	lon, err := l.Column("centroid_lon")
+	b, err := surrogate.NewBasis(queen.RowStandardised(), surrogate.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := surrogate.NewBasis(w, surrogate.Options{})
+	o, err := b.Prepare(lat.Num)
 	if err != nil {
 		t.Fatal(err)
 	}
+	return wholeStates{l: l, queen: queen, b: b, lat: lat.Num, o: o}
+}
+
+// On the whole layer Alaska, Hawaii and the territories have no neighbour
+// (common knowledge, no source): the basis sets them apart, and a
+// surrogate gives them their own values in a random order.
+func TestSurrogateStatesIslands(t *testing.T) {
+	ws := prepareWholeStates(t)
+	l, b, o, y := ws.l, ws.b, ws.o, ws.lat
 	isl := map[string]bool{}
 	for _, i := range b.Islands() {
 		isl[l.IDs[i]] = true
 	}
-	if len(isl) != len(queen.Islands()) || !isl["02"] || !isl["15"] {
+	if len(isl) != len(ws.queen.Islands()) || !isl["02"] || !isl["15"] {
 		t.Fatalf("islands %v, want Alaska (02), Hawaii (15) and the graph's other islands", isl)
-	}
-	y := lat.Num
-	o, err := b.Prepare(y)
-	if err != nil {
-		t.Fatal(err)
 	}
 	own := map[float64]int{}
 	for _, i := range b.Islands() {
@@ -149,7 +158,19 @@ func TestSurrogateStatesIslandsAndTest(t *testing.T) {
 	if moved == 0 {
 		t.Error("island values never move")
 	}
+}
 
+// The spectral test of the difference in mean latitude between east and
+// west on the whole layer runs through the shuffle machinery, and its null
+// is wider than the free shuffle's: latitude clusters, and so does any
+// grouping drawn on the map.
+func TestSurrogateStatesEastWest(t *testing.T) {
+	ws := prepareWholeStates(t)
+	o, y := ws.o, ws.lat
+	lon, err := ws.l.Column("centroid_lon")
+	if err != nil {
+		t.Fatal(err)
+	}
 	// Grouping: east of 95° W (A) and west of it, the Pacific
 	// territories (east longitudes) with the west; outcome: latitude.
 	lab := make([]int32, len(y))

@@ -47,3 +47,16 @@ func smooth(n, width int) []float64 {
 	}
 	return x
 }
+
+// binomialQuantile is the smallest k with P(Binomial(n, p) ≤ k) ≥ q.
+func binomialQuantile(n int, p, q float64) int {
+	lg := func(k int) float64 { v, _ := math.Lgamma(float64(k + 1)); return v }
+	var cum float64
+	for k := 0; k <= n; k++ {
+		cum += math.Exp(lg(n) - lg(k) - lg(n-k) + float64(k)*math.Log(p) + float64(n-k)*math.Log1p(-p))
+		if cum >= q {
+			return k
+		}
+	}
+	return n
+}

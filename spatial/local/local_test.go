@@ -12,6 +12,7 @@ import (
 
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -38,19 +39,8 @@ func unequal(t testing.TB, g *weights.Graph) *weights.Graph {
 	return h
 }
 
-func denseW(g *weights.Graph) [][]float64 {
-	n := g.Len()
-	w := make([][]float64, n)
-	for i := range w {
-		w[i] = make([]float64, n)
-		nb, wt := g.Row(i)
-		for k, j := range nb {
-			w[i][j] = wt[k]
-		}
-	}
-	return w
-}
-
+// meanSD returns the mean and the population standard deviation (divisor
+// n), the scale the published formulas standardise by.
 func meanSD(x []float64) (mean, sd float64) {
 	for _, v := range x {
 		mean += v
@@ -67,7 +57,7 @@ func meanSD(x []float64) (mean, sd float64) {
 // eq. 12), cross local Moran, local Geary (Anselin 2019) and the
 // Ord & Getis (1995) Gi and Gi* z-scores, Gi with the mean and variance of
 // the other n−1 values.
-func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
+func direct(kind Kind, x, y []float64, w mat.Matrix) []float64 {
 	n := len(x)
 	fn := float64(n)
 	mx, sx := meanSD(x)
@@ -85,9 +75,9 @@ func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
 			for j := 0; j < n; j++ {
 				zi, zj := (x[i]-mx)/sx, (v[j]-my)/sy
 				if kind == Geary {
-					s += w[i][j] * (zi - zj) * (zi - zj)
+					s += w.At(i, j) * (zi - zj) * (zi - zj)
 				} else {
-					s += w[i][j] * zi * zj
+					s += w.At(i, j) * zi * zj
 				}
 			}
 			out[i] = s
@@ -96,10 +86,11 @@ func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
 			var wx, wi, s1 float64
 			for j := 0; j < n; j++ {
 				if j != i {
+					wij := w.At(i, j)
 					others = append(others, x[j])
-					wx += w[i][j] * x[j]
-					wi += w[i][j]
-					s1 += w[i][j] * w[i][j]
+					wx += wij * x[j]
+					wi += wij
+					s1 += wij * wij
 				}
 			}
 			m, s := meanSD(others)
@@ -107,7 +98,7 @@ func direct(kind Kind, x, y []float64, w [][]float64) []float64 {
 		case GiStar:
 			var wx, wi, s1 float64
 			for j := 0; j < n; j++ {
-				wij := w[i][j]
+				wij := w.At(i, j)
 				if j == i {
 					wij = 1
 				}
@@ -136,7 +127,7 @@ func TestStatisticsAgainstFormulas(t *testing.T) {
 	b := lattice(t, 5, 6, true, 4)
 	x, y := testColumns(b.Len())
 	for _, g := range []*weights.Graph{b, b.RowStandardised(), unequal(t, b)} {
-		w := denseW(g)
+		w := testkit.Dense(g.Offsets, g.Neighbours, g.Weights)
 		for k := Moran; k <= GiStar; k++ {
 			var yy []float64
 			if k == CrossMoran {
@@ -178,12 +169,11 @@ func TestGetisOrdAgainstGonum(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		d := mat.NewDense(n, n, nil)
-		w := denseW(g)
+		// Gi* counts each area as its own neighbour with weight 1; no
+		// graph here has self-links, so the off-diagonal entries stay
+		// the graph's weights.
+		d := testkit.Dense(g.Offsets, g.Neighbours, g.Weights)
 		for i := 0; i < n; i++ {
-			for j := 0; j < n; j++ {
-				d.Set(i, j, w[i][j])
-			}
 			d.Set(i, i, 1)
 		}
 		for i := 0; i < n; i++ {
@@ -202,7 +192,7 @@ func TestGetisOrdAgainstGonum(t *testing.T) {
 				}
 				k := len(rest)
 				rest = append(rest, x[j])
-				row.Set(0, k, w[i][j])
+				row.Set(0, k, d.At(i, j))
 			}
 			if want := gspatial.GetisOrdGStar(0, rest, nil, row); !near(gi[i], want, 1e-12) {
 				t.Errorf("%s: Gi[%d] %v, gonum on the other areas %v", g.Transform, i, gi[i], want)
@@ -430,24 +420,11 @@ func TestMonteCarloCoversExact(t *testing.T) {
 			}
 		}
 	}
-	// 99.9% quantile of Binomial(tests, 0.05), by summing its terms.
-	limit, cum := 0, 0.0
-	for ; limit <= tests; limit++ {
-		cum += math.Exp(lgammaInt(tests+1)-lgammaInt(limit+1)-lgammaInt(tests-limit+1)) *
-			math.Pow(0.05, float64(limit)) * math.Pow(0.95, float64(tests-limit))
-		if cum >= 0.999 {
-			break
-		}
-	}
+	limit := binomialQuantile(tests, 0.05, 0.999)
 	t.Logf("%d comparisons, %d outside their 95%% interval (at most %d allowed)", tests, miss95, limit)
 	if miss95 > limit {
 		t.Errorf("%d of %d exact p-values outside the 95%% intervals, more than %d", miss95, tests, limit)
 	}
-}
-
-func lgammaInt(n int) float64 {
-	v, _ := math.Lgamma(float64(n))
-	return v
 }
 
 // Results do not depend on the number of workers.

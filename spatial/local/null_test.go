@@ -1,18 +1,13 @@
-package tests
+package local
 
 import (
 	"math"
 	"math/rand/v2"
 	"testing"
 
-	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
-
-// rookLattice is rook contiguity on an m×m grid (weights.Lattice, checked
-// against contiguity of square polygons in the weights tests).
-func rookLattice(t *testing.T, m int) *weights.Graph { return weights.Lattice(m, m, weights.Rook) }
 
 // iidLayer draws independent standard normal values: no spatial structure.
 func iidLayer(n int, layer uint64) []float64 {
@@ -22,19 +17,6 @@ func iidLayer(n int, layer uint64) []float64 {
 		x[i] = r.NormFloat64()
 	}
 	return x
-}
-
-// binomialQuantile is the smallest k with P(Binomial(n, p) ≤ k) ≥ q.
-func binomialQuantile(n int, p, q float64) int {
-	lg := func(k int) float64 { v, _ := math.Lgamma(float64(k + 1)); return v }
-	var cum float64
-	for k := 0; k <= n; k++ {
-		cum += math.Exp(lg(n) - lg(k) - lg(n-k) + float64(k)*math.Log(p) + float64(n-k)*math.Log1p(-p))
-		if cum >= q {
-			return k
-		}
-	}
-	return n
 }
 
 // Under an i.i.d. null (no spatial structure; 200 layers of independent
@@ -52,7 +34,7 @@ func binomialQuantile(n int, p, q float64) int {
 // Bernoulli trials.
 func TestLocalNullFalseFlags(t *testing.T) {
 	const m, layers = 15, 200
-	g := rookLattice(t, m)
+	g := weights.Lattice(m, m, weights.Rook)
 	for _, c := range []struct {
 		alt  shuffle.Alternative
 		want float64
@@ -60,7 +42,7 @@ func TestLocalNullFalseFlags(t *testing.T) {
 		frac := make([]float64, layers)
 		for l := range frac {
 			x := iidLayer(m*m, uint64(l))
-			res, err := local.Run(local.Moran, x, nil, g, local.Options{Permutations: 199, Seed: uint64(l) + 1, Alternative: c.alt})
+			res, err := Run(Moran, x, nil, g, Options{Permutations: 199, Seed: uint64(l) + 1, Alternative: c.alt})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -100,12 +82,12 @@ func TestLocalNullFalseFlags(t *testing.T) {
 // first threshold 0.05/100 and a flag can happen at all.
 func TestLocalNullBenjaminiHochberg(t *testing.T) {
 	const m, layers = 10, 200
-	g := rookLattice(t, m)
+	g := weights.Lattice(m, m, weights.Rook)
 	limit := binomialQuantile(layers, 0.05, 0.999)
 	any := 0
 	for l := 0; l < layers; l++ {
 		x := iidLayer(m*m, 1000+uint64(l))
-		res, err := local.Run(local.Moran, x, nil, g, local.Options{Permutations: 4999, Seed: 7 + uint64(l),
+		res, err := Run(Moran, x, nil, g, Options{Permutations: 4999, Seed: 7 + uint64(l),
 			Alternative: shuffle.TwoSided, Adjustment: shuffle.BenjaminiHochberg})
 		if err != nil {
 			t.Fatal(err)
