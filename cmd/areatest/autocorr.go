@@ -12,34 +12,13 @@ import (
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
-const autocorrUsage = `areatest autocorr: does a variable cluster in space, and how strongly?
-
-For each variable: Moran's I with its moments under normality and
-randomisation and a permutation p-value, the range Moran's I can take on
-these weights, Geary's C, and Getis–Ord General G for values that are zero
-or more. Text columns get join counts. With --events and --population the
-rate events/population is tested raw and empirical-Bayes standardised, so
-that small populations do not drive the result.
-
-Usage:
-  areatest autocorr --input FILE --variables COLUMN[,COLUMN…] [flags]
-
-Examples:
-  areatest autocorr --input counties.geojson --variables rate,income
-  areatest autocorr -i counties.geojson --variables income --lags 4
-  areatest autocorr -i counties.geojson --variables income --lags 6 --lag-width 25
-  areatest autocorr -i counties.geojson --variables income --against rate
-  areatest autocorr -i counties.geojson --events cases --population pop
-  areatest autocorr -i counties.geojson --variables policy --knn 6 --format json
-`
-
 func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var variables []string
 	var against, events, population string
 	var lags int
 	var lagWidth float64
-	fs := newFlags("autocorr", autocorrUsage, stderr)
+	fs := newFlags("autocorr", help("autocorr"), stderr)
 	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
 	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
 	fs.StringVar(&events, "events", "", "column of event counts: test the rate events/population")

@@ -29,7 +29,7 @@ func TestVersionAndHelp(t *testing.T) {
 	if o := runCLI(t, "", "--version"); o.code != 0 || !strings.HasPrefix(o.stdout, "areatest ") {
 		t.Fatalf("--version: %+v", o)
 	}
-	for _, args := range [][]string{{"--help"}, {"compare", "--help"}, {"demo", "--help"}} {
+	for _, args := range [][]string{{"--help"}, {"compare", "--help"}, {"demo", "--help"}, {"autocorr", "--help"}, {"screen", "--help"}, {"local", "--help"}, {"weights", "--help"}} {
 		o := runCLI(t, "", args...)
 		if o.code != 0 || !strings.Contains(o.stdout+o.stderr, "Examples:") {
 			t.Errorf("%v: code %d, no examples in help", args, o.code)
@@ -171,7 +171,7 @@ func TestBadInputs(t *testing.T) {
 		{"not json", `{"type": "FeatureCollection", "features": [`, nil, []string{"bad.geojson"}},
 		{"not a collection", `{"type":"Feature","properties":{},"geometry":null}`, nil, []string{"bad.geojson", "FeatureCollection"}},
 		{"point geometry", strings.Replace(squares([]string{good, `"y":2,"g":"a"`, `"y":3,"g":"b"`, `"y":4,"g":"b"`}),
-			`{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1],[0,0]]]}`, `{"type":"Point","coordinates":[0,0]}`, 1), nil, []string{"bad.geojson", "Point", "a1"}},
+			`{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1],[0,0]]]}`, `{"type":"Point","coordinates":[0,0]}`, 1), nil, []string{"bad.geojson", "Point", "a1", "(use --skip-bad-geometry to leave such features out)"}},
 		{"unknown column", squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), []string{"-y", "rate"}, []string{"rate"}},
 		{"outcome not numeric", squares([]string{`"y":"low","g":"a"`, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), nil, []string{"not numeric", `"y"`}},
 		{"one group", squares([]string{good, good, good, good}), nil, []string{"one level"}},
@@ -454,12 +454,17 @@ func TestLocalCommand(t *testing.T) {
 		{2, []string{"local", "-i", layer, "--variable", "rate", "--against", "income"}},
 		{2, []string{"local", "-i", layer, "--variable", "rate", "--out", "x.txt"}},
 		{2, []string{"local", "-i", layer, "--variable", "rate", "--histogram", "h.svg"}},
+		{2, []string{"local", "-i", layer, "--variable", "rate", "--statistic", "geary", "--scatter", filepath.Join(dir, "s.svg"), "--out", filepath.Join(dir, "early.csv")}},
 		{1, []string{"local", "-i", layer, "--variable", "name"}},
 		{1, []string{"local", "-i", layer, "--variable", "rate", "--histogram", filepath.Join(dir, "h.svg"), "--area", "NOPE"}},
 	} {
 		if o := runCLI(t, "", c.args...); o.code != c.code {
 			t.Errorf("%v: exit %d, want %d (%s)", c.args[3:], o.code, c.code, o.stderr)
 		}
+	}
+	// A scatter that cannot be drawn is refused before anything is written.
+	if _, err := os.Stat(filepath.Join(dir, "early.csv")); err == nil {
+		t.Error("--scatter with local Geary wrote --out before refusing")
 	}
 }
 

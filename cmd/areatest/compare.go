@@ -15,28 +15,6 @@ import (
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
-const compareUsage = `areatest compare: does an outcome differ between groups of areas beyond chance?
-
-Reads a layer of areas and tests the difference between groups against
-several null models side by side: shuffles of the group labels (freely, and
-within strata or automatic contiguous zones), and spectral surrogates of the
-outcome that keep its spatial pattern. It checks with Moran's I whether the
-outcome and the grouping cluster in space, estimates how many independent
-areas the data are worth, measures how often the free shuffle would cry wolf
-on outcomes like this one, and says which p-value to read.
-
-Usage:
-  areatest compare --input FILE --outcome COLUMN --group COLUMN [flags]
-
-Examples:
-  areatest compare --input counties.geojson --outcome rate --group policy
-  areatest compare -i counties.geojson -y rate -g policy --strata state
-  areatest compare -i districts.geojson -y income -g zone --statistic anova-f
-  areatest compare -i counties.geojson -y rate -g region --contrast north,south --alternative greater
-  areatest compare -i counties.geojson -y rate -g policy --covariates income,age65
-  cat counties.geojson | areatest compare -i - -y rate -g policy --format json -o result.json
-`
-
 // compareFlags are the settings of compare and demo.
 type compareFlags struct {
 	sharedFlags
@@ -98,7 +76,7 @@ func (c *compareFlags) check() error {
 
 func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c compareFlags
-	fs := newFlags("compare", compareUsage, stderr)
+	fs := newFlags("compare", help("compare"), stderr)
 	c.register(fs, true)
 	if err := parseFlags(fs, args); err != nil {
 		return err

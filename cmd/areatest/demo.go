@@ -11,30 +11,10 @@ import (
 	"github.com/areatest/areatest/samples"
 )
 
-const demoUsage = `areatest demo: the main job on a built-in sample region.
-
-The sample is an invented region of about 200 districts with a disease rate,
-a policy adopted by clusters of neighbouring districts, provinces and
-populations. The demo runs
-
-  areatest compare --input region.geojson --outcome rate --group policy --strata province
-
-on it and prints the report. With --write DIR it writes the sample file
-instead, so you can try every command on it.
-
-Usage:
-  areatest demo [flags]
-
-Examples:
-  areatest demo
-  areatest demo --format json
-  areatest demo --write .
-`
-
 func runDemo(args []string, stdout, stderr io.Writer) error {
 	var c compareFlags
 	var dir string
-	fs := newFlags("demo", demoUsage, stderr)
+	fs := newFlags("demo", help("demo"), stderr)
 	c.register(fs, false)
 	fs.StringVar(&dir, "write", "", "write the sample layer into this directory and stop")
 	if err := parseFlags(fs, args); err != nil {

@@ -19,28 +19,6 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-const localUsage = `areatest local: where are the clusters and outliers?
-
-Computes a statistic for every area and tests it by conditional
-permutation: the area keeps its own value while its neighbours' values are
-drawn from the other areas. P-values are adjusted across areas
-(Benjamini–Hochberg by default) and each area gets a category.
-
-Statistics: moran (local Moran, default), cross-moran (with --against),
-geary (local Geary), gi and gi-star (Getis–Ord).
-
-Usage:
-  areatest local --input FILE --variable COLUMN [flags]
-
-Examples:
-  areatest local --input counties.geojson --variable rate
-  areatest local -i counties.geojson --variable rate --out clusters.geojson --map clusters.png
-  areatest local -i counties.geojson --variable rate --out clusters.csv --adjust holm
-  areatest local -i counties.geojson --variable rate --statistic gi-star --knn 8
-  areatest local -i counties.geojson --variable income --against rate --statistic cross-moran
-  areatest local -i counties.geojson --variable rate --histogram d017.svg --area D017
-`
-
 // localFlags are the settings of `areatest local`.
 type localFlags struct {
 	sharedFlags
@@ -100,6 +78,8 @@ func (c *localFlags) check() (err error) {
 		err = usagef("--against goes with --statistic cross-moran, and that statistic needs it")
 	case !(c.alpha > 0 && c.alpha < 1):
 		err = usagef("--alpha must be between 0 and 1")
+	case c.scatter != "" && c.kind != local.Moran && c.kind != local.CrossMoran:
+		err = usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
 	case (c.histogram == "") != (c.area == ""):
 		err = usagef("--histogram and --area go together")
 	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
@@ -119,7 +99,7 @@ func (c *localFlags) check() (err error) {
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c localFlags
-	fs := newFlags("local", localUsage, stderr)
+	fs := newFlags("local", help("local"), stderr)
 	c.register(fs)
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -130,7 +110,7 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative); err != nil {
 		return err
 	}
-	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.changed("transform") {
+	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.scalingGiven() {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
 		// 1995), with w_ii = 1 for Gi*.
 		c.transform = weights.Binary
@@ -180,12 +160,6 @@ func (c *localFlags) input() (local.Input, error) {
 // res.Written.
 func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 	res := pics.Result
-	scatter := func(w io.Writer, f plot.Format) error {
-		if res.Kind != local.Moran && res.Kind != local.CrossMoran {
-			return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
-		}
-		return pics.Scatter(w, f)
-	}
 	table := func(w io.Writer, _ plot.Format) error {
 		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
 			return report.LocalCSV(w, res)
@@ -195,7 +169,7 @@ func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 	for _, out := range []struct {
 		path string
 		draw func(io.Writer, plot.Format) error
-	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, scatter}, {c.histogram, pics.Histogram}} {
+	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, pics.Scatter}, {c.histogram, pics.Histogram}} {
 		if out.path == "" {
 			continue
 		}

@@ -35,32 +35,6 @@ func (e *usageError) Error() string { return e.msg }
 
 func usagef(format string, a ...any) error { return &usageError{fmt.Sprintf(format, a...)} }
 
-const topUsage = `areatest tests spatial association on area-level data (polygons with attributes).
-
-Usage:
-  areatest <command> [flags]
-
-Commands:
-  compare   does an outcome differ between groups of areas beyond chance?
-  autocorr  does a variable cluster in space, and how strongly?
-  screen    which attributes of a layer cluster? every numeric column, ranked
-  local     where are the clusters and outliers? per-area statistics, tables, maps
-  weights   build, inspect and export the neighbour graph of a layer
-  demo      run compare on the built-in sample region (or write the sample out)
-
-Flags:
-  -h, --help      show help (also: areatest <command> --help)
-      --version   print the version
-
-Examples:
-  areatest demo
-  areatest compare --input counties.geojson --outcome rate --group policy
-  areatest compare -i counties.geojson -y rate -g policy --strata state --format json
-  areatest screen --input counties.geojson
-  areatest autocorr --input counties.geojson --variables rate,income --lags 3
-  areatest weights --input counties.geojson --contiguity rook --write edges.csv
-`
-
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
@@ -69,13 +43,13 @@ func main() {
 // 1 error, 2 usage error.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
-		fmt.Fprint(stderr, topUsage)
+		fmt.Fprint(stderr, help("areatest"))
 		return 2
 	}
 	var err error
 	switch args[0] {
 	case "-h", "--help", "help":
-		fmt.Fprint(stdout, topUsage)
+		fmt.Fprint(stdout, help("areatest"))
 		return 0
 	case "--version", "version":
 		fmt.Fprintf(stdout, "areatest %s\n", Version)

@@ -11,27 +11,11 @@ import (
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
-const screenUsage = `areatest screen: which attributes of a layer cluster in space?
-
-The first command to run on a new layer. Every numeric column (not the ids,
-not constants; the report says which were skipped and why) gets Moran's I
-and Geary's C with permutation p-values, adjusted across columns for
-multiple testing, and the columns are ranked by Moran's I.
-
-Usage:
-  areatest screen --input FILE [flags]
-
-Examples:
-  areatest screen --input counties.geojson
-  areatest screen -i counties.geojson --exclude population,area --adjust holm
-  areatest screen -i counties.geojson --format csv -o screen.csv
-`
-
 func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var exclude []string
 	var adjust string
-	fs := newFlags("screen", screenUsage, stderr)
+	fs := newFlags("screen", help("screen"), stderr)
 	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
 	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
 	c.register(fs, "text", "json", "csv")

@@ -8,29 +8,10 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-const weightsUsage = `areatest weights: build, inspect and export the neighbour graph of a layer.
-
-Prints a summary a reader can check at a glance: how many neighbours areas
-have, which have none, whether the graph falls apart into separate groups.
-With --write it also saves the graph as a plain CSV edge list
-(from,to,weight, areas named by id) that --weights reads back on any command.
-
-Usage:
-  areatest weights --input FILE [rule flags] [flags]
-
-Examples:
-  areatest weights --input counties.geojson
-  areatest weights -i counties.geojson --contiguity rook --snap 0.00001
-  areatest weights -i tracts.geojson --knn 6 --symmetrise --format json
-  areatest weights -i tracts.geojson --band 25 --write band25.csv
-  areatest weights -i tracts.geojson --kernel bisquare --adaptive 10 --scaling row --write kernel.csv
-  areatest compare -i counties.geojson -y rate -g policy --weights band25.csv
-`
-
 func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var write string
-	fs := newFlags("weights", weightsUsage, stderr)
+	fs := newFlags("weights", help("weights"), stderr)
 	c.registerInput(fs)
 	c.weights.register(fs)
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")
