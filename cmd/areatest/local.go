@@ -10,9 +10,9 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/output"
-	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -30,7 +30,7 @@ type localFlags struct {
 	// Set by check.
 	kind      local.Kind
 	opt       local.Options
-	classRule plot.Classes
+	classRule figure.Classes
 }
 
 func (c *localFlags) register(fs *pflag.FlagSet) {
@@ -70,7 +70,7 @@ func (c *localFlags) check() (err error) {
 		return usagef("%v", err)
 	}
 	if c.classRule, err = choice.Parse("--classes", c.classes,
-		choice.Name[plot.Classes]{Name: "quantile", Value: plot.Quantile}, choice.Name[plot.Classes]{Name: "natural", Value: plot.NaturalBreaks}); err != nil {
+		choice.Name[figure.Classes]{Name: "quantile", Value: figure.Quantile}, choice.Name[figure.Classes]{Name: "natural", Value: figure.NaturalBreaks}); err != nil {
 		return usagef("%v", err)
 	}
 	switch ext := strings.ToLower(filepath.Ext(c.out)); {
@@ -89,7 +89,7 @@ func (c *localFlags) check() (err error) {
 		if f == "" || err != nil {
 			continue
 		}
-		if _, ferr := plot.FormatFromPath(f); ferr != nil {
+		if _, ferr := figure.FormatFromPath(f); ferr != nil {
 			err = usagef("%v", ferr)
 		}
 	}
@@ -160,7 +160,7 @@ func (c *localFlags) input() (local.Input, error) {
 // res.Written.
 func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 	res := pics.Result
-	table := func(w io.Writer, _ plot.Format) error {
+	table := func(w io.Writer, _ figure.Format) error {
 		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
 			return report.LocalCSV(w, res)
 		}
@@ -168,12 +168,12 @@ func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 	}
 	for _, out := range []struct {
 		path string
-		draw func(io.Writer, plot.Format) error
+		draw func(io.Writer, figure.Format) error
 	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, pics.Scatter}, {c.histogram, pics.Histogram}} {
 		if out.path == "" {
 			continue
 		}
-		f, _ := plot.FormatFromPath(out.path) // checked by options; none for the table
+		f, _ := figure.FormatFromPath(out.path) // checked by options; none for the table
 		if err := output.Write(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
 			return err
 		}

@@ -8,7 +8,7 @@
 // data (io/geojson reads it and writes it out again with result columns),
 // and it parses and computes nothing itself. Neither the drawing nor the
 // statistics import it: cmd/areatest takes the columns and geometries out
-// of a Layer and hands io/plot, spatial/ and weights/ plain slices.
+// of a Layer and hands io/figure, spatial/ and weights/ plain slices.
 //
 // Start with Layer and its Column method, then Column (Kind, Missing,
 // Label).

@@ -9,8 +9,8 @@ import (
 	"strings"
 
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/layer"
-	"github.com/areatest/areatest/io/plot"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/weights"
 )
@@ -115,24 +115,24 @@ type LocalPictures struct {
 	Layer  *layer.Layer
 	Result *local.Result
 	// Classes is the class rule of the choropleth.
-	Classes plot.Classes
+	Classes figure.Classes
 }
 
 // classNames name the class rules in the choropleth's subtitle.
-var classNames = map[plot.Classes]string{plot.Quantile: "quantile", plot.NaturalBreaks: "natural-breaks"}
+var classNames = map[figure.Classes]string{figure.Quantile: "quantile", figure.NaturalBreaks: "natural-breaks"}
 
 func (p LocalPictures) note() string {
 	return fmt.Sprintf("%s · seed %d · %s shuffles per area · areatest %s. Clusters are patterns across areas, not causes.",
 		p.Layer.Source, p.Result.Summary.Seed, numtext.Count(p.Result.Summary.Permutations), p.Result.Version)
 }
 
-func (p LocalPictures) mapOptions(title, subtitle string) plot.MapOptions {
-	return plot.MapOptions{Title: title, Subtitle: subtitle, LonLat: weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
+func (p LocalPictures) mapOptions(title, subtitle string) figure.MapOptions {
+	return figure.MapOptions{Title: title, Subtitle: subtitle, LonLat: weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
 		Note: p.note(), IDs: p.Layer.IDs}
 }
 
 // Map draws every area of the layer in its category.
-func (p LocalPictures) Map(w io.Writer, f plot.Format) error {
+func (p LocalPictures) Map(w io.Writer, f figure.Format) error {
 	r, s := p.Result, p.Result.Summary
 	cats := make([]int, len(r.Areas))
 	for i, a := range r.Areas {
@@ -141,11 +141,11 @@ func (p LocalPictures) Map(w io.Writer, f plot.Format) error {
 	opt := p.mapOptions("Where "+r.Variable+" clusters",
 		fmt.Sprintf("%s of %s, %s p-values at %g (%s); %s", s.Statistic, r.Variable, s.CategoriesFrom, s.Alpha, s.Adjustment, r.Weights.Kind))
 	opt.LegendTitle = "category"
-	return plot.CategoryMap(w, f, p.Layer.Geoms, cats, plot.LocalLegend(r.Kind), opt)
+	return figure.CategoryMap(w, f, p.Layer.Geoms, cats, figure.LocalLegend(r.Kind), opt)
 }
 
 // Choropleth draws the variable in five classes.
-func (p LocalPictures) Choropleth(w io.Writer, f plot.Format) error {
+func (p LocalPictures) Choropleth(w io.Writer, f figure.Format) error {
 	r := p.Result
 	values, missing := make([]float64, len(r.Areas)), make([]bool, len(r.Areas))
 	for i, a := range r.Areas {
@@ -156,13 +156,13 @@ func (p LocalPictures) Choropleth(w io.Writer, f plot.Format) error {
 		}
 	}
 	opt := p.mapOptions(r.Variable, classNames[p.Classes]+" classes")
-	return plot.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, r.Variable, opt)
+	return figure.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, r.Variable, opt)
 }
 
 // Scatter draws the Moran scatter of the analysed areas: the standardised
 // value against the lag of the neighbours', coloured by category, with the
 // slope of the global statistic.
-func (p LocalPictures) Scatter(w io.Writer, f plot.Format) error {
+func (p LocalPictures) Scatter(w io.Writer, f figure.Format) error {
 	r := p.Result
 	areas := r.Analysed()
 	z, lag, cats := make([]float64, len(areas)), make([]float64, len(areas)), make([]int, len(areas))
@@ -173,20 +173,20 @@ func (p LocalPictures) Scatter(w io.Writer, f plot.Format) error {
 	if r.Against != "" {
 		yLabel = "neighbours' " + r.Against + " (standardised)"
 	}
-	opt := plot.PlotOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Transform,
+	opt := figure.ChartOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Transform,
 		XLabel: r.Variable + " (standardised)", YLabel: yLabel, Note: p.note()}
-	return plot.MoranScatter(w, f, z, lag, cats, plot.LocalLegend(r.Kind), r.Summary.Total/float64(len(areas)), opt)
+	return figure.MoranScatter(w, f, z, lag, cats, figure.LocalLegend(r.Kind), r.Summary.Total/float64(len(areas)), opt)
 }
 
 // Histogram draws the null distribution of the area whose null the result
 // kept (local.Result.NullArea).
-func (p LocalPictures) Histogram(w io.Writer, f plot.Format) error {
+func (p LocalPictures) Histogram(w io.Writer, f figure.Format) error {
 	a, s := p.Result.NullArea(), p.Result.Summary
 	if a == nil {
 		return errors.New("the result kept no area's null distribution")
 	}
-	opt := plot.PlotOptions{Title: fmt.Sprintf("%s at area %s", s.Statistic, a.ID),
+	opt := figure.ChartOptions{Title: fmt.Sprintf("%s at area %s", s.Statistic, a.ID),
 		Subtitle: fmt.Sprintf("%s conditional shuffles; p = %s (%s), category: %s", numtext.Count(a.Permutations), PValue(a.P), s.Alternative, a.Category),
 		XLabel:   s.Statistic, YLabel: "shuffles", Note: p.note()}
-	return plot.Histogram(w, f, a.Null, a.Statistic, opt)
+	return figure.Histogram(w, f, a.Null, a.Statistic, opt)
 }

@@ -1,4 +1,4 @@
-package plot
+package figure
 
 import (
 	"fmt"

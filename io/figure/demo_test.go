@@ -1,4 +1,4 @@
-package plot
+package figure
 
 import (
 	"math"
@@ -69,13 +69,13 @@ func TestDemoPictures(t *testing.T) {
 	area, null := demoNull(z, lag, nb, rng)
 	for _, ext := range []string{".png", ".svg"} {
 		write("scatter"+ext, func(f *os.File, fm Format) error {
-			return MoranScatter(f, fm, z, lag, cats, LocalCategories(), demoMoran(z, lag), PlotOptions{
+			return MoranScatter(f, fm, z, lag, cats, LocalCategories(), demoMoran(z, lag), ChartOptions{
 				Title: "Rate against the mean rate of the neighbours", Subtitle: "Halvaren, queen contiguity, row-standardised",
 				XLabel: "rate (standardised)", YLabel: "mean rate of the neighbours (standardised)", Note: note,
 			})
 		})
 		write("histogram"+ext, func(f *os.File, fm Format) error {
-			return Histogram(f, fm, null, z[area]*lag[area], PlotOptions{
+			return Histogram(f, fm, null, z[area]*lag[area], ChartOptions{
 				Title: "Local statistic of " + lay.IDs[area] + " under 9,999 shuffles", Subtitle: "conditional permutation: the area keeps its value, its neighbours are drawn at random",
 				XLabel: "local Moran statistic", Note: note,
 			})

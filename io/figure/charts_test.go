@@ -1,4 +1,4 @@
-package plot
+package figure
 
 import (
 	"bytes"
@@ -24,7 +24,7 @@ func scatterData(n int) (z, lag []float64, cats []int) {
 func TestChartsSizesAndXML(t *testing.T) {
 	z, lag, cats := scatterData(300)
 	z[3] = math.NaN() // left out
-	opt := PlotOptions{Title: "Scatter", Subtitle: "sub", Note: "note", Width: 700, Height: 760}
+	opt := ChartOptions{Title: "Scatter", Subtitle: "sub", Note: "note", Width: 700, Height: 760}
 	draws := map[string]func(io.Writer, Format) error{
 		"scatter": func(w io.Writer, f Format) error {
 			return MoranScatter(w, f, z, lag, cats, LocalCategories(), 0.5312, opt)
@@ -75,16 +75,16 @@ func TestChartErrors(t *testing.T) {
 		err error
 		msg string
 	}{
-		{MoranScatter(io.Discard, SVG, z, lag[:9], nil, nil, 0.1, PlotOptions{}), "9 spatial lags for 10 values"},
-		{MoranScatter(io.Discard, SVG, z, lag, cats[:3], LocalCategories(), 0.1, PlotOptions{}), "3 categories"},
-		{MoranScatter(io.Discard, SVG, z, lag, cats, LocalCategories()[:2], 0.1, PlotOptions{}), "has category"},
-		{MoranScatter(io.Discard, SVG, z, lag, nil, nil, math.NaN(), PlotOptions{}), "slope"},
-		{MoranScatter(io.Discard, SVG, []float64{math.NaN()}, []float64{1}, nil, nil, 0.1, PlotOptions{}), "no point"},
-		{MoranScatter(io.Discard, PNG, z, lag, nil, nil, 0.1, PlotOptions{Width: 150, Height: 150, Title: "t"}), "too little room"},
-		{Histogram(io.Discard, SVG, []float64{math.NaN()}, 1, PlotOptions{}), "no shuffled values"},
-		{Histogram(io.Discard, SVG, z, math.Inf(1), PlotOptions{}), "observed"},
-		{Histogram(io.Discard, Format(3), z, 1, PlotOptions{}), "unknown format"},
-		{Histogram(io.Discard, SVG, z, 1, PlotOptions{Width: -1}), "out of range"},
+		{MoranScatter(io.Discard, SVG, z, lag[:9], nil, nil, 0.1, ChartOptions{}), "9 spatial lags for 10 values"},
+		{MoranScatter(io.Discard, SVG, z, lag, cats[:3], LocalCategories(), 0.1, ChartOptions{}), "3 categories"},
+		{MoranScatter(io.Discard, SVG, z, lag, cats, LocalCategories()[:2], 0.1, ChartOptions{}), "has category"},
+		{MoranScatter(io.Discard, SVG, z, lag, nil, nil, math.NaN(), ChartOptions{}), "slope"},
+		{MoranScatter(io.Discard, SVG, []float64{math.NaN()}, []float64{1}, nil, nil, 0.1, ChartOptions{}), "no point"},
+		{MoranScatter(io.Discard, PNG, z, lag, nil, nil, 0.1, ChartOptions{Width: 150, Height: 150, Title: "t"}), "too little room"},
+		{Histogram(io.Discard, SVG, []float64{math.NaN()}, 1, ChartOptions{}), "no shuffled values"},
+		{Histogram(io.Discard, SVG, z, math.Inf(1), ChartOptions{}), "observed"},
+		{Histogram(io.Discard, Format(3), z, 1, ChartOptions{}), "unknown format"},
+		{Histogram(io.Discard, SVG, z, 1, ChartOptions{Width: -1}), "out of range"},
 	} {
 		if c.err == nil || !strings.Contains(c.err.Error(), c.msg) {
 			t.Errorf("error %v; want one with %q", c.err, c.msg)
@@ -145,7 +145,7 @@ func BenchmarkMoranScatter85000(b *testing.B) {
 	z, lag, cats := scatterData(85000)
 	for b.Loop() {
 		for _, f := range []Format{SVG, PNG} {
-			if err := MoranScatter(io.Discard, f, z, lag, cats, LocalCategories(), 0.5, PlotOptions{}); err != nil {
+			if err := MoranScatter(io.Discard, f, z, lag, cats, LocalCategories(), 0.5, ChartOptions{}); err != nil {
 				b.Fatal(err)
 			}
 		}

@@ -1,4 +1,4 @@
-package plot_test
+package figure_test
 
 import (
 	"bytes"
@@ -8,7 +8,7 @@ import (
 
 	"github.com/paulmach/orb"
 
-	"github.com/areatest/areatest/io/plot"
+	"github.com/areatest/areatest/io/figure"
 )
 
 func ExampleChoropleth() {
@@ -21,13 +21,13 @@ func ExampleChoropleth() {
 	}
 	rate := []float64{1.5, 2, 2.5, 10, 11, math.NaN()}
 
-	f, err := plot.FormatFromPath("rate.svg") // the caller's output path
+	f, err := figure.FormatFromPath("rate.svg") // the caller's output path
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	var out bytes.Buffer // a file, in a real program
-	err = plot.Choropleth(&out, f, geoms, rate, nil, plot.NaturalBreaks, 2, "rate", plot.MapOptions{
+	err = figure.Choropleth(&out, f, geoms, rate, nil, figure.NaturalBreaks, 2, "rate", figure.MapOptions{
 		Title: "Rate by area",
 		Note:  "invented data",
 	})

@@ -1,4 +1,4 @@
-// Package plot draws per-area results as pictures: choropleth maps of a
+// Package figure draws per-area results as pictures: choropleth maps of a
 // numeric variable, maps of categories (such as the kinds of local
 // association), the Moran scatter plot and the histogram of a permutation
 // distribution. It takes plain data — geometries, values, category
@@ -58,4 +58,4 @@
 //
 // MoranScatter and Histogram are drawn with gonum.org/v1/plot, whose
 // vgsvg and vgimg backends again give SVG and PNG from one drawing.
-package plot
+package figure

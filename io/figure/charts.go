@@ -1,4 +1,4 @@
-package plot
+package figure
 
 import (
 	"bytes"
@@ -13,7 +13,7 @@ import (
 	"strings"
 
 	xfont "golang.org/x/image/font"
-	gplot "gonum.org/v1/plot"
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/text"
@@ -25,9 +25,9 @@ import (
 	"github.com/areatest/areatest/internal/numtext"
 )
 
-// PlotOptions set the frame of a scatter plot or a histogram. Sizes are in
+// ChartOptions set the frame of a scatter plot or a histogram. Sizes are in
 // pixels; 0 picks a default. Empty axis labels get a plain default.
-type PlotOptions struct {
+type ChartOptions struct {
 	Title, Subtitle string
 	XLabel, YLabel  string
 	Width, Height   int
@@ -67,10 +67,10 @@ func textStyle(sizePx float64, bold bool, c color.Color) text.Style {
 
 // newChart is a gonum plot in the project's look: sans-serif text, no
 // frame, grey axes.
-func newChart(xlabel, ylabel string) *gplot.Plot {
-	p := gplot.New()
+func newChart(xlabel, ylabel string) *plot.Plot {
+	p := plot.New()
 	p.BackgroundColor = color.Transparent
-	for _, ax := range []*gplot.Axis{&p.X, &p.Y} {
+	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
 		// Only font and colour change: gonum's styles carry the alignment
 		// and the rotation of the vertical label.
 		ax.Label.TextStyle.Font = font.From(sansFont, px(14))
@@ -109,7 +109,7 @@ type legendItem struct {
 	kind  int // 0 dot, 1 line, 2 bar
 }
 
-func newFrame(ff *fontFaces, opt PlotOptions, w, h int, legend []legendItem) chartFrame {
+func newFrame(ff *fontFaces, opt ChartOptions, w, h int, legend []legendItem) chartFrame {
 	fr := chartFrame{w: float64(w), h: float64(h), legend: legend}
 	fr.text = wrapFrameText(ff, opt.Title, opt.Subtitle, opt.Note, fr.w)
 	tw := fr.w - 2*margin
@@ -198,7 +198,7 @@ func (it legendItem) drawKey(c draw.Canvas, x float64, cy vg.Length) {
 // render draws the frame and the plot onto a canvas of the format and
 // writes it out. squareData makes the plot's data area square by trimming
 // the longer side, for plots whose slope must look like what it is.
-func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *gplot.Plot, squareData bool) error {
+func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, squareData bool) error {
 	W, H := px(fr.w), px(fr.h)
 	var vc vg.CanvasWriterTo
 	switch f {
@@ -247,7 +247,7 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *gplot.Plot, 
 
 // chartSetup checks the size asked for a chart, filling a side left 0
 // with its default, and loads the fonts.
-func chartSetup(opt PlotOptions, dw, dh int) (w, h int, ff *fontFaces, err error) {
+func chartSetup(opt ChartOptions, dw, dh int) (w, h int, ff *fontFaces, err error) {
 	w, h = opt.Width, opt.Height
 	if err := checkSize(w, h); err != nil {
 		return 0, 0, nil, err
@@ -289,7 +289,7 @@ func formatStat(v float64) string {
 // Points are coloured by categories[i], an index into legend (nil: all
 // grey; −1: an area without a category, grey); areas where z or lag is NaN
 // are left out.
-func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, legend []Category, slope float64, opt PlotOptions) error {
+func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, legend []Category, slope float64, opt ChartOptions) error {
 	if err := f.check(); err != nil {
 		return err
 	}
@@ -384,7 +384,7 @@ func (sg scatterGroups) color(g int) color.RGBA {
 // add puts the groups on p as dots, the common groups first so that rare
 // ones are not buried; big clouds get smaller, fainter dots so that
 // density still shows.
-func (sg scatterGroups) add(p *gplot.Plot) error {
+func (sg scatterGroups) add(p *plot.Plot) error {
 	radius, alpha := 3.4, 0.85
 	switch {
 	case sg.n > 20000:
@@ -455,9 +455,9 @@ func darker(c color.RGBA, f float64, a float64) color.NRGBA {
 // sign.
 type niceTicks struct{}
 
-func (niceTicks) Ticks(lo, hi float64) []gplot.Tick {
+func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
 	if !(hi > lo) {
-		return []gplot.Tick{{Value: lo, Label: formatNum(lo, 0)}}
+		return []plot.Tick{{Value: lo, Label: formatNum(lo, 0)}}
 	}
 	raw := (hi - lo) / 6
 	mag := math.Pow(10, math.Floor(math.Log10(raw)))
@@ -471,13 +471,13 @@ func (niceTicks) Ticks(lo, hi float64) []gplot.Tick {
 	for d < 10 && math.Abs(step*math.Pow(10, float64(d))-math.Round(step*math.Pow(10, float64(d)))) > 1e-6 {
 		d++
 	}
-	var ticks []gplot.Tick
+	var ticks []plot.Tick
 	for k := math.Ceil(lo/step*2) / 2; k*step <= hi+step*1e-9; k += 0.5 {
 		v := k * step
 		if math.Abs(v) < step*1e-9 {
 			v = 0
 		}
-		t := gplot.Tick{Value: v}
+		t := plot.Tick{Value: v}
 		if k == math.Trunc(k) {
 			t.Label = formatNum(v, d)
 		}
@@ -494,7 +494,7 @@ func withAlpha(c color.RGBA, a float64) color.NRGBA {
 // corners, in plain words.
 type quadrantLabels struct{ R float64 }
 
-func (q quadrantLabels) Plot(c draw.Canvas, p *gplot.Plot) {
+func (q quadrantLabels) Plot(c draw.Canvas, p *plot.Plot) {
 	trX, trY := p.Transforms(&c)
 	st := textStyle(12, false, guideInk)
 	pad := px(8)
@@ -527,7 +527,7 @@ func (q quadrantLabels) Plot(c draw.Canvas, p *gplot.Plot) {
 // it lies outside the shuffles' range. Bins follow the Freedman–Diaconis
 // rule (width 2·IQR·n^(−1/3)), kept between 10 and 60 bins. NaN values of
 // null are left out.
-func Histogram(w io.Writer, f Format, null []float64, observed float64, opt PlotOptions) error {
+func Histogram(w io.Writer, f Format, null []float64, observed float64, opt ChartOptions) error {
 	if err := f.check(); err != nil {
 		return err
 	}
@@ -618,7 +618,7 @@ type observedMark struct {
 	label  string
 }
 
-func (m observedMark) Plot(c draw.Canvas, p *gplot.Plot) {
+func (m observedMark) Plot(c draw.Canvas, p *plot.Plot) {
 	trX, trY := p.Transforms(&c)
 	x := trX(m.x)
 	c.StrokeLine2(draw.LineStyle{Color: observedInk, Width: px(2.4)}, x, trY(0), x, trY(m.top))
