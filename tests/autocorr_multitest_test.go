@@ -29,7 +29,7 @@ func TestAdjustAgainstStatsmodels(t *testing.T) {
 	if len(mt.PValues) != 15 || len(mt.Methods) != 4 {
 		t.Fatalf("refs: %d p-values, %d methods", len(mt.PValues), len(mt.Methods))
 	}
-	ours := map[string]shuffle.Method{
+	ours := map[string]shuffle.Adjustment{
 		"bonferroni": shuffle.Bonferroni,
 		"holm":       shuffle.Holm,
 		"fdr_bh":     shuffle.BenjaminiHochberg,

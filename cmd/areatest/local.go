@@ -62,7 +62,7 @@ func (c *localFlags) check() (err error) {
 	if c.kind, err = local.ParseKind(c.statistic); err != nil {
 		return usagef("--statistic: %v", err)
 	}
-	if c.opt.Adjustment, err = shuffle.ParseMethod(c.adjust); err != nil {
+	if c.opt.Adjustment, err = shuffle.ParseAdjustment(c.adjust); err != nil {
 		return usagef("--adjust: %v", err)
 	}
 	if c.opt.RawCategories, err = choice.Parse("--categories", c.categories,

@@ -22,7 +22,7 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	method, err := shuffle.ParseMethod(adjust)
+	method, err := shuffle.ParseAdjustment(adjust)
 	if err != nil {
 		return usagef("--adjust: %v", err)
 	}

@@ -60,7 +60,7 @@ type Options struct {
 	// (for Geary's C that is the lower tail; the tool turns it round).
 	Alternative shuffle.Alternative
 	// Adjust is the multiple-testing method Screen applies across columns.
-	Adjust shuffle.Method
+	Adjust shuffle.Adjustment
 	// Progress, when set, gives the progress callback of a named stage.
 	Progress func(stage string) func(done, total int)
 }

@@ -189,7 +189,7 @@ func (res *ScreenResult) screenGroup(in *Input, g *columnGroup, opt Options, pur
 
 // adjustAndRank adjusts the p-values across the screened columns and ranks
 // the columns by Moran's I, largest first.
-func (res *ScreenResult) adjustAndRank(method shuffle.Method) {
+func (res *ScreenResult) adjustAndRank(method shuffle.Adjustment) {
 	mp := make([]float64, len(res.Rows))
 	gp := make([]float64, len(res.Rows))
 	for k, r := range res.Rows {

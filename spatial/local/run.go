@@ -66,7 +66,7 @@ type Options struct {
 	// Adjustment is applied to the n p-values; categories are read from
 	// the adjusted ones unless RawCategories is set. With shuffle.None the
 	// adjusted p-values equal the raw ones.
-	Adjustment    shuffle.Method
+	Adjustment    shuffle.Adjustment
 	RawCategories bool
 	// KeepNull lists areas whose null values are kept in AreaResult.Null.
 	KeepNull []int
@@ -191,7 +191,7 @@ func zScore(v, mean, sd float64) float64 {
 
 // Adjust fills AdjustedP from P by method (shuffle.Adjust): the n areas
 // of one map are n tests.
-func Adjust(res []AreaResult, method shuffle.Method) {
+func Adjust(res []AreaResult, method shuffle.Adjustment) {
 	p := make([]float64, len(res))
 	for i, r := range res {
 		p[i] = r.P

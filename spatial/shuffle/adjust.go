@@ -7,12 +7,12 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 )
 
-// Method is a way of adjusting a family of p-values for multiple testing.
-type Method int
+// Adjustment is a way of adjusting a family of p-values for multiple testing.
+type Adjustment int
 
 const (
 	// None leaves the p-values as they are.
-	None Method = iota
+	None Adjustment = iota
 	// Bonferroni multiplies each p-value by the number of tests, which
 	// controls the family-wise error rate under any dependence.
 	Bonferroni
@@ -29,8 +29,8 @@ const (
 	BenjaminiYekutieli
 )
 
-// String returns the name ParseMethod reads back.
-func (m Method) String() string {
+// String returns the name ParseAdjustment reads back.
+func (m Adjustment) String() string {
 	switch m {
 	case Bonferroni:
 		return "bonferroni"
@@ -44,14 +44,14 @@ func (m Method) String() string {
 	return "none"
 }
 
-// ParseMethod reads a method name: none, bonferroni, holm,
+// ParseAdjustment reads a method name: none, bonferroni, holm,
 // benjamini-hochberg (or bh) and benjamini-yekutieli (or by), in any case.
-func ParseMethod(s string) (Method, error) {
+func ParseAdjustment(s string) (Adjustment, error) {
 	return choice.Parse("adjustment", s,
-		choice.Name[Method]{Name: "none", Value: None}, choice.Name[Method]{Name: "bonferroni", Value: Bonferroni},
-		choice.Name[Method]{Name: "holm", Value: Holm},
-		choice.Name[Method]{Name: "benjamini-hochberg", Value: BenjaminiHochberg}, choice.Name[Method]{Name: "bh", Value: BenjaminiHochberg},
-		choice.Name[Method]{Name: "benjamini-yekutieli", Value: BenjaminiYekutieli}, choice.Name[Method]{Name: "by", Value: BenjaminiYekutieli})
+		choice.Name[Adjustment]{Name: "none", Value: None}, choice.Name[Adjustment]{Name: "bonferroni", Value: Bonferroni},
+		choice.Name[Adjustment]{Name: "holm", Value: Holm},
+		choice.Name[Adjustment]{Name: "benjamini-hochberg", Value: BenjaminiHochberg}, choice.Name[Adjustment]{Name: "bh", Value: BenjaminiHochberg},
+		choice.Name[Adjustment]{Name: "benjamini-yekutieli", Value: BenjaminiYekutieli}, choice.Name[Adjustment]{Name: "by", Value: BenjaminiYekutieli})
 }
 
 // Adjust returns the adjusted p-values of p under method, in the order of p.
@@ -59,7 +59,7 @@ func ParseMethod(s string) (Method, error) {
 // smaller raw p never gets a larger adjusted p), so "adjusted p ≤ α" is the
 // method's rejection rule at level α. NaN entries stay NaN and do not count
 // as tests; the caller is expected to pass values in [0, 1].
-func Adjust(p []float64, method Method) []float64 {
+func Adjust(p []float64, method Adjustment) []float64 {
 	out := make([]float64, len(p))
 	idx := make([]int, 0, len(p))
 	for i, v := range p {

@@ -12,7 +12,7 @@ import (
 func TestAdjustByHand(t *testing.T) {
 	p := []float64{0.01, 0.04, 0.03, 0.005}
 	cases := []struct {
-		m    Method
+		m    Adjustment
 		want []float64
 	}{
 		{None, []float64{0.01, 0.04, 0.03, 0.005}},
@@ -76,8 +76,8 @@ func TestAdjustMonotoneAndNested(t *testing.T) {
 				p[i] = p[s.IntN(i)] // ties
 			}
 		}
-		adj := map[Method][]float64{}
-		for _, meth := range []Method{Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
+		adj := map[Adjustment][]float64{}
+		for _, meth := range []Adjustment{Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
 			a := Adjust(p, meth)
 			adj[meth] = a
 			for i := range p {
@@ -103,19 +103,19 @@ func TestAdjustMonotoneAndNested(t *testing.T) {
 	}
 }
 
-func TestParseMethod(t *testing.T) {
-	for _, m := range []Method{None, Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
-		got, err := ParseMethod(m.String())
+func TestParseAdjustmentNames(t *testing.T) {
+	for _, m := range []Adjustment{None, Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
+		got, err := ParseAdjustment(m.String())
 		if err != nil || got != m {
-			t.Errorf("ParseMethod(%q) = %v, %v", m.String(), got, err)
+			t.Errorf("ParseAdjustment(%q) = %v, %v", m.String(), got, err)
 		}
 	}
-	for s, want := range map[string]Method{"BH": BenjaminiHochberg, " by ": BenjaminiYekutieli, "Holm": Holm} {
-		if got, err := ParseMethod(s); err != nil || got != want {
-			t.Errorf("ParseMethod(%q) = %v, %v", s, got, err)
+	for s, want := range map[string]Adjustment{"BH": BenjaminiHochberg, " by ": BenjaminiYekutieli, "Holm": Holm} {
+		if got, err := ParseAdjustment(s); err != nil || got != want {
+			t.Errorf("ParseAdjustment(%q) = %v, %v", s, got, err)
 		}
 	}
-	if _, err := ParseMethod("sidak"); err == nil {
+	if _, err := ParseAdjustment("sidak"); err == nil {
 		t.Error("unknown method accepted")
 	}
 }

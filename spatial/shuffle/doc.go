@@ -16,7 +16,7 @@
 //
 // Around them: permutation p-values (1 + b)/(1 + B) with Clopper–Pearson
 // intervals for their Monte Carlo uncertainty (Phipson & Smyth 2010),
-// multiple-testing adjustment (Method, Adjust: Holm, Benjamini–Hochberg,
+// multiple-testing adjustment (Adjustment, Adjust: Holm, Benjamini–Hochberg,
 // Benjamini–Yekutieli), and the seeded random streams (Stream).
 //
 // Reproducibility: work is cut into fixed blocks of draws, scheduled by

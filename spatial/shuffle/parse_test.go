@@ -26,17 +26,17 @@ func TestParseNames(t *testing.T) {
 			t.Errorf("ParseLocalAlternative(%q) = %v, %v", c.in, l, err)
 		}
 	}
-	for in, want := range map[string]Method{"BH": BenjaminiHochberg, "Benjamini-Yekutieli": BenjaminiYekutieli, " holm": Holm, "None": None} {
-		if m, err := ParseMethod(in); err != nil || m != want {
-			t.Errorf("ParseMethod(%q) = %v, %v", in, m, err)
+	for in, want := range map[string]Adjustment{"BH": BenjaminiHochberg, "Benjamini-Yekutieli": BenjaminiYekutieli, " holm": Holm, "None": None} {
+		if m, err := ParseAdjustment(in); err != nil || m != want {
+			t.Errorf("ParseAdjustment(%q) = %v, %v", in, m, err)
 		}
 	}
-	if _, err := ParseMethod("sidak"); err == nil {
-		t.Error("ParseMethod accepted an unknown name")
+	if _, err := ParseAdjustment("sidak"); err == nil {
+		t.Error("ParseAdjustment accepted an unknown name")
 	}
 	// Each name reads back from String.
-	for _, m := range []Method{None, Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
-		if back, err := ParseMethod(m.String()); err != nil || back != m {
+	for _, m := range []Adjustment{None, Bonferroni, Holm, BenjaminiHochberg, BenjaminiYekutieli} {
+		if back, err := ParseAdjustment(m.String()); err != nil || back != m {
 			t.Errorf("%v does not read back: %v, %v", m, back, err)
 		}
 	}
