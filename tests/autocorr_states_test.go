@@ -80,7 +80,7 @@ func TestStatesEBMoranAgainstNumpy(t *testing.T) {
 			t.Fatal(err)
 		}
 		if !relClose(res.Moran.MoransI, c.want, 1e-12) {
-			t.Errorf("%s: EB Moran %v, numpy %v", c.w.Transform, res.Moran.MoransI, c.want)
+			t.Errorf("%s: EB Moran %v, numpy %v", c.w.Scaling, res.Moran.MoransI, c.want)
 		}
 		if !relClose(res.Mean, r.EB.MeanRate, 1e-13) || !relClose(res.Between, r.EB.Between, 1e-12) || len(res.Floored) != len(r.EB.Floored) {
 			t.Errorf("b %v (numpy %v), a %v (numpy %v), floored %v (numpy %v)", res.Mean, r.EB.MeanRate, res.Between, r.EB.Between, res.Floored, r.EB.Floored)
@@ -93,7 +93,7 @@ func TestStatesEBMoranAgainstNumpy(t *testing.T) {
 		if n := float64(c.w.Len()); res.Moran.Expected != -1/(n-1) {
 			t.Errorf("E[I] %v", res.Moran.Expected)
 		}
-		t.Logf("%s: EB Moran %.6f, one-sided permutation p %.4f", c.w.Transform, res.Moran.MoransI, res.Moran.Permutation.PValue)
+		t.Logf("%s: EB Moran %.6f, one-sided permutation p %.4f", c.w.Scaling, res.Moran.MoransI, res.Moran.Permutation.PValue)
 	}
 	raw, err := autocorr.Rates(r.EB.Events, r.EB.Population)
 	if err != nil {
@@ -200,7 +200,7 @@ func TestStatesGiStarAgainstGonum(t *testing.T) {
 		d := testkit.Dense(w.Offsets, w.Neighbours, w.Weights)
 		wantI, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		if i, _ := autocorr.MoransI(x, w); math.Abs(i-wantI) > 1e-12 {
-			t.Errorf("%s: I %v gonum %v", w.Transform, i, wantI)
+			t.Errorf("%s: I %v gonum %v", w.Scaling, i, wantI)
 		}
 		for i := 0; i < n; i++ {
 			d.Set(i, i, 1)
@@ -208,7 +208,7 @@ func TestStatesGiStarAgainstGonum(t *testing.T) {
 		for i := range got {
 			want := gspatial.GetisOrdGStar(i, x, nil, d)
 			if math.Abs(got[i]-want) > 1e-12 {
-				t.Errorf("%s: Gi* of %s %v, gonum %v", w.Transform, r.IDs[i], got[i], want)
+				t.Errorf("%s: Gi* of %s %v, gonum %v", w.Scaling, r.IDs[i], got[i], want)
 			}
 		}
 	}

@@ -86,11 +86,11 @@ func TestStatesMoranAgainstGonum(t *testing.T) {
 		d := testkit.Dense(w.Offsets, w.Neighbours, w.Weights)
 		want, _, _ := gspatial.GlobalMoransI(x, nil, d)
 		if math.Abs(got-want) > 1e-12 {
-			t.Errorf("%s: I %v, gonum %v", w.Transform, got, want)
+			t.Errorf("%s: I %v, gonum %v", w.Scaling, got, want)
 		}
 		// Latitude is smooth across states: strongly positive I.
 		if got < 0.5 {
-			t.Errorf("%s: I of latitude %v, expected strong clustering", w.Transform, got)
+			t.Errorf("%s: I of latitude %v, expected strong clustering", w.Scaling, got)
 		}
 	}
 }

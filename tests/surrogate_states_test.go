@@ -73,13 +73,13 @@ func TestSurrogateStatesMoranAgainstGonum(t *testing.T) {
 			worst = math.Max(worst, math.Abs(got-want))
 			m, v := testkit.MeanVar(y)
 			if math.Abs(m-m0) > 1e-12*math.Abs(m0) || math.Abs(v-v0) > 1e-12*v0 {
-				t.Fatalf("%s: draw %d has mean %v and variance %v, the latitude %v and %v", w.Transform, k, m, v, m0, v0)
+				t.Fatalf("%s: draw %d has mean %v and variance %v, the latitude %v and %v", w.Scaling, k, m, v, m0, v0)
 			}
 		}
 		if worst > 1e-9 {
-			t.Errorf("%s: Moran's I of the latitude %v (gonum); surrogates differ by up to %g", w.Transform, want, worst)
+			t.Errorf("%s: Moran's I of the latitude %v (gonum); surrogates differ by up to %g", w.Scaling, want, worst)
 		}
-		t.Logf("%s: Moran's I %.6f (gonum), worst surrogate difference %.2g", w.Transform, want, worst)
+		t.Logf("%s: Moran's I %.6f (gonum), worst surrogate difference %.2g", w.Scaling, want, worst)
 	}
 }
 

@@ -75,7 +75,7 @@ func (r *radiusQuery) visit(q int, f func(j int32, d float64)) {
 // stops before it has taken the memory. check, if given, runs between the
 // passes (builders use it to report problems weigh found). threshold is the
 // fixed distance reported if no area gets a neighbour.
-func (r *radiusQuery) graph(transform string, threshold float64, check func() error) (*Graph, error) {
+func (r *radiusQuery) graph(scaling string, threshold float64, check func() error) (*Graph, error) {
 	ix := r.ix
 	n := ix.len()
 	counts := make([]int32, n)
@@ -132,7 +132,7 @@ func (r *radiusQuery) graph(transform string, threshold float64, check func() er
 			sortRow(nb[a:b], w[a:b])
 		}
 	})
-	return &Graph{Kind: r.kind, Transform: transform, Offsets: offsets, Neighbours: nb, Weights: w}, nil
+	return &Graph{Kind: r.kind, Scaling: scaling, Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }
 
 // sortRow orders a row by neighbour index, carrying the weights along.
@@ -193,7 +193,7 @@ func DistanceClasses(pts []orb.Point, width float64, k int, m Metric) ([]*Graph,
 			class = withoutLinksOf(band, previous)
 		}
 		class.Kind = fmt.Sprintf("distance class %g–%g %s", float64(c-1)*width, float64(c)*width, unit)
-		class.Transform = string(Binary)
+		class.Scaling = string(Binary)
 		out = append(out, class)
 		previous = band
 	}

@@ -68,8 +68,8 @@ func TestDistanceBandAgainstBruteForce(t *testing.T) {
 	}
 	// On a lattice with step 1, a band of exactly 1 gives the rook pairs,
 	// 2·m·(m−1) of them (common knowledge): the band includes its edge.
-	if g.Links() != 2*2*4*3 || g.Kind != "distance band 1 (layer units)" || g.Transform != "binary" {
-		t.Errorf("lattice band 1: %d links, kind %q, transform %q", g.Links(), g.Kind, g.Transform)
+	if g.Links() != 2*2*4*3 || g.Kind != "distance band 1 (layer units)" || g.Scaling != "binary" {
+		t.Errorf("lattice band 1: %d links, kind %q, transform %q", g.Links(), g.Kind, g.Scaling)
 	}
 	// 0.1° of latitude is 11.1 km (2πR/3600), so a 12 km band links the
 	// north–south pairs of a 0.1° lattice at 50°N and the east–west ones,
@@ -155,8 +155,8 @@ func TestInverseDistance(t *testing.T) {
 				}
 			}
 		}
-		if g.Transform != "weighted" {
-			t.Errorf("transform %q", g.Transform)
+		if g.Scaling != "weighted" {
+			t.Errorf("transform %q", g.Scaling)
 		}
 	}
 	for _, c := range []struct {

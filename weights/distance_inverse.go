@@ -139,5 +139,5 @@ func (iw *inverseWeigher) allPairs() (*Graph, error) {
 		return nil, err
 	}
 	kind := fmt.Sprintf("inverse distance (power %s, all pairs)", formatNumber(iw.power))
-	return &Graph{Kind: kind, Transform: "weighted", Offsets: offsets, Neighbours: nb, Weights: w}, nil
+	return &Graph{Kind: kind, Scaling: "weighted", Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }

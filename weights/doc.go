@@ -7,7 +7,7 @@
 // contiguity (BuildContiguity), k nearest neighbours (KNearest), a distance
 // band (DistanceBand), inverse distance (InverseDistance) or kernel weights
 // (Kernel) between representative points (RepresentativePoints). Graph is
-// the result, with its transforms (Transformed) and higher orders
+// the result, with its scalings (Scaled) and higher orders
 // (HigherOrder); Restrict cuts it down to the areas a statistic uses, under
 // the tool-wide islands policy, and Summarise describes it for reports.
 //

@@ -76,11 +76,11 @@ func ReadEdgeList(r io.Reader, source string, ids []string) (*Graph, error) {
 		binary = binary && (l.Weight == 1 || l.Weight == 0)
 		links = append(links, l)
 	}
-	transform := "as given"
+	scaling := "as given"
 	if binary {
-		transform = string(Binary)
+		scaling = string(Binary)
 	}
-	return FromEntries(len(ids), links, "edge list "+source, transform)
+	return FromEntries(len(ids), links, "edge list "+source, scaling)
 }
 
 // edgeColumns says where the columns of an edge list are, and which area

@@ -13,9 +13,10 @@ import (
 type Graph struct {
 	// Kind describes how the graph was built, e.g. "queen contiguity".
 	Kind string
-	// Transform names the weighting applied to the links: "binary" or
+	// Scaling names the weighting of the links: "binary", a builder's own
+	// ("weighted", "as given") or a Scaling applied to them, such as
 	// "row-standardised".
-	Transform  string
+	Scaling    string
 	Offsets    []int32
 	Neighbours []int32
 	Weights    []float64
@@ -92,13 +93,13 @@ func FromLinks(n int, pairs [][2]int32, kind string) (*Graph, error) {
 	for k := range w {
 		w[k] = 1
 	}
-	return &Graph{Kind: kind, Transform: "binary", Offsets: offsets, Neighbours: out, Weights: w}, nil
+	return &Graph{Kind: kind, Scaling: "binary", Offsets: offsets, Neighbours: out, Weights: w}, nil
 }
 
 // RowStandardised returns a copy whose rows each sum to one. Rows of islands
 // stay empty.
 func (g *Graph) RowStandardised() *Graph {
-	h := &Graph{Kind: g.Kind, Transform: "row-standardised", Offsets: g.Offsets, Neighbours: g.Neighbours,
+	h := &Graph{Kind: g.Kind, Scaling: "row-standardised", Offsets: g.Offsets, Neighbours: g.Neighbours,
 		Weights: make([]float64, len(g.Weights))}
 	for i := 0; i < g.Len(); i++ {
 		a, b := g.Offsets[i], g.Offsets[i+1]
@@ -125,7 +126,7 @@ func (g *Graph) Subset(keep []int) *Graph {
 	for k, i := range keep {
 		pos[i] = int32(k)
 	}
-	h := &Graph{Kind: g.Kind, Transform: g.Transform, Offsets: make([]int32, len(keep)+1)}
+	h := &Graph{Kind: g.Kind, Scaling: g.Scaling, Offsets: make([]int32, len(keep)+1)}
 	for k, i := range keep {
 		nb, w := g.Row(i)
 		start := len(h.Neighbours)
@@ -165,7 +166,7 @@ type Link struct {
 // need not be symmetric). Links may come in any order; a repeated (from, to)
 // pair, a self-link, an index out of range, or a negative or non-finite
 // weight is an error. Links of weight zero are dropped.
-func FromEntries(n int, links []Link, kind, transform string) (*Graph, error) {
+func FromEntries(n int, links []Link, kind, scaling string) (*Graph, error) {
 	offsets := make([]int32, n+1)
 	for _, l := range links {
 		if l.From == l.To {
@@ -195,7 +196,7 @@ func FromEntries(n int, links []Link, kind, transform string) (*Graph, error) {
 			fill[l.From]++
 		}
 	}
-	g := &Graph{Kind: kind, Transform: transform, Offsets: offsets, Neighbours: nb, Weights: w}
+	g := &Graph{Kind: kind, Scaling: scaling, Offsets: offsets, Neighbours: nb, Weights: w}
 	for i := 0; i < n; i++ {
 		a, b := offsets[i], offsets[i+1]
 		sort.Sort(byIndex{nb[a:b], w[a:b]})

@@ -112,8 +112,8 @@ func TestKernelKinds(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if g.Kind != c.want || g.Transform != "weighted" {
-			t.Errorf("kind %q transform %q, want %q", g.Kind, g.Transform, c.want)
+		if g.Kind != c.want || g.Scaling != "weighted" {
+			t.Errorf("kind %q transform %q, want %q", g.Kind, g.Scaling, c.want)
 		}
 	}
 	for _, s := range []string{"triangular", "Bisquare", " GAUSSIAN "} {

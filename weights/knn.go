@@ -66,7 +66,7 @@ func KNearest(pts []orb.Point, k int, m Metric, symmetrise bool) (*Graph, error)
 	for t := range w {
 		w[t] = 1
 	}
-	return &Graph{Kind: kind, Transform: "binary", Offsets: offsets, Neighbours: nb, Weights: w}, nil
+	return &Graph{Kind: kind, Scaling: "binary", Offsets: offsets, Neighbours: nb, Weights: w}, nil
 }
 
 // unionRows returns the rows (sorted, without repeats) of the union of the

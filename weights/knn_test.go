@@ -277,8 +277,8 @@ func TestKNearestSymmetrised(t *testing.T) {
 		slices.Sort(wantRows[i])
 	}
 	sameRows(t, "symmetrised", rowsOf(sym), wantRows)
-	if sym.Kind != "6 nearest neighbours (symmetrised)" || plain.Kind != "6 nearest neighbours" || sym.Transform != "binary" {
-		t.Errorf("kinds %q, %q, transform %q", plain.Kind, sym.Kind, sym.Transform)
+	if sym.Kind != "6 nearest neighbours (symmetrised)" || plain.Kind != "6 nearest neighbours" || sym.Scaling != "binary" {
+		t.Errorf("kinds %q, %q, transform %q", plain.Kind, sym.Kind, sym.Scaling)
 	}
 }
 

@@ -21,7 +21,7 @@ func TestParseNames(t *testing.T) {
 		{"kernel", "Gaussian", Gaussian}, {"kernel", "bisquare", Bisquare},
 		{"transform", "Row", RowStandardised}, {"transform", "row-standardised", RowStandardised},
 		{"transform", "binary", Binary}, {"transform", "Variance-Stabilising", VarianceStabilising},
-		{"scaling", "row", RowStandardised}, {"scaling", "None", Binary}, {"scaling", "stabilised", VarianceStabilising},
+		{"scaling", "row", RowStandardised}, {"scaling", "None", AsBuilt}, {"scaling", "stabilised", VarianceStabilising},
 	} {
 		if got, err := parse[c.parser](c.in); err != nil || got != c.want {
 			t.Errorf("%s %q: %v, %v; want %v", c.parser, c.in, got, err, c.want)

@@ -168,15 +168,15 @@ func (s Spec) Describe(geoms []orb.MultiPolygon) string {
 
 // Restricted is a graph cut down to the areas a statistic uses.
 type Restricted struct {
-	// Graph links the used areas, with the transform applied.
+	// Graph links the used areas, with the scaling applied.
 	Graph *Graph
-	// Binary is the same links before the transform.
+	// Binary is the same links before the scaling.
 	Binary *Graph
 	// Used[k] is the index, among the areas passed to Restrict, of area k
 	// of Graph.
 	Used []int
 	// Summary describes the graph among all the areas passed (islands
-	// included), with the transform the statistic uses.
+	// included), with the scaling the statistic uses.
 	Summary Summary
 }
 
@@ -185,7 +185,7 @@ type Restricted struct {
 // neighbour among the kept ones are left out too (the tool-wide islands
 // policy) unless keepIslands, in which case they stay with a spatial lag of
 // zero. ids name g's areas.
-func Restrict(g *Graph, keep []int, ids []string, t Transform, keepIslands bool) (*Restricted, error) {
+func Restrict(g *Graph, keep []int, ids []string, t Scaling, keepIslands bool) (*Restricted, error) {
 	sub := g.Subset(keep)
 	kept := make([]string, len(keep))
 	for k, i := range keep {
@@ -195,7 +195,7 @@ func Restrict(g *Graph, keep []int, ids []string, t Transform, keepIslands bool)
 		t = RowStandardised
 	}
 	r := &Restricted{Summary: Summarise(sub, kept)}
-	r.Summary.Transform = string(t)
+	r.Summary.Scaling = string(t)
 	for k := 0; k < sub.Len(); k++ {
 		if sub.Degree(k) > 0 || keepIslands {
 			r.Used = append(r.Used, k)
@@ -203,6 +203,6 @@ func Restrict(g *Graph, keep []int, ids []string, t Transform, keepIslands bool)
 	}
 	r.Binary = sub.Subset(r.Used)
 	var err error
-	r.Graph, err = r.Binary.Transformed(t)
+	r.Graph, err = r.Binary.Scaled(t)
 	return r, err
 }

@@ -8,9 +8,9 @@ import (
 // Summary describes a neighbour graph for people: every statistic's output
 // carries one, so a reader can judge the weights a result stands on.
 type Summary struct {
-	Kind      string `json:"kind"`
-	Transform string `json:"transform"`
-	Areas     int    `json:"areas"`
+	Kind    string `json:"kind"`
+	Scaling string `json:"transform"`
+	Areas   int    `json:"areas"`
 	// Links counts directed links (non-zero weights); Pairs counts linked
 	// pairs of areas, each once.
 	Links int `json:"links"`
@@ -49,7 +49,7 @@ const ManyNeighbours = 100
 // Summarise describes g; ids name the areas.
 func Summarise(g *Graph, ids []string) Summary {
 	n := g.Len()
-	s := Summary{Kind: g.Kind, Transform: g.Transform, Areas: n, Links: g.Links(),
+	s := Summary{Kind: g.Kind, Scaling: g.Scaling, Areas: n, Links: g.Links(),
 		FewestIDs: []string{}, MostIDs: []string{}, IslandIDs: []string{}, Warnings: []string{}}
 	if n == 0 {
 		return s

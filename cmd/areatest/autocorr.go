@@ -105,7 +105,7 @@ func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string,
 
 // clustering returns the input and options of package clustering.
 func (c *sharedFlags) clustering() (clustering.Input, clustering.Options) {
-	return clustering.Input{File: c.lay.Source, IDs: c.lay.IDs, Graph: c.graph, Transform: c.transform, KeepIslands: c.keepIslands},
+	return clustering.Input{File: c.lay.Source, IDs: c.lay.IDs, Graph: c.graph, Scaling: c.scaling, KeepIslands: c.keepIslands},
 		clustering.Options{Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alternative: c.alt}
 }
 

@@ -117,7 +117,7 @@ func (c *compareFlags) compare(stderr io.Writer) (*compare.Result, error) {
 	if err := c.build(stderr); err != nil {
 		return nil, err
 	}
-	in.Graph, in.Transform, in.KeepIslands = c.graph, c.transform, c.keepIslands
+	in.Graph, in.Scaling, in.KeepIslands = c.graph, c.scaling, c.keepIslands
 	bar := progress.New(stderr)
 	opt := c.opt
 	opt.Progress = bar.Stage

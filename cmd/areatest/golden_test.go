@@ -73,7 +73,7 @@ func TestGoldenReports(t *testing.T) {
 		{"local-geary-folded", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--statistic", "geary", "--alternative", "folded"}, small...), nil},
 		{"local-cross", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--against", "rate", "--statistic", "cross-moran", "--top", "3"}, small...), nil},
 		{"weights", []string{"weights", "-i", "region.geojson"}, nil},
-		{"weights-json", []string{"weights", "-i", "region.geojson", "--knn", "4", "--transform", "row", "--format", "json", "--write", "knn4.csv"}, []string{"knn4.csv"}},
+		{"weights-json", []string{"weights", "-i", "region.geojson", "--knn", "4", "--scaling", "row", "--format", "json", "--write", "knn4.csv"}, []string{"knn4.csv"}},
 		{"weights-band", []string{"weights", "-i", "region.geojson", "--band", "15", "--order", "2", "--cumulative"}, nil},
 		{"weights-kernel", []string{"weights", "-i", "region.geojson", "--kernel", "bisquare", "--adaptive", "6", "--points", "inside"}, nil},
 	}

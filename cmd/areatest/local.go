@@ -113,7 +113,7 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.scalingGiven() {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
 		// 1995), with w_ii = 1 for Gi*.
-		c.transform = weights.Binary
+		c.scaling = weights.Binary
 	}
 	in, err := c.input()
 	if err != nil {
@@ -140,7 +140,7 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 // input gathers the columns of the analysis from the layer.
 func (c *localFlags) input() (local.Input, error) {
 	in := local.Input{File: c.lay.Source, IDs: c.lay.IDs, Variable: c.variable, Against: c.against,
-		Graph: c.graph, Transform: c.transform, KeepIslands: c.keepIslands, NullOf: c.area}
+		Graph: c.graph, Scaling: c.scaling, KeepIslands: c.keepIslands, NullOf: c.area}
 	col, err := numericColumn(c.lay, c.variable, "the variable")
 	if err != nil {
 		return in, err

@@ -142,7 +142,7 @@ type sharedFlags struct {
 	lay         *layer.Layer
 	graph       *weights.Graph
 	spec        weights.Spec
-	transform   weights.Transform
+	scaling     weights.Scaling
 	keepIslands bool
 	alt         shuffle.Alternative
 }
@@ -207,7 +207,7 @@ func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) 
 	if c.permutations < 1 || c.workers < 1 {
 		return usagef("--permutations and --workers must be at least 1")
 	}
-	c.spec, c.transform, c.keepIslands, err = c.weights.spec()
+	c.spec, c.scaling, c.keepIslands, err = c.weights.spec()
 	return err
 }
 

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"io"
 	"strings"
 	"testing"
 
@@ -24,12 +25,22 @@ func TestScalingFlag(t *testing.T) {
 	}
 	for _, c := range same {
 		a, b := runIn("", append(base, c.a...)...), runIn("", append(base, c.b...)...)
-		if a.code != 0 || b.code != 0 || a.stdout != b.stdout || a.stderr != b.stderr {
+		note := "" // the former spelling is noted on stderr
+		if strings.Contains(strings.Join(c.b, " "), "--transform") {
+			note = "Flag --transform has been deprecated, it is now --scaling (row, none or stabilised; binary is none for contiguity weights) and goes away in a later release\n"
+		}
+		if a.code != 0 || b.code != 0 || a.stdout != b.stdout || note+a.stderr != b.stderr {
 			t.Errorf("%v (exit %d, %s) and %v (exit %d, %s) differ", c.a, a.code, a.stderr, c.b, b.code, b.stderr)
 		}
 	}
 	if r := runIn("", append(base, "--scaling", "none")...); !strings.Contains(r.stdout, `"transform": "binary"`) {
 		t.Errorf("--scaling none: %s", r.stdout)
+	}
+	// On kernel weights "none" keeps them; the former "binary" set them to one.
+	kernel := append(base, "--kernel", "bisquare", "--adaptive", "6")
+	kept, ones := runIn("", append(kernel, "--scaling", "none")...), runIn("", append(kernel, "--transform", "binary")...)
+	if kept.code != 0 || ones.code != 0 || kept.stdout == ones.stdout || !strings.Contains(ones.stdout, `"transform": "binary"`) || strings.Contains(kept.stdout, `"transform": "binary"`) {
+		t.Errorf("kernel weights: --scaling none %s / --transform binary %s", kept.stdout, ones.stdout)
 	}
 	for _, c := range []struct {
 		args []string
@@ -65,6 +76,7 @@ func TestScalingGiven(t *testing.T) {
 	}{{nil, false}, {[]string{"--scaling", "none"}, true}, {[]string{"--transform", "binary"}, true}, {[]string{"--knn", "3"}, false}} {
 		var w weightFlags
 		fs := pflag.NewFlagSet("test", pflag.ContinueOnError)
+		fs.SetOutput(io.Discard) // the note on the former spelling
 		w.register(fs)
 		if err := fs.Parse(c.args); err != nil {
 			t.Fatal(err)

@@ -25,7 +25,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	}
 	err := c.checkOutput()
 	if err == nil {
-		c.spec, c.transform, _, err = c.weights.spec()
+		c.spec, c.scaling, _, err = c.weights.spec()
 	}
 	if err == nil {
 		err = c.open(stdin, stderr)
@@ -40,7 +40,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	// when a scaling is given.
 	shown := c.graph
 	if c.weights.scalingGiven() {
-		if shown, err = shown.Transformed(c.transform); err != nil {
+		if shown, err = shown.Scaled(c.scaling); err != nil {
 			return err
 		}
 	}

@@ -16,8 +16,8 @@ import (
 type weightFlags struct {
 	s                        weights.Spec
 	contiguity, points, file string
-	// transform is the former name of scaling, read for one more release
-	// and hidden from --help.
+	// transform is the former name of scaling, read for one more release,
+	// hidden from --help and noted on stderr when used.
 	scaling, transform, islands string
 	order                       int
 	changed                     func(string) bool
@@ -37,9 +37,11 @@ func (w *weightFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&w.s.Planar, "planar", false, "measure distances in the plane of the coordinates even on a lon/lat layer")
 	fs.IntVar(&w.order, "order", 1, "neighbours of this order (neighbours of neighbours for 2, …)")
 	fs.BoolVar(&w.s.Cumulative, "cumulative", false, "with --order: all orders up to it")
-	fs.StringVar(&w.scaling, "scaling", "row", "weights for the statistics: row (each area's weights sum to one), none (every link weight one), or stabilised (equal sum of squares per row)")
+	fs.StringVar(&w.scaling, "scaling", "row", "weights for the statistics: row (each area's weights sum to one), none (as built: one per link for contiguity, nearest neighbours and bands; kernel and distance weights kept), or stabilised (equal sum of squares per row)")
 	fs.StringVar(&w.transform, "transform", "row", "former name of --scaling: row, binary or variance")
-	_ = fs.MarkHidden("transform") // cannot fail: the flag was just defined
+	// Hidden from --help, with a note on stderr when used; cannot fail: the
+	// flag was just defined.
+	_ = fs.MarkDeprecated("transform", "it is now --scaling (row, none or stabilised; binary is none for contiguity weights) and goes away in a later release")
 	fs.StringVar(&w.islands, "islands", "drop", "areas without neighbours: drop (leave out of spatial statistics) or keep (with a zero spatial lag)")
 	fs.StringVar(&w.file, "weights", "", "read the neighbour graph from an edge-list CSV (from,to,weight) instead of building it")
 	w.changed = fs.Changed
@@ -51,7 +53,7 @@ func (w *weightFlags) scalingGiven() bool { return w.changed("scaling") || w.cha
 
 // scalingOf reads --scaling, or else --transform, whose default is the
 // default scaling.
-func (w *weightFlags) scalingOf() (weights.Transform, error) {
+func (w *weightFlags) scalingOf() (weights.Scaling, error) {
 	if w.changed("scaling") && w.changed("transform") {
 		return "", usagef("--transform is the former name of --scaling; give only --scaling")
 	}
@@ -68,7 +70,7 @@ func (w *weightFlags) scalingOf() (weights.Transform, error) {
 
 // spec checks the flags and returns the graph recipe, the transform and the
 // islands policy.
-func (w *weightFlags) spec() (weights.Spec, weights.Transform, bool, error) {
+func (w *weightFlags) spec() (weights.Spec, weights.Scaling, bool, error) {
 	s := w.s
 	s.Order = w.order
 	var err error

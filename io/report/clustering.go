@@ -16,7 +16,7 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: do these variables cluster in space?\n\n", r.Version)
 	fmt.Fprintf(&b, "  input      %s, %s areas\n", r.Input, numtext.Count(r.Areas))
-	fmt.Fprintf(&b, "  weights    %s, %s; %s, %s without neighbours%s\n\n", r.Weights.Kind, r.Weights.Transform,
+	fmt.Fprintf(&b, "  weights    %s, %s; %s, %s without neighbours%s\n\n", r.Weights.Kind, r.Weights.Scaling,
 		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
 	for _, v := range r.Variables {
 		variableText(&b, v)
@@ -142,7 +142,7 @@ func writeCautions(b *strings.Builder, cautions []string) {
 func ScreenText(w io.Writer, r *clustering.ScreenResult) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: which columns of %s cluster in space?\n\n", r.Version, r.Input)
-	fmt.Fprintf(&b, "  %s areas; %s, %s; %s, %s without neighbours\n", numtext.Count(r.Areas), r.Weights.Kind, r.Weights.Transform,
+	fmt.Fprintf(&b, "  %s areas; %s, %s; %s, %s without neighbours\n", numtext.Count(r.Areas), r.Weights.Kind, r.Weights.Scaling,
 		plural(r.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(r.Weights.Islands))
 	fmt.Fprintf(&b, "  %s shuffles per column; p-values %s, adjusted across %s by %s\n\n", numtext.Count(r.Permutations), r.Alternative,
 		plural(len(r.Rows), "column", "columns"), r.Adjustment)
@@ -177,7 +177,7 @@ func ScreenCSV(w io.Writer, r *clustering.ScreenResult) error {
 	for _, row := range r.Rows {
 		cw.Write([]string{strconv.Itoa(row.Rank), row.Name, strconv.Itoa(row.Areas), strconv.Itoa(row.Missing),
 			f(row.MoransI), f(row.MoranZ), f(row.MoranP), f(row.MoranPAdjusted), f(row.GearysC), f(row.GearyP), f(row.GearyPAdjusted),
-			r.Adjustment, strconv.Itoa(r.Permutations), strconv.FormatUint(r.Seed, 10), r.Weights.Kind + ", " + r.Weights.Transform, r.Version})
+			r.Adjustment, strconv.Itoa(r.Permutations), strconv.FormatUint(r.Seed, 10), r.Weights.Kind + ", " + r.Weights.Scaling, r.Version})
 	}
 	cw.Flush()
 	return cw.Error()

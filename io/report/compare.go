@@ -110,7 +110,7 @@ func compareChecks(b *strings.Builder, r *compare.Result) {
 		b.WriteString("\n")
 	}
 	a := r.Autocorrelation
-	fmt.Fprintf(b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Transform, r.Weights.Kind)
+	fmt.Fprintf(b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Scaling, r.Weights.Kind)
 	fmt.Fprintf(b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
 		numtext.Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
 	if a.Outcome.Variable != "" {

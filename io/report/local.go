@@ -27,7 +27,7 @@ func LocalText(w io.Writer, d *local.Result, top int) error {
 	fmt.Fprintf(&b, "areatest %s: where does %s cluster?\n\n", d.Version, subject)
 	fmt.Fprintf(&b, "  input       %s, %s areas, %s analysed\n", d.Input, numtext.Count(len(d.Areas)), numtext.Count(s.Areas))
 	fmt.Fprintf(&b, "  statistic   %s, %s conditional shuffles per area (%s p-values)\n", s.Statistic, numtext.Count(s.Permutations), s.Alternative)
-	fmt.Fprintf(&b, "  weights     %s, %s; %s, %s without neighbours\n", d.Weights.Kind, d.Weights.Transform,
+	fmt.Fprintf(&b, "  weights     %s, %s; %s, %s without neighbours\n", d.Weights.Kind, d.Weights.Scaling,
 		plural(d.Weights.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(d.Weights.Islands))
 	fmt.Fprintf(&b, "  testing     %s areas at p ≤ %g before adjustment, %s after %s\n\n", numtext.Count(d.RawSignificant), s.Alpha,
 		numtext.Count(d.AdjustedSignificant), s.Adjustment)
@@ -173,7 +173,7 @@ func (p LocalPictures) Scatter(w io.Writer, f figure.Format) error {
 	if r.Against != "" {
 		yLabel = "neighbours' " + r.Against + " (standardised)"
 	}
-	opt := figure.ChartOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Transform,
+	opt := figure.ChartOptions{Title: r.Variable + " against its neighbours", Subtitle: r.Weights.Kind + ", " + r.Weights.Scaling,
 		XLabel: r.Variable + " (standardised)", YLabel: yLabel, Note: p.note()}
 	return figure.MoranScatter(w, f, z, lag, cats, figure.LocalLegend(r.Kind), r.Summary.Total/float64(len(areas)), opt)
 }

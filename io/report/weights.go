@@ -30,7 +30,7 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	for _, set := range d.Settings {
 		row("", set)
 	}
-	row("weights", s.Transform)
+	row("weights", s.Scaling)
 	row("areas", numtext.Count(s.Areas))
 	row("links", fmt.Sprintf("%s (%s directed links)", plural(s.Pairs, "neighbour pair", "neighbour pairs"), numtext.Count(s.Links)))
 	if s.Areas > 0 {

@@ -104,13 +104,13 @@ func TestBoundsBracketEnumeration(t *testing.T) {
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
 		if lo < b.Min-1e-12 || hi > b.Max+1e-12 {
-			t.Errorf("%s: arrangements reach [%v, %v] outside the bounds [%v, %v]", w.Transform, lo, hi, b.Min, b.Max)
+			t.Errorf("%s: arrangements reach [%v, %v] outside the bounds [%v, %v]", w.Scaling, lo, hi, b.Min, b.Max)
 		}
 		vmin, vmax := denseExtremeVectors(t, w)
 		imin, _ := MoransI(vmin, w)
 		imax, _ := MoransI(vmax, w)
 		if !near(imin, b.Min, 1e-10) || !near(imax, b.Max, 1e-10) {
-			t.Errorf("%s: eigenvectors give I %v and %v, bounds %v %v", w.Transform, imin, imax, b.Min, b.Max)
+			t.Errorf("%s: eigenvectors give I %v and %v, bounds %v %v", w.Scaling, imin, imax, b.Min, b.Max)
 		}
 	}
 }
@@ -135,12 +135,12 @@ func TestLanczosMatchesDense(t *testing.T) {
 			}
 			lo, hi, iters, ok := lanczosBounds(w, 1, 1e-11, 2000)
 			if !ok {
-				t.Errorf("%s %s: no convergence in %d steps", c.name, w.Transform, iters)
+				t.Errorf("%s %s: no convergence in %d steps", c.name, w.Scaling, iters)
 			}
 			if math.Abs(lo-dlo) > 1e-8*math.Abs(dlo) || math.Abs(hi-dhi) > 1e-8*math.Abs(dhi) {
-				t.Errorf("%s %s: lanczos [%v, %v] dense [%v, %v]", c.name, w.Transform, lo, hi, dlo, dhi)
+				t.Errorf("%s %s: lanczos [%v, %v] dense [%v, %v]", c.name, w.Scaling, lo, hi, dlo, dhi)
 			}
-			t.Logf("%s %s: %d steps, [%.12g, %.12g]", c.name, w.Transform, iters, lo, hi)
+			t.Logf("%s %s: %d steps, [%.12g, %.12g]", c.name, w.Scaling, iters, lo, hi)
 		}
 	}
 	// Past DenseBoundsLimit MoranBounds switches to Lanczos.
@@ -227,7 +227,7 @@ func TestLanczosSmallGraphs(t *testing.T) {
 			dlo, dhi, _ := denseBounds(w)
 			lo, hi, _, ok := lanczosBounds(w, 1, 1e-11, 2000)
 			if !ok || !near(lo, dlo, 1e-10) || !near(hi, dhi, 1e-10) {
-				t.Errorf("n=%d %s: lanczos [%v, %v] (converged %v), dense [%v, %v]", w.Len(), w.Transform, lo, hi, ok, dlo, dhi)
+				t.Errorf("n=%d %s: lanczos [%v, %v] (converged %v), dense [%v, %v]", w.Len(), w.Scaling, lo, hi, ok, dlo, dhi)
 			}
 		}
 	}

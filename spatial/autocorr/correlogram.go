@@ -44,17 +44,17 @@ func Correlogram(x []float64, graphs []*weights.Graph, plan shuffle.Plan) ([]Lag
 }
 
 // LagGraphs returns the graphs of neighbours of exactly order 1, 2, …, k of
-// g (weights.Graph.HigherOrder, not cumulative), each with transform t.
+// g (weights.Graph.HigherOrder, not cumulative), each with scaling t.
 // Orders beyond the largest number of steps between two areas have no
 // links; Correlogram rejects them.
-func LagGraphs(g *weights.Graph, k int, t weights.Transform) ([]*weights.Graph, error) {
+func LagGraphs(g *weights.Graph, k int, t weights.Scaling) ([]*weights.Graph, error) {
 	out := make([]*weights.Graph, 0, k)
 	for order := 1; order <= k; order++ {
 		h, err := g.HigherOrder(order, false)
 		if err != nil {
 			return nil, err
 		}
-		if h, err = h.Transformed(t); err != nil {
+		if h, err = h.Scaled(t); err != nil {
 			return nil, err
 		}
 		out = append(out, h)

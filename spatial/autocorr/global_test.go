@@ -74,7 +74,7 @@ func TestGearyMomentsByExactEnumeration(t *testing.T) {
 				t.Fatal(err)
 			}
 			if !near(mean, 1, 1e-12) || !near(variance, m.VarianceRandomisation, 1e-12) {
-				t.Errorf("n=%d %s: enumeration mean %v var %v; moments 1 %v", len(c.x), w.Transform, mean, variance, m.VarianceRandomisation)
+				t.Errorf("n=%d %s: enumeration mean %v var %v; moments 1 %v", len(c.x), w.Scaling, mean, variance, m.VarianceRandomisation)
 			}
 			direct, _ := GearysC(c.x, w)
 			if got := f()(labels); !near(got, direct, 1e-13) {
@@ -111,7 +111,7 @@ func TestGeneralGMomentsByExactEnumeration(t *testing.T) {
 				t.Errorf("E[G] %v, want S0/(n(n−1))", e)
 			}
 			if !near(mean, e, 1e-12) || !near(variance, v, 1e-12) {
-				t.Errorf("n=%d %s: enumeration mean %v var %v; moments %v %v", len(c.x), w.Transform, mean, variance, e, v)
+				t.Errorf("n=%d %s: enumeration mean %v var %v; moments %v %v", len(c.x), w.Scaling, mean, variance, e, v)
 			}
 			direct, _ := GeneralG(c.x, w)
 			if got := f()(labels); !near(got, direct, 1e-13) {
@@ -183,7 +183,7 @@ func TestBivariateMomentsByExactEnumeration(t *testing.T) {
 			t.Fatal(err)
 		}
 		if !near(mean, e, 1e-13) || !near(variance, v, 1e-12) {
-			t.Errorf("%s: enumeration mean %v var %v; moments %v %v", w.Transform, mean, variance, e, v)
+			t.Errorf("%s: enumeration mean %v var %v; moments %v %v", w.Scaling, mean, variance, e, v)
 		}
 		direct, _ := BivariateMoransI(x, y, w)
 		if got := f()(labels); !near(got, direct, 1e-13) {
@@ -255,7 +255,7 @@ func TestNormalityMomentsBySimulation(t *testing.T) {
 			seVar := math.Sqrt((m4 - s2*s2) / N)
 			if math.Abs(m-c.mean) > 5*seMean || math.Abs(s2-c.variance) > 5*seVar {
 				t.Errorf("%s %s: simulated mean %v (se %v) var %v (se %v); normality moments %v %v",
-					c.name, w.Transform, m, seMean, s2, seVar, c.mean, c.variance)
+					c.name, w.Scaling, m, seMean, s2, seVar, c.mean, c.variance)
 			}
 		}
 	}
@@ -288,7 +288,7 @@ func TestKnownPatterns(t *testing.T) {
 			t.Fatal(err)
 		}
 		if c <= 1.5 {
-			t.Errorf("%s: checkerboard C %v, want well above 1", w.Transform, c)
+			t.Errorf("%s: checkerboard C %v, want well above 1", w.Scaling, c)
 		}
 	}
 	grad := make([]float64, 100)
@@ -484,7 +484,7 @@ func TestGiStarAgainstGonum(t *testing.T) {
 		for i := range got {
 			want := gspatial.GetisOrdGStar(i, x, nil, d)
 			if !near(got[i], want, 1e-12) {
-				t.Errorf("%s: Gi*[%d] %v, gonum %v", w.Transform, i, got[i], want)
+				t.Errorf("%s: Gi*[%d] %v, gonum %v", w.Scaling, i, got[i], want)
 			}
 		}
 	}

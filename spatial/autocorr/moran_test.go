@@ -44,7 +44,7 @@ func TestMoranAgainstGonum(t *testing.T) {
 		}
 		gi, gv, _ := gspatial.GlobalMoransI(x, nil, dense(w))
 		if math.Abs(i-gi) > 1e-12 {
-			t.Errorf("%s: I %v, gonum %v", w.Transform, i, gi)
+			t.Errorf("%s: I %v, gonum %v", w.Scaling, i, gi)
 		}
 		n := float64(len(x))
 		s0, s1, s2 := weightSums(w)
@@ -56,10 +56,10 @@ func TestMoranAgainstGonum(t *testing.T) {
 		d := q / (ss * ss) // gonum's kurtosis term, b2/n
 		gonumForm := (n*((n*n-3*n+3)*s1-n*s2+3*s0*s0)-d*((n*n-n)*s1-2*n*s2+6*s0*s0))/((n-1)*(n-2)*(n-3)*s0*s0) - m.Expected*m.Expected
 		if math.Abs(gonumForm-gv) > 1e-12 {
-			t.Errorf("%s: weight sums disagree with gonum: %v vs %v", w.Transform, gonumForm, gv)
+			t.Errorf("%s: weight sums disagree with gonum: %v vs %v", w.Scaling, gonumForm, gv)
 		}
 		if math.Abs(m.VarianceRandomisation-gv) < 1e-9 {
-			t.Errorf("%s: gonum's variance now equals the randomisation variance; tighten this test", w.Transform)
+			t.Errorf("%s: gonum's variance now equals the randomisation variance; tighten this test", w.Scaling)
 		}
 	}
 }
@@ -98,7 +98,7 @@ func TestMomentsByExactEnumeration(t *testing.T) {
 			t.Fatal(err)
 		}
 		if math.Abs(mean-m.Expected) > 1e-12 || math.Abs(variance-m.VarianceRandomisation) > 1e-12 {
-			t.Errorf("%s: enumeration mean %v var %v; moments %v %v", w.Transform, mean, variance, m.Expected, m.VarianceRandomisation)
+			t.Errorf("%s: enumeration mean %v var %v; moments %v %v", w.Scaling, mean, variance, m.Expected, m.VarianceRandomisation)
 		}
 	}
 }

@@ -18,7 +18,7 @@ func Autocorr(in Input, opt Options) (*Result, error) {
 		return nil, errors.New("clustering: the graph does not match the layer")
 	}
 	res := &Result{Seed: opt.Seed, Input: in.File, Areas: n, Warnings: []string{}, Cautions: Cautions}
-	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Transform, in.KeepIslands)
+	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}
@@ -171,7 +171,7 @@ func (v *Variable) generalG(s *sample) error {
 // Orders beyond the widest reach of the graph have no links: it stops
 // there and says so rather than fail.
 func (v *Variable) orderCorrelogram(s *sample, lags int) error {
-	graphs, err := autocorr.LagGraphs(s.r.Binary, lags, weights.Transform(s.r.Summary.Transform))
+	graphs, err := autocorr.LagGraphs(s.r.Binary, lags, weights.Scaling(s.r.Summary.Scaling))
 	if err != nil {
 		return err
 	}
@@ -201,7 +201,7 @@ func (v *Variable) distanceCorrelogram(s *sample, classes []*weights.Graph) erro
 	var usable []*weights.Graph
 	var names []string
 	for _, class := range classes {
-		g, err := class.Subset(s.keep).Subset(s.r.Used).Transformed(weights.Transform(s.r.Summary.Transform))
+		g, err := class.Subset(s.keep).Subset(s.r.Used).Scaled(weights.Scaling(s.r.Summary.Scaling))
 		if err != nil {
 			return err
 		}

@@ -26,13 +26,13 @@ type Categories struct {
 	Missing []bool
 }
 
-// Input is the layer as the statistics see it: ids, the untransformed
+// Input is the layer as the statistics see it: ids, the unscaled
 // neighbour graph of all areas, and the columns asked for.
 type Input struct {
 	File        string
 	IDs         []string
 	Graph       *weights.Graph
-	Transform   weights.Transform
+	Scaling     weights.Scaling
 	KeepIslands bool
 	Numeric     []Column
 	Categorical []Categories
@@ -222,7 +222,7 @@ func pick(v []float64, keep []int, used []int) []float64 {
 var errTooFew = errors.New("fewer than 4 areas with a value have a neighbour among themselves")
 
 func (in *Input) restrict(keep []int) (*weights.Restricted, error) {
-	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Transform, in.KeepIslands)
+	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}

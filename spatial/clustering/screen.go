@@ -78,7 +78,7 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 	res := &ScreenResult{Seed: opt.Seed, Input: in.File, Areas: n, Permutations: opt.Permutations,
 		Adjustment: opt.Adjust.String(), Alternative: opt.Alternative.String(),
 		Rows: []ScreenRow{}, Skipped: []Skipped{}, Warnings: []string{}, Cautions: Cautions}
-	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Transform, in.KeepIslands)
+	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}

@@ -24,11 +24,11 @@ type Input struct {
 	Strata        []string
 	StrataMissing []bool
 	// Graph is the neighbour graph of all areas of the layer, before any
-	// transform.
+	// scaling.
 	Graph *weights.Graph
-	// Transform is applied to the graph among the tested areas before the
+	// Scaling is applied to the graph among the tested areas before the
 	// spatial check; empty means row-standardised.
-	Transform weights.Transform
+	Scaling weights.Scaling
 	// KeepIslands keeps areas without neighbours in the spatial check, with
 	// a spatial lag of zero, instead of leaving them out.
 	KeepIslands bool

@@ -11,12 +11,12 @@ import (
 )
 
 // spatialCheck computes Moran's I of the outcome and of each group
-// indicator on the graph among the tested areas, with the transform asked
+// indicator on the graph among the tested areas, with the scaling asked
 // for. Areas with no neighbour there are left out (their spatial lag is
 // undefined) unless the input keeps them, with a zero lag.
 func (c *comparison) spatialCheck(res *Result) error {
 	in, opt := c.in, c.opt
-	r, err := weights.Restrict(in.Graph, c.keep, in.IDs, in.Transform, in.KeepIslands)
+	r, err := weights.Restrict(in.Graph, c.keep, in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return err
 	}

@@ -20,7 +20,7 @@ func (c *comparison) spectral(res *Result) error {
 	in, opt := c.in, c.opt
 	// Every tested area enters; the basis sets islands apart (their values
 	// are permuted among themselves) unless they are kept.
-	r, err := weights.Restrict(in.Graph, c.keep, in.IDs, in.Transform, true)
+	r, err := weights.Restrict(in.Graph, c.keep, in.IDs, in.Scaling, true)
 	if err != nil {
 		return err
 	}

@@ -39,11 +39,11 @@ type Input struct {
 	AgainstValues  []float64
 	AgainstMissing []bool
 	// Graph is the neighbour graph of all areas of the layer, before any
-	// transform; Analyse cuts it down to the areas with values and applies
-	// Transform (empty: row-standardised). KeepIslands keeps areas without
+	// scaling; Analyse cuts it down to the areas with values and applies
+	// Scaling (empty: row-standardised). KeepIslands keeps areas without
 	// a neighbour among them, with a zero spatial lag.
 	Graph       *weights.Graph
-	Transform   weights.Transform
+	Scaling     weights.Scaling
 	KeepIslands bool
 	// NullOf, when set, is the id of an analysed area whose null
 	// distribution the result keeps (Area.Null), to draw it.
@@ -107,7 +107,7 @@ func (e *NotAnalysedError) Error() string {
 func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 	opt = opt.withDefaults()
 	keep := present(len(in.IDs), in.Missing, in.AgainstMissing)
-	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Transform, in.KeepIslands)
+	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}

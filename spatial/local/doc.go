@@ -13,7 +13,7 @@
 // warnings. The reports render a Result as it is.
 //
 // Below it, Run tests the areas of a graph already restricted to the areas
-// with data and transformed (see weights.Restrict), on plain []float64
+// with data and scaled (see weights.Restrict), on plain []float64
 // columns; Statistic and MoranMoments give the statistics without
 // inference. Standardised values use the mean and the standard deviation
 // with divisor n, the moments of the layer itself rather than estimates of

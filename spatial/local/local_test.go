@@ -140,7 +140,7 @@ func TestStatisticsAgainstFormulas(t *testing.T) {
 			want := direct(k, x, yy, w)
 			for i := range got {
 				if !near(got[i], want[i], 1e-12) {
-					t.Errorf("%s, %s: area %d %v, formula %v", g.Transform, k, i, got[i], want[i])
+					t.Errorf("%s, %s: area %d %v, formula %v", g.Scaling, k, i, got[i], want[i])
 				}
 			}
 		}
@@ -178,10 +178,10 @@ func TestGetisOrdAgainstGonum(t *testing.T) {
 		}
 		for i := 0; i < n; i++ {
 			if want := gspatial.GetisOrdGStar(i, x, nil, d); !near(star[i], want, 1e-12) {
-				t.Errorf("%s: Gi*[%d] %v, gonum %v", g.Transform, i, star[i], want)
+				t.Errorf("%s: Gi*[%d] %v, gonum %v", g.Scaling, i, star[i], want)
 			}
 			if !near(star[i], ours[i], 1e-12) {
-				t.Errorf("%s: Gi*[%d] %v, autocorr %v", g.Transform, i, star[i], ours[i])
+				t.Errorf("%s: Gi*[%d] %v, autocorr %v", g.Scaling, i, star[i], ours[i])
 			}
 			// The layer without area i; i's weights become row 0's.
 			var rest []float64
@@ -195,7 +195,7 @@ func TestGetisOrdAgainstGonum(t *testing.T) {
 				row.Set(0, k, d.At(i, j))
 			}
 			if want := gspatial.GetisOrdGStar(0, rest, nil, row); !near(gi[i], want, 1e-12) {
-				t.Errorf("%s: Gi[%d] %v, gonum on the other areas %v", g.Transform, i, gi[i], want)
+				t.Errorf("%s: Gi[%d] %v, gonum on the other areas %v", g.Scaling, i, gi[i], want)
 			}
 		}
 	}
@@ -223,7 +223,7 @@ func TestLocalMoranSum(t *testing.T) {
 			s0 += v
 		}
 		if !near(sum, s0*I, 1e-12) {
-			t.Errorf("%s: Σ I_i %v, S0·I %v", g.Transform, sum, s0*I)
+			t.Errorf("%s: Σ I_i %v, S0·I %v", g.Scaling, sum, s0*I)
 		}
 	}
 }
@@ -292,7 +292,7 @@ func TestMoranMomentsByEnumeration(t *testing.T) {
 			m := sum[i] / 5040
 			vr := sumSq[i]/5040 - m*m
 			if !near(m, e[i], 1e-12) || !near(vr, v[i], 1e-10) {
-				t.Errorf("%s area %d: enumeration %v %v, Anselin %v %v", g.Transform, i, m, vr, e[i], v[i])
+				t.Errorf("%s area %d: enumeration %v %v, Anselin %v %v", g.Scaling, i, m, vr, e[i], v[i])
 			}
 		}
 	}
@@ -354,10 +354,10 @@ func TestConditionalMomentsExact(t *testing.T) {
 			s2 := (n*m2-z[i]*z[i])/(n-1) - mu*mu
 			vr := (z[i] / m2) * (z[i] / m2) * s2 * (w2 - (wi*wi-w2)/(n-2))
 			if !near(r.Expected, e, 1e-12) || !near(r.SD*r.SD, vr, 1e-10) {
-				t.Errorf("%s area %d: mean %v sd² %v, want %v %v", g.Transform, i, r.Expected, r.SD*r.SD, e, vr)
+				t.Errorf("%s area %d: mean %v sd² %v, want %v %v", g.Scaling, i, r.Expected, r.SD*r.SD, e, vr)
 			}
 			if math.Abs(gi[i].Expected) > 1e-12 || !near(gi[i].SD, 1, 1e-12) {
-				t.Errorf("%s area %d: Gi mean %v sd %v, want 0 and 1", g.Transform, i, gi[i].Expected, gi[i].SD)
+				t.Errorf("%s area %d: Gi mean %v sd %v, want 0 and 1", g.Scaling, i, gi[i].Expected, gi[i].SD)
 			}
 		}
 	}
@@ -410,7 +410,7 @@ func TestMonteCarloCoversExact(t *testing.T) {
 					lo, hi := shuffle.ClopperPearson(c, 2999, 0.999)
 					if pe < lo-1e-12 || pe > hi+1e-12 {
 						t.Errorf("%s %s %s area %d: exact %v outside 99.9%% [%v, %v] of Monte Carlo %v",
-							g.Transform, k, alt.String(), i, pe, lo, hi, mc[i].P)
+							g.Scaling, k, alt.String(), i, pe, lo, hi, mc[i].P)
 					}
 					lo, hi = shuffle.ClopperPearson(c, 2999, 0.95)
 					if pe < lo-1e-12 || pe > hi+1e-12 {

@@ -170,7 +170,7 @@ type Info struct {
 }
 
 // NewBasis finds the eigenvectors of M W* M for the graph g (with the
-// transform the statistics use, e.g. row-standardised). Areas with no link
+// scaling the statistics use, e.g. row-standardised). Areas with no link
 // in either direction are islands, set apart unless opt.KeepIslands.
 func NewBasis(g *weights.Graph, opt Options) (*Basis, error) {
 	if g == nil || g.Len() < 3 {

@@ -9,11 +9,11 @@ import (
 
 func TestTransforms(t *testing.T) {
 	g, _ := ContiguityGraph(lattice(4), Queen)
-	b, err := g.Transformed(Binary)
+	b, err := g.Scaled(Binary)
 	if err != nil || b.Weights[0] != 1 {
 		t.Fatal(err)
 	}
-	v, err := g.Transformed(VarianceStabilising)
+	v, err := g.Scaled(VarianceStabilising)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -162,8 +162,8 @@ func TestEdgeListRoundTrip(t *testing.T) {
 	}
 	var bin bytes.Buffer
 	WriteEdgeList(&bin, g, ids)
-	if b, _ := ReadEdgeList(&bin, "edges.csv", ids); b.Transform != "binary" {
-		t.Fatalf("binary file read as %q", b.Transform)
+	if b, _ := ReadEdgeList(&bin, "edges.csv", ids); b.Scaling != "binary" {
+		t.Fatalf("binary file read as %q", b.Scaling)
 	}
 }
 
@@ -191,5 +191,40 @@ func TestEdgeListErrors(t *testing.T) {
 	g, err := ReadEdgeList(strings.NewReader("\ufeffweight,to,from\n2,b,a\n\n0.5,a,b\n"), "edges.csv", ids)
 	if err != nil || g.Links() != 2 || weightOf(g, 0, 1) != 2 || g.Degree(2) != 0 {
 		t.Fatalf("reordered columns: %v", err)
+	}
+}
+
+// "As built" leaves a weighted graph's weights alone, where Binary sets
+// them to one: the difference between --scaling none and the former
+// --transform binary on kernel weights. On a contiguity graph, whose
+// weights are ones, the two agree.
+func TestAsBuilt(t *testing.T) {
+	g, err := FromEntries(3, []Link{{0, 1, 0.5}, {1, 0, 0.5}, {1, 2, 2}, {2, 1, 2}}, "test", "weighted")
+	if err != nil {
+		t.Fatal(err)
+	}
+	kept, err := g.Scaled(AsBuilt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ones, _ := g.Scaled(Binary)
+	for k := range g.Weights {
+		if kept.Weights[k] != g.Weights[k] || ones.Weights[k] != 1 {
+			t.Fatalf("link %d: as built %v, binary %v (built %v)", k, kept.Weights[k], ones.Weights[k], g.Weights[k])
+		}
+	}
+	if kept.Scaling != "weighted" || &kept.Weights[0] == &g.Weights[0] {
+		t.Errorf("as built: label %q, or the weights are not a copy", kept.Scaling)
+	}
+	lat := Lattice(3, 3, Rook)
+	a, _ := lat.Scaled(AsBuilt)
+	b, _ := lat.Scaled(Binary)
+	if a.Scaling != b.Scaling || len(a.Weights) != len(b.Weights) {
+		t.Fatalf("contiguity: as built %q, binary %q", a.Scaling, b.Scaling)
+	}
+	for k := range a.Weights {
+		if a.Weights[k] != b.Weights[k] {
+			t.Fatalf("contiguity link %d: %v and %v", k, a.Weights[k], b.Weights[k])
+		}
 	}
 }

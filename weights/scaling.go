@@ -7,35 +7,41 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 )
 
-// Transform names a re-weighting of a graph's links.
-type Transform string
+// Scaling names how the statistics weigh a graph's links: as built, or
+// re-weighted so that areas with many or few neighbours count alike.
+type Scaling string
 
 const (
 	// RowStandardised scales each row to sum to one, so an area's spatial lag
 	// is the weighted mean of its neighbours. The default for statistics.
-	RowStandardised Transform = "row-standardised"
+	RowStandardised Scaling = "row-standardised"
 	// Binary sets every link to one.
-	Binary Transform = "binary"
+	Binary Scaling = "binary"
 	// VarianceStabilising scales each row to the same sum of squared
 	// weights, then all weights so they sum to n (the S-coding of
 	// Tiefelsdorf, Griffith & Boots 1999, Environ. Plan. A 31:165–180). It
 	// sits between binary weights, which favour areas with many neighbours,
 	// and row-standardised ones, which favour areas with few.
-	VarianceStabilising Transform = "variance-stabilising"
+	VarianceStabilising Scaling = "variance-stabilising"
+	// AsBuilt keeps the weights the graph was built or read with: ones for
+	// contiguity, nearest neighbours and distance bands, the kernel or
+	// inverse-distance values, an edge list's own weights.
+	AsBuilt Scaling = "as built"
 )
 
-// The names of the transforms: ParseTransform's former ones, the full names
-// (the Transform values) it reads without listing them, and ParseScaling's.
+// The names of the scalings: ParseScaling's, and those of the former
+// option --transform that ParseTransform reads, with the full names it
+// reads without listing them.
 var (
-	transformNames = []choice.Name[Transform]{{Name: "row", Value: RowStandardised}, {Name: "binary", Value: Binary}, {Name: "variance", Value: VarianceStabilising}}
-	transformFull  = []choice.Name[Transform]{{Name: string(RowStandardised), Value: RowStandardised}, {Name: string(VarianceStabilising), Value: VarianceStabilising}}
-	scalingNames   = []choice.Name[Transform]{{Name: "row", Value: RowStandardised}, {Name: "none", Value: Binary}, {Name: "stabilised", Value: VarianceStabilising}}
+	transformNames = []choice.Name[Scaling]{{Name: "row", Value: RowStandardised}, {Name: "binary", Value: Binary}, {Name: "variance", Value: VarianceStabilising}}
+	transformFull  = []choice.Name[Scaling]{{Name: string(RowStandardised), Value: RowStandardised}, {Name: string(VarianceStabilising), Value: VarianceStabilising}}
+	scalingNames   = []choice.Name[Scaling]{{Name: "row", Value: RowStandardised}, {Name: "none", Value: AsBuilt}, {Name: "stabilised", Value: VarianceStabilising}}
 )
 
-// ParseTransform reads the former names "row", "binary" or "variance", or
-// a transform's full name such as "row-standardised" (any case). New
-// callers read ParseScaling's names.
-func ParseTransform(s string) (Transform, error) {
+// ParseTransform reads the names of the former option --transform: "row",
+// "binary" (every link weight one) or "variance", or a full name such as
+// "row-standardised" (any case). New callers read ParseScaling's names.
+func ParseTransform(s string) (Scaling, error) {
 	t, err := choice.Parse("transform", s, transformNames...)
 	if err != nil {
 		if full, errFull := choice.Parse("transform", s, transformFull...); errFull == nil {
@@ -46,17 +52,19 @@ func ParseTransform(s string) (Transform, error) {
 }
 
 // ParseScaling reads the scaling of the weights (any case): "row" for
-// RowStandardised, "none" for Binary (every link weight one, the weights as
-// contiguity, nearest neighbours and distance bands build them) and
+// RowStandardised, "none" for AsBuilt (the weights as built: every link
+// weight one for contiguity, nearest neighbours and distance bands) and
 // "stabilised" for VarianceStabilising.
-func ParseScaling(s string) (Transform, error) {
+func ParseScaling(s string) (Scaling, error) {
 	return choice.Parse("scaling", s, scalingNames...)
 }
 
-// Transformed returns a copy of g with the transform applied. Islands keep
-// empty rows.
-func (g *Graph) Transformed(t Transform) (*Graph, error) {
+// Scaled returns a copy of g with the scaling applied. Islands keep empty
+// rows.
+func (g *Graph) Scaled(t Scaling) (*Graph, error) {
 	switch t {
+	case AsBuilt:
+		return g.withWeights(g.Scaling), nil
 	case RowStandardised:
 		return g.RowStandardised(), nil
 	case Binary:
@@ -89,13 +97,13 @@ func (g *Graph) Transformed(t Transform) (*Graph, error) {
 		}
 		return h, nil
 	}
-	return nil, fmt.Errorf("weights: unknown transform %q", t)
+	return nil, fmt.Errorf("weights: unknown scaling %q", t)
 }
 
 // withWeights copies g's structure with a fresh weight slice.
-func (g *Graph) withWeights(transform string) *Graph {
+func (g *Graph) withWeights(scaling string) *Graph {
 	h := *g
-	h.Transform = transform
+	h.Scaling = scaling
 	h.Weights = append([]float64(nil), g.Weights...)
 	return &h
 }
@@ -105,7 +113,7 @@ func (g *Graph) withWeights(transform string) *Graph {
 // (W + Wᵀ)/2, where a missing entry counts as zero.
 func (g *Graph) Symmetrised() *Graph {
 	n := g.Len()
-	binary := g.Transform == string(Binary)
+	binary := g.Scaling == string(Binary)
 	var links []Link
 	for i := 0; i < n; i++ {
 		nb, w := g.Row(i)
@@ -121,7 +129,7 @@ func (g *Graph) Symmetrised() *Graph {
 			}
 		}
 	}
-	h, err := FromEntries(n, links, g.Kind+" (symmetrised)", g.Transform)
+	h, err := FromEntries(n, links, g.Kind+" (symmetrised)", g.Scaling)
 	if err != nil { // cannot happen: every pair is added once per direction
 		panic(err)
 	}
