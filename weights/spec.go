@@ -175,9 +175,42 @@ type Restricted struct {
 	// Used[k] is the index, among the areas passed to Restrict, of area k
 	// of Graph.
 	Used []int
+	// Areas[k] is the index in the whole graph (the layer) of area k of
+	// Graph: keep[Used[k]].
+	Areas []int
 	// Summary describes the graph among all the areas passed (islands
 	// included), with the scaling the statistic uses.
 	Summary Summary
+}
+
+// Present lists the areas 0..n−1 where none of the masks is set (a nil
+// mask sets none): the areas with every value a statistic needs, to pass to
+// Restrict.
+func Present(n int, masks ...[]bool) []int {
+	var keep []int
+outer:
+	for i := range n {
+		for _, m := range masks {
+			if m != nil && m[i] {
+				continue outer
+			}
+		}
+		keep = append(keep, i)
+	}
+	return keep
+}
+
+// Pick returns the values of v, a column of the whole layer, at the areas
+// of Graph, in its order; nil for a nil column.
+func (r *Restricted) Pick(v []float64) []float64 {
+	if v == nil {
+		return nil
+	}
+	out := make([]float64, len(r.Areas))
+	for k, i := range r.Areas {
+		out[k] = v[i]
+	}
+	return out
 }
 
 // Restrict cuts g down to the areas keep (indices into g), as every
@@ -199,6 +232,7 @@ func Restrict(g *Graph, keep []int, ids []string, t Scaling, keepIslands bool) (
 	for k := 0; k < sub.Len(); k++ {
 		if sub.Degree(k) > 0 || keepIslands {
 			r.Used = append(r.Used, k)
+			r.Areas = append(r.Areas, keep[k])
 		}
 	}
 	r.Binary = sub.Subset(r.Used)

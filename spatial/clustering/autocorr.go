@@ -18,7 +18,7 @@ func Autocorr(in Input, opt Options) (*Result, error) {
 		return nil, errors.New("clustering: the graph does not match the layer")
 	}
 	res := &Result{Seed: opt.Seed, Input: in.File, Areas: n, Warnings: []string{}, Cautions: Cautions}
-	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Scaling, in.KeepIslands)
+	all, err := weights.Restrict(in.Graph, weights.Present(n), in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}
@@ -58,7 +58,7 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	if in.Against != nil {
 		masks = append(masks, in.Against.Missing)
 	}
-	keep := present(len(in.IDs), masks...)
+	keep := weights.Present(len(in.IDs), masks...)
 	v := Variable{Name: col.Name, Missing: len(in.IDs) - len(keep)}
 	r, err := in.restrict(keep)
 	if err != nil {
@@ -69,8 +69,8 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 		v.Weights = &summary
 	}
 	v.Areas, v.Islands = len(r.Used), len(keep)-len(r.Used)
-	x := pick(col.Values, keep, r.Used)
-	sm := &sample{x: x, ids: in.IDs, keep: keep, r: r, opt: opt, purpose: purpose, res: res}
+	x := r.Pick(col.Values)
+	sm := &sample{x: x, ids: in.IDs, r: r, opt: opt, purpose: purpose, res: res}
 	if err := v.global(sm); err != nil {
 		return v, named(err, col.Name)
 	}
@@ -78,7 +78,7 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 		return v, named(err, col.Name)
 	}
 	if in.Against != nil && in.Against.Name != col.Name {
-		y := pick(in.Against.Values, keep, r.Used)
+		y := r.Pick(in.Against.Values)
 		b, err := autocorr.RunBivariate(x, y, r.Graph, plan(opt, purpose+3, opt.Alternative))
 		if err != nil {
 			return v, named(err, col.Name+" against "+in.Against.Name)
@@ -104,19 +104,18 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 // its tests share.
 type sample struct {
 	// x holds the values of the used areas: x[k] is area
-	// ids[keep[r.Used[k]]].
-	x    []float64
-	ids  []string
-	keep []int
-	r    *weights.Restricted
-	opt  Options
+	// ids[r.Areas[k]].
+	x   []float64
+	ids []string
+	r   *weights.Restricted
+	opt Options
 	// purpose is the first of the column's shuffle streams.
 	purpose uint64
 	// res collects the warnings.
 	res *Result
 }
 
-func (s *sample) id(k int) string { return s.ids[s.keep[s.r.Used[k]]] }
+func (s *sample) id(k int) string { return s.ids[s.r.Areas[k]] }
 
 // global sets Moran's I with its bounds and Geary's C.
 func (v *Variable) global(s *sample) error {
@@ -201,7 +200,7 @@ func (v *Variable) distanceCorrelogram(s *sample, classes []*weights.Graph) erro
 	var usable []*weights.Graph
 	var names []string
 	for _, class := range classes {
-		g, err := class.Subset(s.keep).Subset(s.r.Used).Scaled(weights.Scaling(s.r.Summary.Scaling))
+		g, err := class.Subset(s.r.Areas).Scaled(weights.Scaling(s.r.Summary.Scaling))
 		if err != nil {
 			return err
 		}
@@ -224,7 +223,7 @@ func (v *Variable) distanceCorrelogram(s *sample, classes []*weights.Graph) erro
 }
 
 func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, error) {
-	keep := present(len(in.IDs), cat.Missing)
+	keep := weights.Present(len(in.IDs), cat.Missing)
 	j := Joins{Name: cat.Name, Missing: len(in.IDs) - len(keep)}
 	r, err := in.restrict(keep)
 	if err != nil {
@@ -232,8 +231,8 @@ func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, erro
 	}
 	j.Areas = len(r.Used)
 	seen := map[string]bool{}
-	for _, u := range r.Used {
-		seen[cat.Labels[keep[u]]] = true
+	for _, i := range r.Areas {
+		seen[cat.Labels[i]] = true
 	}
 	for l := range seen {
 		j.Levels = append(j.Levels, l)
@@ -247,8 +246,8 @@ func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, erro
 		code[l] = int32(k)
 	}
 	codes := make([]int32, len(r.Used))
-	for k, u := range r.Used {
-		codes[k] = code[cat.Labels[keep[u]]]
+	for k, i := range r.Areas {
+		codes[k] = code[cat.Labels[i]]
 	}
 	// Joins count linked pairs, so the binary graph is the right one.
 	if j.Test, err = autocorr.RunJoins(codes, r.Binary, plan(opt, purpose, opt.Alternative)); err != nil {
@@ -258,7 +257,7 @@ func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, erro
 }
 
 func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
-	keep := present(len(in.IDs), in.Events.Missing, in.Population.Missing)
+	keep := weights.Present(len(in.IDs), in.Events.Missing, in.Population.Missing)
 	rt := &Rate{Events: in.Events.Name, Population: in.Population.Name, Missing: len(in.IDs) - len(keep),
 		Floored: []string{}, AboveOne: []string{}}
 	name := in.Events.Name + "/" + in.Population.Name
@@ -271,11 +270,11 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 		rt.Weights = &s
 	}
 	rt.Areas = len(r.Used)
-	ev := pick(in.Events.Values, keep, r.Used)
-	pop := pick(in.Population.Values, keep, r.Used)
+	ev := r.Pick(in.Events.Values)
+	pop := r.Pick(in.Population.Values)
 	// Check here, where areas can be named by id.
-	for k, u := range r.Used {
-		id := in.IDs[keep[u]]
+	for k, i := range r.Areas {
+		id := in.IDs[i]
 		switch {
 		case !(pop[k] > 0):
 			return nil, fmt.Errorf("area %q: %s is %v; a rate needs a population above zero", id, in.Population.Name, pop[k])
@@ -300,10 +299,10 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 	rt.EB = fromMoran(eb.Moran, alt)
 	rt.MeanRate = eb.Mean
 	for _, k := range eb.Floored {
-		rt.Floored = append(rt.Floored, in.IDs[keep[r.Used[k]]])
+		rt.Floored = append(rt.Floored, in.IDs[r.Areas[k]])
 	}
 	for _, k := range eb.AboveOne {
-		rt.AboveOne = append(rt.AboveOne, in.IDs[keep[r.Used[k]]])
+		rt.AboveOne = append(rt.AboveOne, in.IDs[r.Areas[k]])
 	}
 	rt.Smallest, rt.Largest = pop[0], pop[0]
 	for _, p := range pop {

@@ -195,29 +195,6 @@ func flip(a shuffle.Alternative) shuffle.Alternative {
 	return a
 }
 
-// present lists the areas where every given mask is false.
-func present(n int, masks ...[]bool) []int {
-	var keep []int
-outer:
-	for i := 0; i < n; i++ {
-		for _, m := range masks {
-			if m != nil && m[i] {
-				continue outer
-			}
-		}
-		keep = append(keep, i)
-	}
-	return keep
-}
-
-func pick(v []float64, keep []int, used []int) []float64 {
-	out := make([]float64, len(used))
-	for k, u := range used {
-		out[k] = v[keep[u]]
-	}
-	return out
-}
-
 // errTooFew is returned when too few areas with data have neighbours.
 var errTooFew = errors.New("fewer than 4 areas with a value have a neighbour among themselves")
 

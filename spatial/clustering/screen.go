@@ -78,7 +78,7 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 	res := &ScreenResult{Seed: opt.Seed, Input: in.File, Areas: n, Permutations: opt.Permutations,
 		Adjustment: opt.Adjust.String(), Alternative: opt.Alternative.String(),
 		Rows: []ScreenRow{}, Skipped: []Skipped{}, Warnings: []string{}, Cautions: Cautions}
-	all, err := weights.Restrict(in.Graph, present(n), in.IDs, in.Scaling, in.KeepIslands)
+	all, err := weights.Restrict(in.Graph, weights.Present(n), in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
 	}
@@ -130,7 +130,7 @@ func (res *ScreenResult) groups(in ScreenInput, excluded map[string]bool) []*col
 		key := patternKey(col.Missing)
 		g, ok := byPattern[key]
 		if !ok {
-			g = &columnGroup{keep: present(len(in.IDs), col.Missing)}
+			g = &columnGroup{keep: weights.Present(len(in.IDs), col.Missing)}
 			byPattern[key] = g
 			order = append(order, g)
 		}
@@ -154,7 +154,7 @@ func (res *ScreenResult) screenGroup(in *Input, g *columnGroup, opt Options, pur
 	var xs [][]float64
 	var cols []Column
 	for _, c := range g.cols {
-		x := pick(c.Values, g.keep, r.Used)
+		x := r.Pick(c.Values)
 		if isConstant(x) {
 			res.Skipped = append(res.Skipped, Skipped{c.Name, "constant on the areas with a value"})
 			continue

@@ -106,7 +106,7 @@ func (e *NotAnalysedError) Error() string {
 // in.NullOf.
 func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 	opt = opt.withDefaults()
-	keep := present(len(in.IDs), in.Missing, in.AgainstMissing)
+	keep := weights.Present(len(in.IDs), in.Missing, in.AgainstMissing)
 	r, err := weights.Restrict(in.Graph, keep, in.IDs, in.Scaling, in.KeepIslands)
 	if err != nil {
 		return nil, err
@@ -114,20 +114,20 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 	if len(r.Used) < 3 || r.Graph.Links() == 0 {
 		return nil, fmt.Errorf("%s: only %d areas with a value of %s have a neighbour among themselves; a local analysis needs more", in.File, len(r.Used), in.Variable)
 	}
-	x, y := pick(in.Values, keep, r.Used), pick(in.AgainstValues, keep, r.Used)
+	x, y := r.Pick(in.Values), r.Pick(in.AgainstValues)
 	opt.KeepNull = nil
 	nullArea := -1
 	if in.NullOf != "" {
 		k := -1
-		for j, u := range r.Used {
-			if in.IDs[keep[u]] == in.NullOf {
+		for j, i := range r.Areas {
+			if in.IDs[i] == in.NullOf {
 				k = j
 			}
 		}
 		if k < 0 {
 			return nil, &NotAnalysedError{File: in.File, ID: in.NullOf, Variable: in.Variable}
 		}
-		opt.KeepNull, nullArea = []int{k}, keep[r.Used[k]]
+		opt.KeepNull, nullArea = []int{k}, r.Areas[k]
 	}
 	results, err := Run(kind, x, y, r.Graph, opt)
 	if err != nil {
@@ -144,7 +144,7 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 			res.AdjustedSignificant++
 		}
 	}
-	res.place(in, keep, r.Used, results)
+	res.place(in, keep, r.Areas, results)
 	res.countCategories()
 	res.warn(len(in.IDs)-len(keep), len(keep)-len(r.Used), opt)
 	return res, nil
@@ -153,7 +153,7 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 // place puts every area of the layer into res.Areas: the analysed ones
 // with their results (Index mapped back to the layer row), the others with
 // the category that says why they were left out.
-func (res *Result) place(in Input, keep, used []int, results []AreaResult) {
+func (res *Result) place(in Input, keep, areas []int, results []AreaResult) {
 	res.Areas = make([]Area, len(in.IDs))
 	for i := range res.Areas {
 		res.Areas[i] = Area{ID: in.IDs[i], AreaResult: AreaResult{Index: i, Category: NoData}}
@@ -165,7 +165,7 @@ func (res *Result) place(in Input, keep, used []int, results []AreaResult) {
 		res.Areas[k].Category = NoNeighbours
 	}
 	for k, a := range results {
-		i := keep[used[k]]
+		i := areas[k]
 		a.Index = i
 		res.Areas[i] = Area{ID: in.IDs[i], Value: &in.Values[i], AreaResult: a, Analysed: true}
 	}
@@ -243,32 +243,4 @@ func CategoryIndex(kind Kind, category string) int {
 		}
 	}
 	return -1
-}
-
-// present lists the areas where no given mask is set; a nil mask sets
-// none.
-func present(n int, masks ...[]bool) []int {
-	var keep []int
-outer:
-	for i := 0; i < n; i++ {
-		for _, m := range masks {
-			if m != nil && m[i] {
-				continue outer
-			}
-		}
-		keep = append(keep, i)
-	}
-	return keep
-}
-
-// pick returns the values of the used areas, nil for a nil column.
-func pick(v []float64, keep, used []int) []float64 {
-	if v == nil {
-		return nil
-	}
-	out := make([]float64, len(used))
-	for k, u := range used {
-		out[k] = v[keep[u]]
-	}
-	return out
 }
