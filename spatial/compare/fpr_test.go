@@ -1,14 +1,14 @@
 package compare
 
 import (
-	"reflect"
-	"testing"
-
 	"math/rand/v2"
+	"reflect"
 	"sort"
+	"testing"
 
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/surrogate"
+	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -27,10 +27,10 @@ func TestFalsePositivesOfTheFreeShuffle(t *testing.T) {
 		t.Fatal(err)
 	}
 	rng := rand.New(rand.NewPCG(31, 0))
-	yClustered := autoregressive(g, 0.8, rng)
-	labClustered := aboveMedian(autoregressive(g, 0.8, rng))
-	yIID := autoregressive(g, 0, rng)
-	labIID := aboveMedian(autoregressive(g, 0, rng))
+	yClustered := autoregressive(t, g, 0.8, rng)
+	labClustered := aboveMedian(autoregressive(t, g, 0.8, rng))
+	yIID := autoregressive(t, g, 0, rng)
+	labIID := aboveMedian(autoregressive(t, g, 0, rng))
 	opt := FPROptions{Surrogates: 200, Permutations: 199, Seed: 5, Purpose: 4}
 	run := func(y []float64, lab []int32, workers int) FalsePositiveRate {
 		o, err := b.Prepare(y)
@@ -72,29 +72,14 @@ func TestFalsePositivesOfTheFreeShuffle(t *testing.T) {
 	}
 }
 
-// autoregressive draws a simultaneous autoregressive field y = ρWy + ε, ε
-// standard normal, by iterating y ← ρWy + ε (a contraction for a
-// row-standardised W and |ρ| < 1) until it stands still.
-func autoregressive(g *weights.Graph, rho float64, rng *rand.Rand) []float64 {
-	n := g.Len()
-	eps := make([]float64, n)
+// autoregressive draws a field (I − ρW)⁻¹ε on g, ε standard normal from
+// rng.
+func autoregressive(t *testing.T, g *weights.Graph, rho float64, rng *rand.Rand) []float64 {
+	eps := make([]float64, g.Len())
 	for i := range eps {
 		eps[i] = rng.NormFloat64()
 	}
-	y := append([]float64(nil), eps...)
-	next := make([]float64, n)
-	for range 400 {
-		for i := range next {
-			nb, w := g.Row(i)
-			var lag float64
-			for k, j := range nb {
-				lag += w[k] * y[j]
-			}
-			next[i] = rho*lag + eps[i]
-		}
-		y, next = next, y
-	}
-	return y
+	return testkit.NewSAR(testkit.Dense(g.Offsets, g.Neighbours, g.Weights), rho).Field(t, eps)
 }
 
 // aboveMedian puts the areas at or above the median of x in group 0 (A).
