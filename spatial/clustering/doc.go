@@ -19,4 +19,10 @@
 // cut down to them (weights.Restrict). The results state facts only: a
 // caller that offers settings words its own advice from them (for example
 // Result.IslandsLeftOut).
+//
+// Checks: the statistics themselves are checked in spatial/autocorr (and,
+// on US Census state boundaries, in tests/autocorr_states_test.go); the
+// tests here check how columns, missing values and rates are handled. The
+// adjustment across columns is shuffle.Adjust, checked against statsmodels
+// in tests/autocorr_multitest_test.go.
 package clustering

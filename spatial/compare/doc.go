@@ -34,4 +34,11 @@
 // Each stage draws its random numbers from a stream of its own (the
 // stream constants in run.go), so that a seeded result does not depend on
 // which other stages ran nor on the number of workers.
+//
+// Checks: the schemes are checked in spatial/shuffle, spatial/groups,
+// spatial/surrogate and spatial/effective against exact enumeration and
+// stored scipy values; the tests here check the pieces put together — level
+// order and contrasts, exclusions, strata, islands, covariates, and that
+// the free shuffle's measured false-positive rate is high exactly when both
+// outcome and grouping cluster (fpr_test.go).
 package compare

@@ -9,4 +9,8 @@
 // allocates nothing. Data.OnOutcomes turns the roles round for the
 // surrogate nulls, where the labels stay and the outcome changes.
 // Data.Summaries and Data.Observed give what a report shows.
+//
+// Checks: tests/scipy_test.go compares every statistic and its exact
+// permutation p-values with values stored from scipy (tests/testdata/scipy,
+// with the script that made them).
 package groups

@@ -24,4 +24,10 @@
 // every area a category in plain words from the signs of its value and of
 // its neighbours' and from its p-value at the level alpha. Categories
 // lists them in report and legend order, Legend gives their legend lines.
+//
+// Checks: the tests here compare each statistic with its formula and with
+// gonum's stat/spatial (Getis–Ord), the conditional moments with exact
+// enumeration, and the false flags on simulated layers without pattern
+// (null_test.go); tests/local_states_test.go checks the statistics on US
+// Census state boundaries against values stored from numpy.
 package local

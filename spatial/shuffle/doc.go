@@ -28,5 +28,8 @@
 // adjustments on small cases worked by hand from their published
 // definitions; tests/scipy_test.go compares exact and Monte Carlo p-values
 // with values stored from scipy (tests/testdata/scipy, with the scripts
-// that made them) and runs Fisher's tea tasting (p = 1/70).
+// that made them) and runs Fisher's tea tasting (p = 1/70);
+// tests/autocorr_multitest_test.go compares Adjust with statsmodels'
+// multipletests, and tests/effective_refs_test.go the Freedman–Lane
+// statistic with statsmodels' partial F.
 package shuffle
