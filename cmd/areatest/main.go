@@ -1,9 +1,3 @@
-// Command areatest tests spatial association on area-level data: whether an
-// outcome differs between groups of areas beyond chance, with p-values that
-// stay honest when neighbouring areas resemble each other.
-//
-// This package only parses flags and wires the library together; it holds no
-// statistics and no geometry.
 package main
 
 import (
