@@ -18,7 +18,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	var against, events, population string
 	var lags int
 	var lagWidth float64
-	fs := newFlags("autocorr", help("autocorr"), stderr)
+	fs := newFlags("autocorr", stderr)
 	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
 	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
 	fs.StringVar(&events, "events", "", "column of event counts: test the rate events/population")
@@ -83,7 +83,7 @@ func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string,
 		case col.Kind == layer.Number:
 			in.Numeric = append(in.Numeric, clusterColumn(col))
 		default:
-			in.Categorical = append(in.Categorical, clustering.Categories{Name: v, Labels: labels(col), Missing: col.Missing})
+			in.Categorical = append(in.Categorical, clustering.Categories{Name: v, Labels: col.Labels(), Missing: col.Missing})
 		}
 	}
 	for _, n := range []struct {
@@ -93,7 +93,7 @@ func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string,
 		if n.name == "" {
 			continue
 		}
-		col, err := numericColumn(lay, n.name, n.role)
+		col, err := lay.NumericColumn(n.name, n.role)
 		if err != nil {
 			return err
 		}

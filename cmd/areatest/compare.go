@@ -76,7 +76,7 @@ func (c *compareFlags) check() error {
 
 func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c compareFlags
-	fs := newFlags("compare", help("compare"), stderr)
+	fs := newFlags("compare", stderr)
 	c.register(fs, true)
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -134,7 +134,7 @@ func (c *compareFlags) compare(stderr io.Writer) (*compare.Result, error) {
 // the layer.
 func (c *compareFlags) columns() (compare.Input, error) {
 	lay := c.lay
-	outcome, err := numericColumn(lay, c.outcome, "the outcome")
+	outcome, err := lay.NumericColumn(c.outcome, "the outcome")
 	if err != nil {
 		return compare.Input{}, err
 	}
@@ -146,12 +146,12 @@ func (c *compareFlags) columns() (compare.Input, error) {
 		return compare.Input{}, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
 	}
 	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
-		GroupName: c.group, Group: labels(group), GroupMissing: group.Missing}
+		GroupName: c.group, Group: group.Labels(), GroupMissing: group.Missing}
 	for _, name := range c.covariates {
 		if name == c.outcome || name == c.group {
 			return in, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
 		}
-		cov, err := numericColumn(lay, name, "a covariate")
+		cov, err := lay.NumericColumn(name, "a covariate")
 		if err != nil {
 			return in, err
 		}
@@ -162,7 +162,7 @@ func (c *compareFlags) columns() (compare.Input, error) {
 		if err != nil {
 			return in, err
 		}
-		in.StrataName, in.Strata, in.StrataMissing = c.strata, labels(strata), strata.Missing
+		in.StrataName, in.Strata, in.StrataMissing = c.strata, strata.Labels(), strata.Missing
 	}
 	return in, nil
 }

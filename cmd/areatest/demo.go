@@ -11,10 +11,10 @@ import (
 	"github.com/areatest/areatest/samples"
 )
 
-func runDemo(args []string, stdout, stderr io.Writer) error {
+func runDemo(args []string, _ io.Reader, stdout, stderr io.Writer) error {
 	var c compareFlags
 	var dir string
-	fs := newFlags("demo", help("demo"), stderr)
+	fs := newFlags("demo", stderr)
 	c.register(fs, false)
 	fs.StringVar(&dir, "write", "", "write the sample layer into this directory and stop")
 	if err := parseFlags(fs, args); err != nil {

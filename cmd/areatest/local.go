@@ -99,7 +99,7 @@ func (c *localFlags) check() (err error) {
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c localFlags
-	fs := newFlags("local", help("local"), stderr)
+	fs := newFlags("local", stderr)
 	c.register(fs)
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -141,13 +141,13 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 func (c *localFlags) input() (local.Input, error) {
 	in := local.Input{File: c.lay.Source, IDs: c.lay.IDs, Variable: c.variable, Against: c.against,
 		Graph: c.graph, Scaling: c.scaling, KeepIslands: c.keepIslands, NullOf: c.area}
-	col, err := numericColumn(c.lay, c.variable, "the variable")
+	col, err := c.lay.NumericColumn(c.variable, "the variable")
 	if err != nil {
 		return in, err
 	}
 	in.Values, in.Missing = col.Num, col.Missing
 	if c.against != "" {
-		if col, err = numericColumn(c.lay, c.against, "the --against column"); err != nil {
+		if col, err = c.lay.NumericColumn(c.against, "the --against column"); err != nil {
 			return in, err
 		}
 		in.AgainstValues, in.AgainstMissing = col.Num, col.Missing

@@ -15,7 +15,7 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var exclude []string
 	var adjust string
-	fs := newFlags("screen", help("screen"), stderr)
+	fs := newFlags("screen", stderr)
 	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
 	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
 	c.register(fs, "text", "json", "csv")

@@ -11,7 +11,7 @@ import (
 func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var write string
-	fs := newFlags("weights", help("weights"), stderr)
+	fs := newFlags("weights", stderr)
 	c.registerInput(fs)
 	c.weights.register(fs)
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")

@@ -112,6 +112,31 @@ func (l *Layer) Column(name string) (*Column, error) {
 	return nil, fmt.Errorf("%s: no column %q (columns: %s)", l.Source, name, joinOrNone(names))
 }
 
+// NumericColumn returns the named column, which must hold numbers; role
+// says what the caller needs it for ("the outcome", "a covariate"), for the
+// error that names the first value that is not a number and its area.
+func (l *Layer) NumericColumn(name, role string) (*Column, error) {
+	col, err := l.Column(name)
+	if err != nil || col.Kind == Number {
+		return col, err
+	}
+	for i, m := range col.Missing {
+		if !m {
+			return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %q); %s must be a number", l.Source, name, col.Label(i), l.IDs[i], role)
+		}
+	}
+	return nil, fmt.Errorf("%s: column %q is not numeric; %s must be a number", l.Source, name, role)
+}
+
+// Labels returns every area's value as text (Label), "" where missing.
+func (c *Column) Labels() []string {
+	out := make([]string, len(c.Missing))
+	for i := range out {
+		out[i] = c.Label(i)
+	}
+	return out
+}
+
 func joinOrNone(names []string) string {
 	if len(names) == 0 {
 		return "none"

@@ -1,0 +1,150 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"runtime"
+
+	"github.com/spf13/pflag"
+
+	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/output"
+	"github.com/areatest/areatest/spatial/shuffle"
+	"github.com/areatest/areatest/weights"
+)
+
+// sharedFlags are the settings autocorr, screen and local share, and what
+// prepare makes of them.
+type sharedFlags struct {
+	input, id, alternative, format, output string
+	skipBadGeometry                        bool
+	permutations, workers                  int
+	seed                                   uint64
+	weights                                weightFlags
+	formats                                []choice.Name[string]
+	// Set by prepare: the layer, the neighbour graph of all its areas and
+	// how the statistics use it.
+	lay         *layer.Layer
+	graph       *weights.Graph
+	spec        weights.Spec
+	scaling     weights.Scaling
+	keepIslands bool
+	alt         shuffle.Alternative
+}
+
+// register adds the shared flags to fs; the first of formats is the
+// default.
+func (c *sharedFlags) register(fs *pflag.FlagSet, formats ...string) {
+	c.registerInput(fs)
+	c.registerRun(fs, formats...)
+}
+
+// registerInput adds the flags that name the layer.
+func (c *sharedFlags) registerInput(fs *pflag.FlagSet) {
+	fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+	fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
+	fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
+}
+
+// registerRun adds the flags of the shuffles, the output and the weights.
+func (c *sharedFlags) registerRun(fs *pflag.FlagSet, formats ...string) {
+	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (more clustered than chance) or less (more dispersed)")
+	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test")
+	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
+	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
+	c.registerOutput(fs, formats...)
+	c.weights.register(fs)
+}
+
+// registerOutput adds --format (the first of formats is the default) and
+// --output.
+func (c *sharedFlags) registerOutput(fs *pflag.FlagSet, formats ...string) {
+	for _, f := range formats {
+		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
+	}
+	fs.StringVar(&c.format, "format", formats[0], choice.List(c.formats))
+	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+}
+
+// prepare checks the shared flags (the alternative read by parseAlt),
+// reads the layer and builds the graph.
+func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, parseAlt func(string) (shuffle.Alternative, error)) error {
+	if c.input == "" {
+		return usagef("--input is required (see areatest %s --help)", cmd)
+	}
+	if err := c.check(parseAlt); err != nil {
+		return err
+	}
+	if err := c.open(stdin, stderr); err != nil {
+		return err
+	}
+	return c.build(stderr)
+}
+
+// check checks the shared flags and reads the weights settings.
+func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) (err error) {
+	if err = c.checkOutput(); err != nil {
+		return err
+	}
+	if c.alt, err = parseAlt(c.alternative); err != nil {
+		return usagef("--alternative: %v", err)
+	}
+	if c.permutations < 1 || c.workers < 1 {
+		return usagef("--permutations and --workers must be at least 1")
+	}
+	c.spec, c.scaling, c.keepIslands, err = c.weights.spec()
+	return err
+}
+
+// checkOutput reads --format.
+func (c *sharedFlags) checkOutput() (err error) {
+	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
+		return usagef("%v", err)
+	}
+	return nil
+}
+
+// open reads the layer named by --input, with its warnings on stderr.
+func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
+	var warnings []string
+	c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	warn(stderr, warnings...)
+	return err
+}
+
+// build makes (or reads) the neighbour graph of the layer.
+func (c *sharedFlags) build(stderr io.Writer) (err error) {
+	var warnings []string
+	c.graph, warnings, err = c.weights.graph(c.lay, c.spec)
+	warn(stderr, warnings...)
+	return err
+}
+
+// readLayer reads a GeoJSON layer from a path, or from stdin for "-". A
+// feature that could be left out gets the flag that does so named.
+func readLayer(path string, stdin io.Reader, opt geojson.Options) (lay *layer.Layer, warnings []string, err error) {
+	if path == "-" {
+		lay, warnings, err = geojson.Read(stdin, "stdin", opt)
+	} else {
+		lay, warnings, err = geojson.ReadFile(path, opt)
+	}
+	if fe := (*geojson.Error)(nil); errors.As(err, &fe) && fe.Skippable {
+		err = fmt.Errorf("%w (use --skip-bad-geometry to leave such features out)", err)
+	}
+	return lay, warnings, err
+}
+
+// emit writes the result in the chosen format, by render; the text report
+// shows its warnings itself, the other formats leave them to stderr.
+func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
+	if c.format != "text" {
+		warn(stderr, warnings...)
+	}
+	return output.Write(c.output, stdout, c.inputs(), render[c.format])
+}
+
+// inputs are the files no output may overwrite.
+func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file} }
