@@ -16,8 +16,9 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// sharedFlags are the settings autocorr, screen and local share, and what
-// prepare makes of them.
+// sharedFlags are the settings the commands share (all of them for
+// autocorr, screen and local; compare, demo and weights register the parts
+// they use), and what check, open and build make of them.
 type sharedFlags struct {
 	input, id, alternative, format, output string
 	skipBadGeometry                        bool
@@ -25,8 +26,8 @@ type sharedFlags struct {
 	seed                                   uint64
 	weights                                weightFlags
 	formats                                []choice.Name[string]
-	// Set by prepare: the layer, the neighbour graph of all its areas and
-	// how the statistics use it.
+	// Set by check, open and build: the layer, the neighbour graph of all
+	// its areas and how the statistics use it.
 	lay         *layer.Layer
 	graph       *weights.Graph
 	spec        weights.Spec
