@@ -7,13 +7,14 @@
 //   - ScreenText and ScreenCSV: the ranked table of `areatest screen` (a
 //     clustering.ScreenResult), for the terminal and as CSV.
 //   - LocalText and LocalCSV: the summary and the per-area table of
-//     `areatest local` (a LocalDocument).
+//     `areatest local` (a local.Result); LocalColumns the result columns
+//     added to a GeoJSON copy of the layer, LocalPictures its maps and
+//     charts (drawn by io/figure).
 //   - WeightsText: the summary of a neighbour graph for `areatest weights`
 //     (a WeightsDocument).
 //   - JSON: any of these results as one indented JSON document.
 //
 // The JSON is the result structs' own: their field tags, in spatial/… and
-// weights/ or, for LocalDocument and WeightsDocument, here, decide its
-// names and shape, so the text report and the JSON are two views of one
+// weights/ or, for WeightsDocument, here, decide its names and shape, so the text report and the JSON are two views of one
 // struct. Wrap, PValue and Number (report.go) are the shared text helpers.
 package report
