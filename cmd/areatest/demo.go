@@ -2,34 +2,31 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"os"
 	"path/filepath"
+	"strings"
+
+	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/samples"
 )
 
 func runDemo(args []string, _ io.Reader, stdout, stderr io.Writer) error {
 	var c compareFlags
 	var dir string
-	fs := newFlags("demo", stderr)
-	c.register(fs, false)
-	fs.StringVar(&dir, "write", "", "write the sample layer into this directory and stop")
-	if err := parseFlags(fs, args); err != nil {
+	flags := newFlags("demo", stderr)
+	c.register(flags, false)
+	flags.StringVar(&dir, "write", "", "write the sample layer into this directory and stop")
+	if err := parseFlags(flags, args); err != nil {
 		return err
 	}
-	if dir != "" {
-		path := filepath.Join(dir, samples.RegionFile)
-		if err := output.Write(path, stdout, nil, func(w io.Writer) error {
-			_, err := w.Write(samples.RegionGeoJSON)
-			return err
-		}); err != nil {
-			return err
-		}
-		fmt.Fprintf(stderr, "wrote %s; try: areatest compare --input %s --outcome rate --group policy --strata province\n", path, path)
-		return nil
+	if flags.Changed("write") {
+		return writeSample(&c, flags, dir, stdout, stderr)
 	}
 	c.outcome, c.group, c.strata = "rate", "policy", "province"
 	if err := c.check(); err != nil {
@@ -42,4 +39,67 @@ func runDemo(args []string, _ io.Reader, stdout, stderr io.Writer) error {
 	warn(stderr, warnings...)
 	c.lay = lay
 	return c.run(stdout, stderr)
+}
+
+// writeSample writes the sample layer into dir, for demo --write. It
+// writes and stops, so every other flag is refused (it would have no
+// effect). It never replaces a file: when dir already has a file of the
+// sample's name, a copy of the sample is left as it is (with a note on
+// stderr, exit 0), and anything else there is an error.
+func writeSample(c *compareFlags, flags *pflag.FlagSet, dir string, stdout, stderr io.Writer) error {
+	var others []string
+	flags.Visit(func(f *pflag.Flag) {
+		if f.Name != "write" {
+			others = append(others, "--"+f.Name)
+		}
+	})
+	switch {
+	case dir == "":
+		return usagef("--write needs a directory (. for this one)")
+	case len(others) > 0:
+		return usagef("--write writes the sample and stops; %s would have no effect with it", strings.Join(others, ", "))
+	}
+	path := filepath.Join(dir, samples.RegionFile)
+	if same, err := holdsSample(path); err != nil || same {
+		if same {
+			fmt.Fprintf(stderr, "%s already holds the sample; left as it is\n", path)
+		}
+		return err
+	}
+	c.wantOutput("--write", path)
+	if err := c.planOutputs(); err != nil {
+		return err
+	}
+	c.files[0].file.SetRender(func(w io.Writer) error {
+		_, err := w.Write(samples.RegionGeoJSON)
+		return err
+	})
+	if err := c.plan.Commit(stdout); err != nil {
+		return err
+	}
+	fmt.Fprintf(stderr, "wrote %s; try: areatest compare --input %s --outcome rate --group policy --strata province\n", path, path)
+	return nil
+}
+
+// holdsSample reports whether path is a copy of the sample; it is an error
+// for path to be anything else (a file is only read when it is a regular
+// one of the sample's size, so a FIFO is never waited on).
+func holdsSample(path string) (bool, error) {
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return false, nil
+	case err != nil:
+		return false, fmt.Errorf("%s: %w", path, err)
+	}
+	if info.Mode().IsRegular() && info.Size() == int64(len(samples.RegionGeoJSON)) {
+		had, err := os.ReadFile(path)
+		if err != nil {
+			return false, fmt.Errorf("%s: %w", path, err)
+		}
+		if bytes.Equal(had, samples.RegionGeoJSON) {
+			return true, nil
+		}
+	}
+	return false, fmt.Errorf("%s already exists and is not the sample; demo --write replaces no file: remove it or choose another directory", path)
 }

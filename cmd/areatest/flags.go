@@ -34,6 +34,10 @@ type sharedFlags struct {
 	scaling     weights.Scaling
 	keepIslands bool
 	alt         shuffle.Alternative
+	// The files the run writes: asked for by wantOutput, checked and put
+	// into plan by checkOutput, written together by emit.
+	files []plannedFile
+	plan  *output.Plan
 }
 
 // register adds the shared flags to fs; the first of formats is the
@@ -85,25 +89,61 @@ func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, par
 	return c.build(stderr)
 }
 
-// check checks the shared flags and reads the weights settings.
+// check checks the shared flags and reads the weights settings; the
+// output files come last, once every flag is known to be right.
 func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) (err error) {
-	if err = c.checkOutput(); err != nil {
-		return err
-	}
 	if c.alt, err = parseAlt(c.alternative); err != nil {
 		return usagef("--alternative: %v", err)
 	}
 	if c.permutations < 1 || c.workers < 1 {
 		return usagef("--permutations and --workers must be at least 1")
 	}
-	c.spec, c.scaling, c.keepIslands, err = c.weights.spec()
-	return err
+	if c.spec, c.scaling, c.keepIslands, err = c.weights.spec(); err != nil {
+		return err
+	}
+	return c.checkOutput()
 }
 
-// checkOutput reads --format.
+// plannedFile is a file the run writes, by the flag that names it.
+type plannedFile struct {
+	flag, path string
+	file       *output.File // set by checkOutput
+}
+
+// wantOutput asks for the file that flag names ("" asks for none);
+// checkOutput checks it, with --output.
+func (c *sharedFlags) wantOutput(flag, path string) {
+	if path != "" {
+		c.files = append(c.files, plannedFile{flag: flag, path: path})
+	}
+}
+
+// checkOutput reads --format and puts --output and the files asked for by
+// wantOutput into the run's plan (planOutputs).
 func (c *sharedFlags) checkOutput() (err error) {
 	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
 		return usagef("%v", err)
+	}
+	c.files = append([]plannedFile{{flag: "--output", path: c.output}}, c.files...)
+	return c.planOutputs()
+}
+
+// planOutputs puts the files asked for into the run's plan, each checked
+// now, before any data is read: two outputs of one run going to the same
+// file are a usage error (exit 2); a target that cannot be written (a
+// directory, a missing directory, no permission, an input of the run) is an
+// error about the files (exit 1), as a missing input is.
+func (c *sharedFlags) planOutputs() (err error) {
+	c.plan = output.NewPlan(c.inputs()...)
+	for i, f := range c.files {
+		c.files[i].file, err = c.plan.Add(f.path)
+		var te *output.TargetError
+		switch {
+		case errors.As(err, &te) && te.Problem == output.Repeated:
+			return usagef("%s %s and %s %s are the same file; give each output a file of its own", c.files[te.Earlier].flag, te.EarlierPath, f.flag, f.path)
+		case err != nil:
+			return fmt.Errorf("%s: %w", f.flag, err)
+		}
 	}
 	return nil
 }
@@ -138,13 +178,15 @@ func readLayer(path string, stdin io.Reader, opt geojson.Options) (lay *layer.La
 	return lay, warnings, err
 }
 
-// emit writes the result in the chosen format, by render; the text report
-// shows its warnings itself, the other formats leave them to stderr.
+// emit writes the result in the chosen format, by render, to --output,
+// together with the run's other planned outputs; the text report shows its
+// warnings itself, the other formats leave them to stderr.
 func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
 	if c.format != "text" {
 		warn(stderr, warnings...)
 	}
-	return output.Write(c.output, stdout, c.inputs(), render[c.format])
+	c.files[0].file.SetRender(render[c.format]) // --output, first in the plan
+	return c.plan.Commit(stdout)
 }
 
 // inputs are the files no output may overwrite.

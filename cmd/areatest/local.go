@@ -12,7 +12,6 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -73,28 +72,45 @@ func (c *localFlags) check() (err error) {
 		choice.Name[figure.Classes]{Name: "quantile", Value: figure.Quantile}, choice.Name[figure.Classes]{Name: "natural", Value: figure.NaturalBreaks}); err != nil {
 		return usagef("%v", err)
 	}
-	switch ext := strings.ToLower(filepath.Ext(c.out)); {
-	case (c.kind == local.CrossMoran) != (c.against != ""):
-		err = usagef("--against goes with --statistic cross-moran, and that statistic needs it")
-	case !(c.alpha > 0 && c.alpha < 1):
-		err = usagef("--alpha must be between 0 and 1")
-	case c.scatter != "" && c.kind != local.Moran && c.kind != local.CrossMoran:
-		err = usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
-	case (c.histogram == "") != (c.area == ""):
-		err = usagef("--histogram and --area go together")
-	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
-		err = usagef("--out must end in .csv or .geojson, not %q", ext)
-	}
-	for _, f := range []string{c.mapFile, c.choropleth, c.scatter, c.histogram} {
-		if f == "" || err != nil {
-			continue
-		}
-		if _, ferr := figure.FormatFromPath(f); ferr != nil {
-			err = usagef("%v", ferr)
-		}
+	if err = c.checkFiles(); err != nil {
+		return err
 	}
 	c.opt.Permutations, c.opt.Seed, c.opt.Workers, c.opt.Alpha = c.permutations, c.seed, c.workers, c.alpha
-	return err
+	return nil
+}
+
+// checkFiles checks the flags of the table and the pictures and asks for
+// the files they name. The table and the pictures always go to files (their
+// kind is read from the extension); only the report of --output goes to
+// standard output.
+func (c *localFlags) checkFiles() error {
+	switch ext := strings.ToLower(filepath.Ext(c.out)); {
+	case (c.kind == local.CrossMoran) != (c.against != ""):
+		return usagef("--against goes with --statistic cross-moran, and that statistic needs it")
+	case !(c.alpha > 0 && c.alpha < 1):
+		return usagef("--alpha must be between 0 and 1")
+	case c.scatter != "" && c.kind != local.Moran && c.kind != local.CrossMoran:
+		return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
+	case (c.histogram == "") != (c.area == ""):
+		return usagef("--histogram and --area go together")
+	case c.out == "-":
+		return usagef("--out writes a file, not standard output: give a name ending in .csv or .geojson")
+	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
+		return usagef("--out must end in .csv or .geojson, not %q", ext)
+	}
+	c.wantOutput("--out", c.out)
+	for _, p := range []struct{ flag, path string }{{"--map", c.mapFile}, {"--choropleth", c.choropleth}, {"--scatter", c.scatter}, {"--histogram", c.histogram}} {
+		switch _, err := figure.FormatFromPath(p.path); {
+		case p.path == "":
+			continue
+		case p.path == "-":
+			return usagef("%s draws into a file, not standard output: give a name ending in .svg or .png", p.flag)
+		case err != nil:
+			return usagef("%s: %v", p.flag, err)
+		}
+		c.wantOutput(p.flag, p.path)
+	}
+	return nil
 }
 
 func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -128,9 +144,7 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
-	if err := c.write(report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule}, stdout); err != nil {
-		return err
-	}
+	c.write(report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule})
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.LocalText(w, res, c.top) },
@@ -155,10 +169,10 @@ func (c *localFlags) input() (local.Input, error) {
 	return in, nil
 }
 
-// write writes the per-area table (CSV, or a copy of the layer with the
-// results added) and the pictures asked for, and lists them in
-// res.Written.
-func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
+// write gives each planned file of the table and the pictures its
+// renderer, and lists them in res.Written; emit writes them with the
+// report.
+func (c *localFlags) write(pics report.LocalPictures) {
 	res := pics.Result
 	table := func(w io.Writer, _ figure.Format) error {
 		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
@@ -166,18 +180,15 @@ func (c *localFlags) write(pics report.LocalPictures, stdout io.Writer) error {
 		}
 		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
 	}
-	for _, out := range []struct {
-		path string
-		draw func(io.Writer, figure.Format) error
-	}{{c.out, table}, {c.mapFile, pics.Map}, {c.choropleth, pics.Choropleth}, {c.scatter, pics.Scatter}, {c.histogram, pics.Histogram}} {
-		if out.path == "" {
-			continue
+	draw := map[string]func(io.Writer, figure.Format) error{
+		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
+	for _, f := range c.files {
+		d, ok := draw[f.flag]
+		if !ok {
+			continue // --output: the report, rendered by emit
 		}
-		f, _ := figure.FormatFromPath(out.path) // checked by options; none for the table
-		if err := output.Write(out.path, stdout, c.inputs(), func(w io.Writer) error { return out.draw(w, f) }); err != nil {
-			return err
-		}
-		res.Written = append(res.Written, out.path)
+		format, _ := figure.FormatFromPath(f.path) // checked by checkFiles; none for the table
+		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
+		res.Written = append(res.Written, f.path)
 	}
-	return nil
 }

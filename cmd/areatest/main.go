@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 
 	"github.com/spf13/pflag"
@@ -107,5 +108,29 @@ func parseFlags(fs *pflag.FlagSet, args []string) error {
 	if fs.NArg() > 0 {
 		return usagef("unexpected argument %q (see areatest %s --help)", fs.Arg(0), fs.Name())
 	}
-	return nil
+	return checkNumbers(fs)
+}
+
+// checkNumbers refuses, on every flag given, the numbers no flag of this
+// tool takes, so that no command has to remember to: every integer flag is
+// a count (of shuffles, areas, neighbours, orders, lines), so none may be
+// negative, and no float flag takes NaN or an infinity. Each command still
+// checks its own ranges (at least 1, between 0 and 1, …).
+func checkNumbers(fs *pflag.FlagSet) (err error) {
+	fs.Visit(func(f *pflag.Flag) {
+		if err != nil {
+			return
+		}
+		switch f.Value.Type() {
+		case "int":
+			if n, _ := fs.GetInt(f.Name); n < 0 {
+				err = usagef("--%s must not be negative (got %d)", f.Name, n)
+			}
+		case "float64":
+			if x, _ := fs.GetFloat64(f.Name); math.IsNaN(x) || math.IsInf(x, 0) {
+				err = usagef("--%s must be a finite number, not %s", f.Name, f.Value)
+			}
+		}
+	})
+	return err
 }
