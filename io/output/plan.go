@@ -129,13 +129,12 @@ func (f *File) locate() error {
 		return &TargetError{Path: f.Path, Problem: NotWritable, Err: err}
 	}
 	f.target = target
-	switch info, err := os.Stat(target); {
-	case err == nil && info.IsDir():
+	info, statErr := os.Stat(target)
+	switch {
+	case statErr == nil && info.IsDir():
 		return &TargetError{Path: f.Path, Problem: IsDirectory}
-	case err == nil:
+	case statErr == nil:
 		f.info, f.straight = info, !info.Mode().IsRegular()
-	case !errors.Is(err, fs.ErrNotExist):
-		return &TargetError{Path: f.Path, Problem: NotWritable, Err: err}
 	}
 	dir := filepath.Dir(target)
 	if info, err := os.Stat(dir); err != nil || !info.IsDir() {
@@ -143,6 +142,9 @@ func (f *File) locate() error {
 			err = errors.New("not a directory")
 		}
 		return &TargetError{Path: f.Path, Problem: NoDirectory, Dir: dir, Err: err}
+	}
+	if statErr != nil && !errors.Is(statErr, fs.ErrNotExist) {
+		return &TargetError{Path: f.Path, Problem: NotWritable, Err: statErr}
 	}
 	real, err := filepath.EvalSymlinks(dir)
 	if err == nil {
