@@ -70,7 +70,7 @@ func writeSample(c *compareFlags, flags *pflag.FlagSet, dir string, stdout, stde
 	if err := c.planOutputs(); err != nil {
 		return err
 	}
-	c.files[0].file.SetRender(func(w io.Writer) error {
+	c.fileOf("--write").SetRender(func(w io.Writer) error {
 		_, err := w.Write(samples.RegionGeoJSON)
 		return err
 	})

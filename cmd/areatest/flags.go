@@ -118,6 +118,16 @@ func (c *sharedFlags) wantOutput(flag, path string) {
 	}
 }
 
+// fileOf is the planned file of flag, nil when that flag asked for none.
+func (c *sharedFlags) fileOf(flag string) *output.File {
+	for _, f := range c.files {
+		if f.flag == flag {
+			return f.file
+		}
+	}
+	return nil
+}
+
 // checkOutput reads --format and puts --output and the files asked for by
 // wantOutput into the run's plan (planOutputs).
 func (c *sharedFlags) checkOutput() (err error) {
@@ -185,7 +195,7 @@ func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render m
 	if c.format != "text" {
 		warn(stderr, warnings...)
 	}
-	c.files[0].file.SetRender(render[c.format]) // --output, first in the plan
+	c.fileOf("--output").SetRender(render[c.format])
 	return c.plan.Commit(stdout)
 }
 
