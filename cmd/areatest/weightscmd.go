@@ -50,7 +50,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}
 	}
 	if write != "" {
-		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs) }); err != nil {
+		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs, write) }); err != nil {
 			return err
 		}
 		doc.Written = write
