@@ -77,10 +77,17 @@ func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(g
 //     anywhere: a shared corner (the two copies up to Snap apart), a corner
 //     of one lying on a side of the other (a T-junction), or crossing sides.
 //   - Rook links two areas when a side of one and a side of the other run
-//     within Snap of each other over more than RookMinShared·Snap — a shared
-//     stretch of border, even where the two copies have their vertices in
-//     different places. The stretch is looked for one pair of sides at a
-//     time, so a border made only of sides shorter than that is missed.
+//     together over more than RookMinShared·Snap — a shared stretch of
+//     border, even where the two copies have their vertices in different
+//     places. The stretch runs between vertices of the two sides that lie
+//     within Snap of the other side, so two areas that only meet at a
+//     corner are never rook neighbours, however narrow the angle between
+//     their sides there (sides leaving a corner at an angle θ stay within
+//     Snap of each other for Snap/tan θ, which a length threshold alone
+//     would take for a border when θ is small). The copies of a shared
+//     border must therefore lie within Snap of each other at their
+//     vertices. The stretch is looked for one pair of sides at a time, so a
+//     border made only of sides shorter than RookMinShared·Snap is missed.
 //
 // All rings count, holes included: an area filling another's hole is its
 // neighbour. Cost grows as n log n in the number of boundary segments: a
