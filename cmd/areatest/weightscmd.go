@@ -14,6 +14,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	fs := newFlags("weights", stderr)
 	c.registerInput(fs)
 	c.weights.register(fs)
+	c.weights.showAsBuilt(fs)
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")
 	c.registerOutput(fs, "text", "json")
 	fs.Lookup("output").Usage = "write the summary here instead of stdout"
