@@ -96,22 +96,24 @@ func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(g
 //
 // Errors, naming the area: no polygon, a polygon without rings, a ring
 // without positions, a ring that is not closed (first and last positions
-// differ), a coordinate that is NaN or infinite, or a bad Snap. Warnings,
-// one per area (the first 20 listed, the rest counted), do not stop the build:
+// differ), a coordinate that is NaN or infinite, or a bad Snap. Geometry
+// problems do not stop the build; every one is returned (see
+// GeometrySummary for the few lines a report shows):
 //
-//   - A sliver ring — signed area at most Snap times half its perimeter, so
-//     a mean width of at most Snap, and no two of its sides crossing — adds
-//     nothing of its own to the search: a part without area is not land an
-//     area could touch another through. An area with only sliver rings gets
-//     no neighbour. (A ring whose sides cross, like a bow-tie, can have a
-//     signed area of zero while enclosing land; it is kept.)
-//   - A ring that crosses or touches itself (two non-consecutive sides
-//     meeting, found exactly, without tolerance) is named; its sides are
-//     still used.
+//   - SliverRing: a ring whose signed area is at most Snap times half its
+//     perimeter, so a mean width of at most Snap, and no two of its sides
+//     crossing, adds nothing of its own to the search: a part without area
+//     is not land an area could touch another through. NoRingWithArea: an
+//     area with only sliver rings gets no neighbour. (A ring whose sides
+//     cross, like a bow-tie, can have a signed area of zero while enclosing
+//     land; it is kept.)
+//   - RingMeetsItself: a ring that crosses or touches itself (two
+//     non-consecutive sides meeting, found exactly, without tolerance),
+//     once per area; its sides are still used.
 //
 // The graph depends only on the geometry and the options, not on the number
 // of cores used.
-func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []string, error) {
+func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []GeometryProblem, error) {
 	if opt.Rule != Queen && opt.Rule != Rook {
 		return nil, nil, fmt.Errorf("weights: unknown contiguity rule %d", opt.Rule)
 	}
@@ -124,7 +126,7 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	if len(geoms) > math.MaxInt32 {
 		return nil, nil, fmt.Errorf("weights: %d areas are more than contiguity can index", len(geoms))
 	}
-	pairs, warns, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
+	pairs, problems, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -132,11 +134,11 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	if err != nil {
 		return nil, nil, err
 	}
-	return g, warns, nil
+	return g, geometryProblems(problems, opt.IDs), nil
 }
 
 // ContiguityGraph builds a binary contiguity graph with the default snap
-// distance and drops the warnings; see BuildContiguity.
+// distance and drops the geometry problems; see BuildContiguity.
 func ContiguityGraph(geoms []orb.MultiPolygon, rule Contiguity) (*Graph, error) {
 	g, _, err := BuildContiguity(geoms, ContiguityOptions{Rule: rule})
 	return g, err

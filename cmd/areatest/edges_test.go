@@ -129,3 +129,91 @@ func TestWeightsHelpStatesItsScalingDefault(t *testing.T) {
 		}
 	}
 }
+
+// manySlivers returns a layer of 60 unit squares in a row, S01…S60: S01–S40
+// have a second part that is a sliver (a ring along a line), S41–S50 a
+// second part that is a bow-tie (a ring crossing itself), and S58–S60 are
+// nothing but a sliver.
+func manySlivers() string {
+	var f []string
+	for i := range 60 {
+		x := float64(i)
+		parts := []string{fmt.Sprintf("[[[%g,0],[%g,0],[%g,1],[%g,1],[%g,0]]]", x, x+1, x+1, x, x)}
+		sliver := fmt.Sprintf("[[[%g,3],[%g,3],[%g,3],[%g,3]]]", x, x+0.5, x+0.25, x)
+		switch {
+		case i >= 57:
+			parts = []string{sliver}
+		case i < 40:
+			parts = append(parts, sliver)
+		case i < 50:
+			parts = append(parts, fmt.Sprintf("[[[%g,5],[%g,5.5],[%g,5],[%g,5.5],[%g,5]]]", x, x+0.5, x+0.5, x, x))
+		}
+		f = append(f, fmt.Sprintf(`{"type":"Feature","id":"S%02d","properties":{"y":%d},"geometry":{"type":"MultiPolygon","coordinates":[%s]}}`,
+			i+1, i%4, strings.Join(parts, ",")))
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
+// Geometry problems come to stderr as one line per kind, with the count
+// and the first five ids, on every command; the weights command lists every
+// one in its JSON and, with --list-geometry-problems, in its text.
+func TestGeometryProblemsSummedUp(t *testing.T) {
+	t.Chdir(t.TempDir())
+	if err := os.WriteFile("many.geojson", []byte(manySlivers()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	// Counts by construction of the layer: 40 + 3 areas with sliver rings,
+	// 3 with nothing else, 10 bow-ties.
+	kinds := []string{
+		`areatest: warning: many.geojson: 43 areas have rings without area (a mean width at most the snap distance), left out of the neighbour search: "S01", "S02", "S03", "S04", "S05" and 38 more`,
+		`areatest: warning: many.geojson: 3 areas have no ring with an area and get no neighbour: "S58", "S59", "S60"`,
+		`areatest: warning: many.geojson: 10 areas have rings that cross or touch themselves; their sides are still used to find neighbours: "S41", "S42", "S43", "S44", "S45" and 5 more (`,
+	}
+	for _, c := range []struct {
+		args   []string
+		advice string
+	}{
+		{[]string{"weights", "-i", "many.geojson"}, "(--list-geometry-problems lists every one, ring by ring)\n"},
+		{[]string{"autocorr", "-i", "many.geojson", "--variables", "y", "-n", "99"}, "(areatest weights --list-geometry-problems, with the same input and neighbour rule, lists every one, ring by ring)\n"},
+		{[]string{"local", "-i", "many.geojson", "--variable", "y", "--contiguity", "rook", "-n", "99"}, "(areatest weights --list-geometry-problems, with the same input and neighbour rule, lists every one, ring by ring)\n"},
+	} {
+		r := runIn("", c.args...)
+		lines := strings.SplitAfter(r.stderr, "\n")
+		if r.code != 0 || len(lines) != 4 || lines[3] != "" {
+			t.Fatalf("%s: exit %d, stderr %q", c.args[0], r.code, r.stderr)
+		}
+		for k, want := range kinds {
+			if !strings.HasPrefix(lines[k], want) {
+				t.Errorf("%s: line %d is %q, want %q", c.args[0], k+1, lines[k], want)
+			}
+		}
+		if !strings.HasSuffix(lines[2], c.advice) {
+			t.Errorf("%s: %q does not end %q", c.args[0], lines[2], c.advice)
+		}
+	}
+	var doc struct {
+		Problems []struct{ Kind, ID, Text string } `json:"geometry_problems"`
+	}
+	r := runIn("", "weights", "-i", "many.geojson", "--format", "json")
+	if err := json.Unmarshal([]byte(r.stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	count := map[string]int{}
+	for _, p := range doc.Problems {
+		count[p.Kind]++
+		if !strings.Contains(p.Text, fmt.Sprintf("area %q", p.ID)) {
+			t.Errorf("problem %+v: the text does not name the area", p)
+		}
+	}
+	if len(doc.Problems) != 56 || count["sliver-ring"] != 43 || count["no-ring-with-area"] != 3 || count["ring-meets-itself"] != 10 {
+		t.Errorf("JSON lists %d problems: %v", len(doc.Problems), count)
+	}
+	text := runIn("", "weights", "-i", "many.geojson", "--list-geometry-problems").stdout
+	listed := strings.Split(text, "\nGeometry problems\n")
+	if len(listed) != 2 || strings.Count(listed[1], "  - area ") != 56 || !strings.Contains(listed[1], `  - area "S60": the outer ring of part 1 has no area`) {
+		t.Errorf("--list-geometry-problems: %s", text)
+	}
+	if plain := runIn("", "weights", "-i", "many.geojson").stdout; strings.Contains(plain, "Geometry problems") {
+		t.Errorf("problems listed without the flag: %s", plain)
+	}
+}

@@ -11,11 +11,14 @@ import (
 func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var write string
+	var list bool
 	fs := newFlags("weights", stderr)
 	c.registerInput(fs)
 	c.weights.register(fs)
 	c.weights.showAsBuilt(fs)
+	c.weights.listAdvice = "--list-geometry-problems"
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")
+	fs.BoolVar(&list, "list-geometry-problems", false, "list every sliver ring and ring that meets itself in the summary (the JSON lists them always)")
 	c.registerOutput(fs, "text", "json")
 	fs.Lookup("output").Usage = "write the summary here instead of stdout"
 	if err := parseFlags(fs, args); err != nil {
@@ -45,7 +48,8 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return err
 		}
 	}
-	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs)}
+	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs),
+		GeometryProblems: c.weights.problems, ListProblems: list}
 	doc.Settings = []string{"read from " + c.weights.file}
 	if c.weights.file == "" {
 		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}

@@ -21,6 +21,11 @@ type weightFlags struct {
 	scaling, transform, islands string
 	order                       int
 	changed                     func(string) bool
+	// problems are the geometry problems of the last graph built, in full;
+	// graph returns only their summary, and the weights command lists them.
+	problems []weights.GeometryProblem
+	// listAdvice says where the full list of problems is, after the summary.
+	listAdvice string
 }
 
 func (w *weightFlags) register(fs *pflag.FlagSet) {
@@ -138,14 +143,28 @@ func (w *weightFlags) check(s weights.Spec) error {
 	return nil
 }
 
-// graph builds (or reads) the neighbour graph of the layer.
+// graph builds (or reads) the neighbour graph of the layer. The warnings
+// are the geometry problems summed up, one line per kind naming the layer,
+// the last one saying where the full list is; w.problems keeps the list.
 func (w *weightFlags) graph(lay *layer.Layer, s weights.Spec) (*weights.Graph, []string, error) {
 	if w.file == "" {
-		g, warnings, err := s.Build(lay.Geoms, lay.IDs)
+		g, problems, err := s.Build(lay.Geoms, lay.IDs)
 		if err != nil {
-			return nil, warnings, fmt.Errorf("%s: %w", lay.Source, err)
+			return nil, nil, fmt.Errorf("%s: %w", lay.Source, err)
 		}
-		return g, warnings, nil
+		w.problems = problems
+		lines := weights.GeometrySummary(problems)
+		for k, l := range lines {
+			lines[k] = lay.Source + ": " + l
+		}
+		if len(lines) > 0 {
+			advice := w.listAdvice
+			if advice == "" {
+				advice = "areatest weights --list-geometry-problems, with the same input and neighbour rule,"
+			}
+			lines[len(lines)-1] += fmt.Sprintf(" (%s lists every one, ring by ring)", advice)
+		}
+		return g, lines, nil
 	}
 	f, err := os.Open(w.file)
 	if err != nil {

@@ -29,14 +29,19 @@ func pairsDiff(got, want [][2]int32) string {
 	return ""
 }
 
-// build runs Find, failing the test on an error.
+// build runs Find, failing the test on an error, and returns the pairs
+// and the problems' texts.
 func build(t *testing.T, geoms []orb.MultiPolygon, opt Options) ([][2]int32, []string) {
 	t.Helper()
-	pairs, warns, err := Find(geoms, opt)
+	pairs, problems, err := Find(geoms, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return pairs, warns
+	texts := make([]string, len(problems))
+	for k, p := range problems {
+		texts[k] = p.Text
+	}
+	return pairs, texts
 }
 
 // rules are the two contiguity rules, for loops over both.
