@@ -77,10 +77,17 @@ func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(g
 //     anywhere: a shared corner (the two copies up to Snap apart), a corner
 //     of one lying on a side of the other (a T-junction), or crossing sides.
 //   - Rook links two areas when a side of one and a side of the other run
-//     within Snap of each other over more than RookMinShared·Snap — a shared
-//     stretch of border, even where the two copies have their vertices in
-//     different places. The stretch is looked for one pair of sides at a
-//     time, so a border made only of sides shorter than that is missed.
+//     together over more than RookMinShared·Snap — a shared stretch of
+//     border, even where the two copies have their vertices in different
+//     places. The stretch runs between vertices of the two sides that lie
+//     within Snap of the other side, so two areas that only meet at a
+//     corner are never rook neighbours, however narrow the angle between
+//     their sides there (sides leaving a corner at an angle θ stay within
+//     Snap of each other for Snap/tan θ, which a length threshold alone
+//     would take for a border when θ is small). The copies of a shared
+//     border must therefore lie within Snap of each other at their
+//     vertices. The stretch is looked for one pair of sides at a time, so a
+//     border made only of sides shorter than RookMinShared·Snap is missed.
 //
 // All rings count, holes included: an area filling another's hole is its
 // neighbour. Cost grows as n log n in the number of boundary segments: a
@@ -89,22 +96,24 @@ func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(g
 //
 // Errors, naming the area: no polygon, a polygon without rings, a ring
 // without positions, a ring that is not closed (first and last positions
-// differ), a coordinate that is NaN or infinite, or a bad Snap. Warnings,
-// one per area (the first 20 listed, the rest counted), do not stop the build:
+// differ), a coordinate that is NaN or infinite, or a bad Snap. Geometry
+// problems do not stop the build; every one is returned (see
+// GeometrySummary for the few lines a report shows):
 //
-//   - A sliver ring — signed area at most Snap times half its perimeter, so
-//     a mean width of at most Snap, and no two of its sides crossing — adds
-//     nothing of its own to the search: a part without area is not land an
-//     area could touch another through. An area with only sliver rings gets
-//     no neighbour. (A ring whose sides cross, like a bow-tie, can have a
-//     signed area of zero while enclosing land; it is kept.)
-//   - A ring that crosses or touches itself (two non-consecutive sides
-//     meeting, found exactly, without tolerance) is named; its sides are
-//     still used.
+//   - SliverRing: a ring whose signed area is at most Snap times half its
+//     perimeter, so a mean width of at most Snap, and no two of its sides
+//     crossing, adds nothing of its own to the search: a part without area
+//     is not land an area could touch another through. NoRingWithArea: an
+//     area with only sliver rings gets no neighbour. (A ring whose sides
+//     cross, like a bow-tie, can have a signed area of zero while enclosing
+//     land; it is kept.)
+//   - RingMeetsItself: a ring that crosses or touches itself (two
+//     non-consecutive sides meeting, found exactly, without tolerance),
+//     once per area; its sides are still used.
 //
 // The graph depends only on the geometry and the options, not on the number
 // of cores used.
-func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []string, error) {
+func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, []GeometryProblem, error) {
 	if opt.Rule != Queen && opt.Rule != Rook {
 		return nil, nil, fmt.Errorf("weights: unknown contiguity rule %d", opt.Rule)
 	}
@@ -117,7 +126,7 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	if len(geoms) > math.MaxInt32 {
 		return nil, nil, fmt.Errorf("weights: %d areas are more than contiguity can index", len(geoms))
 	}
-	pairs, warns, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
+	pairs, problems, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -125,11 +134,11 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	if err != nil {
 		return nil, nil, err
 	}
-	return g, warns, nil
+	return g, geometryProblems(problems, opt.IDs), nil
 }
 
 // ContiguityGraph builds a binary contiguity graph with the default snap
-// distance and drops the warnings; see BuildContiguity.
+// distance and drops the geometry problems; see BuildContiguity.
 func ContiguityGraph(geoms []orb.MultiPolygon, rule Contiguity) (*Graph, error) {
 	g, _, err := BuildContiguity(geoms, ContiguityOptions{Rule: rule})
 	return g, err

@@ -1,7 +1,6 @@
 package weights
 
 import (
-	"bytes"
 	"math"
 	"strings"
 	"testing"
@@ -137,60 +136,6 @@ func TestSummary(t *testing.T) {
 	empty, _ := FromLinks(3, nil, "distance band 1 km")
 	if w := Summarise(empty, ids[:3]).Warnings; len(w) == 0 || !strings.Contains(w[0], "every area is an island") {
 		t.Fatalf("all-islands warning missing: %q", w)
-	}
-}
-
-func TestEdgeListRoundTrip(t *testing.T) {
-	g, _ := ContiguityGraph(lattice(3), Queen)
-	rs := g.RowStandardised()
-	ids := []string{"a", "b", "c", "d", "e", "f", "g", "h", "i"}
-	var buf bytes.Buffer
-	if err := WriteEdgeList(&buf, rs, ids); err != nil {
-		t.Fatal(err)
-	}
-	if !strings.HasPrefix(buf.String(), "from,to,weight\na,b,0.3333333333333333\n") {
-		t.Fatalf("edge list starts %q", buf.String()[:40])
-	}
-	back, err := ReadEdgeList(&buf, "edges.csv", ids)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for k := range rs.Weights {
-		if back.Weights[k] != rs.Weights[k] || back.Neighbours[k] != rs.Neighbours[k] {
-			t.Fatal("round trip changed the graph")
-		}
-	}
-	var bin bytes.Buffer
-	WriteEdgeList(&bin, g, ids)
-	if b, _ := ReadEdgeList(&bin, "edges.csv", ids); b.Scaling != "binary" {
-		t.Fatalf("binary file read as %q", b.Scaling)
-	}
-}
-
-func TestEdgeListErrors(t *testing.T) {
-	ids := []string{"a", "b", "c"}
-	for _, c := range []struct{ name, text, want string }{
-		{"empty", "", "empty"},
-		{"no header", "a,b,1\n", "header"},
-		{"unknown id", "from,to,weight\na,z,1\n", `line 2: area "z" is not an id`},
-		{"self link", "from,to,weight\na,b,1\nc,c,1\n", `line 3: area "c" is linked to itself`},
-		{"negative", "from,to,weight\na,b,-1\n", "negative"},
-		{"not a number", "from,to,weight\na,b,heavy\n", `weight "heavy"`},
-		{"missing weight", "from,to,weight\na,b\n", "found 2 value(s)"},
-		{"repeated", "from,to,weight\na,b,1\na,b,2\n", "already given on line 2"},
-		{"nan", "from,to,weight\na,b,NaN\n", "not a number"},
-	} {
-		t.Run(c.name, func(t *testing.T) {
-			_, err := ReadEdgeList(strings.NewReader(c.text), "edges.csv", ids)
-			if err == nil || !strings.Contains(err.Error(), c.want) || !strings.HasPrefix(err.Error(), "edges.csv") {
-				t.Fatalf("error %v, want %q", err, c.want)
-			}
-		})
-	}
-	// Columns in another order, a byte-order mark and blank lines are fine.
-	g, err := ReadEdgeList(strings.NewReader("\ufeffweight,to,from\n2,b,a\n\n0.5,a,b\n"), "edges.csv", ids)
-	if err != nil || g.Links() != 2 || weightOf(g, 0, 1) != 2 || g.Degree(2) != 0 {
-		t.Fatalf("reordered columns: %v", err)
 	}
 }
 

@@ -48,18 +48,19 @@ func (s Spec) PointBased() bool {
 }
 
 // Build makes the graph the spec describes for geoms, ids naming the areas
-// in messages. Warnings are returned for the caller to show.
-func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, error) {
+// in messages. The geometry problems contiguity works around are returned
+// for the caller to show (none for the point-based rules).
+func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []GeometryProblem, error) {
 	if len(geoms) == 0 {
 		return nil, nil, errors.New("the layer has no areas")
 	}
 	var g *Graph
-	var warnings []string
+	var problems []GeometryProblem
 	var err error
 	if !s.PointBased() {
-		g, warnings, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids})
+		g, problems, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids})
 		if err != nil {
-			return nil, warnings, err
+			return nil, nil, err
 		}
 	} else {
 		pts, metric, err := s.Locate(geoms)
@@ -84,9 +85,9 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []string, e
 		}
 	}
 	if g, err = s.orders(g); err != nil {
-		return nil, warnings, err
+		return nil, problems, err
 	}
-	return g, warnings, nil
+	return g, problems, nil
 }
 
 // ReadEdgeList reads a graph from an edge list (see the package function

@@ -11,10 +11,14 @@ import (
 func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var c sharedFlags
 	var write string
+	var list bool
 	fs := newFlags("weights", stderr)
 	c.registerInput(fs)
 	c.weights.register(fs)
+	c.weights.showAsBuilt(fs)
+	c.weights.listAdvice = "--list-geometry-problems"
 	fs.StringVar(&write, "write", "", "also write the graph (after --scaling) as an edge-list CSV here")
+	fs.BoolVar(&list, "list-geometry-problems", false, "list every sliver ring and ring that meets itself in the summary (the JSON lists them always)")
 	c.registerOutput(fs, "text", "json")
 	fs.Lookup("output").Usage = "write the summary here instead of stdout"
 	if err := parseFlags(fs, args); err != nil {
@@ -44,13 +48,14 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 			return err
 		}
 	}
-	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs)}
+	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs),
+		GeometryProblems: c.weights.problems, ListProblems: list}
 	doc.Settings = []string{"read from " + c.weights.file}
 	if c.weights.file == "" {
 		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}
 	}
 	if write != "" {
-		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs) }); err != nil {
+		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs, write) }); err != nil {
 			return err
 		}
 		doc.Written = write

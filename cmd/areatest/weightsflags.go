@@ -21,6 +21,11 @@ type weightFlags struct {
 	scaling, transform, islands string
 	order                       int
 	changed                     func(string) bool
+	// problems are the geometry problems of the last graph built, in full;
+	// graph returns only their summary, and the weights command lists them.
+	problems []weights.GeometryProblem
+	// listAdvice says where the full list of problems is, after the summary.
+	listAdvice string
 }
 
 func (w *weightFlags) register(fs *pflag.FlagSet) {
@@ -37,7 +42,7 @@ func (w *weightFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&w.s.Planar, "planar", false, "measure distances in the plane of the coordinates even on a lon/lat layer")
 	fs.IntVar(&w.order, "order", 1, "neighbours of this order (neighbours of neighbours for 2, …)")
 	fs.BoolVar(&w.s.Cumulative, "cumulative", false, "with --order: all orders up to it")
-	fs.StringVar(&w.scaling, "scaling", "row", "weights for the statistics: row (each area's weights sum to one), none (as built: one per link for contiguity, nearest neighbours and bands; kernel and distance weights kept), or stabilised (equal sum of squares per row)")
+	fs.StringVar(&w.scaling, "scaling", "row", "weights for the statistics: "+scalingChoices)
 	fs.StringVar(&w.transform, "transform", "row", "former name of --scaling: row, binary or variance")
 	// Hidden from --help, with a note on stderr when used; cannot fail: the
 	// flag was just defined.
@@ -45,6 +50,18 @@ func (w *weightFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&w.islands, "islands", "drop", "areas without neighbours: drop (leave out of spatial statistics) or keep (with a zero spatial lag)")
 	fs.StringVar(&w.file, "weights", "", "read the neighbour graph from an edge-list CSV (from,to,weight) instead of building it")
 	w.changed = fs.Changed
+}
+
+// scalingChoices describes the values of --scaling, for its help.
+const scalingChoices = "row (each area's weights sum to one), none (as built: one per link for contiguity, nearest neighbours and bands; kernel and distance weights kept), or stabilised (equal sum of squares per row)"
+
+// showAsBuilt words the help of --scaling for the weights command, which
+// shows and writes the weights as built unless --scaling is given, where
+// the statistics default to row-standardised weights.
+func (w *weightFlags) showAsBuilt(fs *pflag.FlagSet) {
+	f := fs.Lookup("scaling")
+	f.Usage = "scale the weights shown and written: " + scalingChoices + " (default: the weights as built, as none)"
+	f.DefValue = "" // the flag's value is not the default here; the usage says what is
 }
 
 // scalingGiven reports whether the weights' scaling was chosen on the
@@ -126,14 +143,28 @@ func (w *weightFlags) check(s weights.Spec) error {
 	return nil
 }
 
-// graph builds (or reads) the neighbour graph of the layer.
+// graph builds (or reads) the neighbour graph of the layer. The warnings
+// are the geometry problems summed up, one line per kind naming the layer,
+// the last one saying where the full list is; w.problems keeps the list.
 func (w *weightFlags) graph(lay *layer.Layer, s weights.Spec) (*weights.Graph, []string, error) {
 	if w.file == "" {
-		g, warnings, err := s.Build(lay.Geoms, lay.IDs)
+		g, problems, err := s.Build(lay.Geoms, lay.IDs)
 		if err != nil {
-			return nil, warnings, fmt.Errorf("%s: %w", lay.Source, err)
+			return nil, nil, fmt.Errorf("%s: %w", lay.Source, err)
 		}
-		return g, warnings, nil
+		w.problems = problems
+		lines := weights.GeometrySummary(problems)
+		for k, l := range lines {
+			lines[k] = lay.Source + ": " + l
+		}
+		if len(lines) > 0 {
+			advice := w.listAdvice
+			if advice == "" {
+				advice = "areatest weights --list-geometry-problems, with the same input and neighbour rule,"
+			}
+			lines[len(lines)-1] += fmt.Sprintf(" (%s lists every one, ring by ring)", advice)
+		}
+		return g, lines, nil
 	}
 	f, err := os.Open(w.file)
 	if err != nil {

@@ -17,7 +17,12 @@ type WeightsDocument struct {
 	// Settings describes the rule in words, e.g. "snap 1e-07 degrees".
 	Settings []string        `json:"settings"`
 	Weights  weights.Summary `json:"weights"`
-	Written  string          `json:"written,omitempty"`
+	// GeometryProblems lists every problem contiguity worked around, in
+	// the JSON always (left out when there is none); ListProblems asks the
+	// text to list them too.
+	GeometryProblems []weights.GeometryProblem `json:"geometry_problems,omitempty"`
+	ListProblems     bool                      `json:"-"`
+	Written          string                    `json:"written,omitempty"`
 }
 
 // WeightsText writes the summary of a neighbour graph for a person.
@@ -77,11 +82,25 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 			b.WriteString(Wrap(wn, width, "  ! ", "    "))
 		}
 	}
+	if d.ListProblems {
+		geometryProblems(&b, d.GeometryProblems)
+	}
 	if d.Written != "" {
 		fmt.Fprintf(&b, "\nedge list written to %s\n", d.Written)
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// geometryProblems lists every geometry problem, one sentence each.
+func geometryProblems(b *strings.Builder, problems []weights.GeometryProblem) {
+	b.WriteString("\nGeometry problems\n")
+	if len(problems) == 0 {
+		b.WriteString("  none\n")
+	}
+	for _, p := range problems {
+		b.WriteString(Wrap(p.Text, width, "  - ", "    "))
+	}
 }
 
 func first(ids []string, n int) []string {

@@ -1,6 +1,7 @@
 package contig
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -161,19 +162,33 @@ func TestContigGeometryWarnings(t *testing.T) {
 	}
 }
 
-// Each kind of warning names 20 areas and counts the rest.
-func TestContigWarningsAreCapped(t *testing.T) {
+// Every problem is listed, each kind in area order, with its area's index
+// (capping the list is the reports' business).
+func TestContigProblemsListEveryArea(t *testing.T) {
 	var geoms []orb.MultiPolygon
 	for k := 0; k < 25; k++ {
 		x := float64(3 * k)
 		geoms = append(geoms, orb.MultiPolygon{{{{x, 0}, {x + 1, 0}, {x, 0}}}})
 	}
-	_, warns, err := Find(geoms, Options{})
+	geoms = append(geoms, orb.MultiPolygon{{{{0, 5}, {1, 6}, {1, 5}, {0, 6}, {0, 5}}}})
+	_, problems, err := Find(geoms, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(warns) != 42 || warns[20] != "weights: 5 more areas have sliver rings" || warns[41] != "weights: 5 more areas have no ring with an area" {
-		t.Errorf("%d warnings: %q", len(warns), warns)
+	if len(problems) != 51 {
+		t.Fatalf("%d problems: %q", len(problems), problems)
+	}
+	for k, p := range problems {
+		want := Problem{Kind: Sliver, Area: k}
+		switch {
+		case k == 50:
+			want = Problem{Kind: MeetsItself, Area: 25}
+		case k >= 25:
+			want = Problem{Kind: NoArea, Area: k - 25}
+		}
+		if p.Kind != want.Kind || p.Area != want.Area || !strings.Contains(p.Text, fmt.Sprintf("area index %d", want.Area)) {
+			t.Errorf("problem %d: %+v, want kind %d area %d", k, p, want.Kind, want.Area)
+		}
 	}
 }
 

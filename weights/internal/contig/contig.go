@@ -26,10 +26,12 @@ type Options struct {
 }
 
 // Find returns the neighbour pairs of the areas geoms as (lower, higher)
-// area index, sorted and without repeats, and the warnings about sliver
-// rings and rings that meet themselves. Errors name the first area in order
-// whose geometry makes contiguity meaningless.
-func Find(geoms []orb.MultiPolygon, opt Options) ([][2]int32, []string, error) {
+// area index, sorted and without repeats, and every problem with sliver
+// rings and rings that meet themselves: the slivers, then the areas with no
+// ring of positive area, then the rings that meet themselves, each kind in
+// area order. Errors name the first area in order whose geometry makes
+// contiguity meaningless.
+func Find(geoms []orb.MultiPolygon, opt Options) ([][2]int32, []Problem, error) {
 	names := namer{ids: opt.IDs}
 	b, err := check(geoms, names)
 	if err != nil {
@@ -51,9 +53,9 @@ func Find(geoms []orb.MultiPolygon, opt Options) ([][2]int32, []string, error) {
 	}
 	crossed := lay.crossed(found.crossings)
 	pairs := found.links(crossed)
-	warns := lay.sliverWarnings(crossed, snap, names)
-	warns = append(warns, lay.crossingWarnings(found.crossings, crossed, names)...)
-	return pairs, warns, nil
+	problems := lay.sliverProblems(crossed, snap, names)
+	problems = append(problems, lay.crossingProblems(found.crossings, crossed, names)...)
+	return pairs, problems, nil
 }
 
 // Factors of DefaultSnap: the coordinate scale factor, and the cap relative

@@ -481,24 +481,24 @@ func (l *layer) crossed(cs []crossing) []bool {
 	return out
 }
 
-// crossingWarnings turns the self-meeting points into one warning per area,
-// naming the first ring and point found (the order is that of the sorted
-// cells, so it is fixed by the input). Rings left out as slivers are not
-// named again.
-func (l *layer) crossingWarnings(cs []crossing, crossed []bool, names namer) []string {
+// crossingProblems turns the self-meeting points into one problem per
+// area, naming the first ring and point found (the order is that of the
+// sorted cells, so it is fixed by the input). Rings left out as slivers are
+// not named again.
+func (l *layer) crossingProblems(cs []crossing, crossed []bool, names namer) []Problem {
 	if len(cs) == 0 {
 		return nil
 	}
 	areaOf := func(c crossing) int32 { return l.seg[l.ringStart[c.ring]].area }
 	cs = slices.DeleteFunc(cs, func(c crossing) bool { return l.ringMaybe[c.ring] && !crossed[c.ring] })
 	slices.SortStableFunc(cs, func(a, b crossing) int { return int(areaOf(a)) - int(areaOf(b)) })
-	var w warningList
+	var out []Problem
 	for k, c := range cs {
 		if k > 0 && areaOf(cs[k-1]) == areaOf(c) {
 			continue
 		}
-		w.add(fmt.Sprintf("weights: %s: %s crosses or touches itself near (%v, %v); its sides are still used to find neighbours",
-			names.area(int(areaOf(c))), ringName(int(l.ringPart[c.ring]), int(l.ringHole[c.ring])), c.x, c.y))
+		out = append(out, Problem{MeetsItself, int(areaOf(c)), fmt.Sprintf("%s: %s crosses or touches itself near (%v, %v); its sides are still used to find neighbours",
+			names.area(int(areaOf(c))), ringName(int(l.ringPart[c.ring]), int(l.ringHole[c.ring])), c.x, c.y)})
 	}
-	return w.out("have rings that cross or touch themselves")
+	return out
 }

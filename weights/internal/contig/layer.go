@@ -169,31 +169,32 @@ type segment struct {
 // in the layer when it was kept as a candidate, -1 when it was left out.
 type sliverRing struct{ area, part, hole, ring int32 }
 
-// maxListed is how many areas each kind of warning names before the
-// rest are only counted.
-const maxListed = 20
+// Kind says what is wrong with an area's rings.
+type Kind int
 
-// warningList collects one kind of warning, listing the first few areas
-// and counting the rest.
-type warningList struct {
-	lines []string
-	more  int
+const (
+	// Sliver is a ring of about zero area, left out of the search.
+	Sliver Kind = iota
+	// NoArea is an area left with no ring of positive area: it gets no
+	// neighbour.
+	NoArea
+	// MeetsItself is a ring that crosses or touches itself; its sides are
+	// still used.
+	MeetsItself
+)
+
+// Problem is one geometry problem of one area, found on the way: never
+// fatal, reported to the user.
+type Problem struct {
+	Kind Kind
+	// Area is the area's index in the layer.
+	Area int
+	// Text says what is wrong, the area and ring named.
+	Text string
 }
 
-func (w *warningList) add(line string) {
-	if len(w.lines) < maxListed {
-		w.lines = append(w.lines, line)
-	} else {
-		w.more++
-	}
-}
-
-func (w *warningList) out(what string) []string {
-	if w.more > 0 {
-		return append(w.lines, fmt.Sprintf("weights: %d more areas %s", w.more, what))
-	}
-	return w.lines
-}
+// String returns the problem's text.
+func (p Problem) String() string { return p.Text }
 
 // flatten copies the boundaries of geoms (already checked by
 // check) into a layer, dropping repeated consecutive positions.
@@ -256,27 +257,27 @@ func flatten(geoms []orb.MultiPolygon, snap float64) (*layer, error) {
 	return l, nil
 }
 
-// sliverWarnings reports the sliver rings — those of about zero area that
+// sliverProblems reports the sliver rings — those of about zero area that
 // the search did not find crossing themselves — and the areas left with no
-// ring of positive area.
-func (l *layer) sliverWarnings(crossed []bool, snap float64, names namer) []string {
-	var slivers, empty warningList
+// ring of positive area, each kind in area order.
+func (l *layer) sliverProblems(crossed []bool, snap float64, names namer) []Problem {
+	var slivers, empty []Problem
 	solid := l.solid
 	for _, s := range l.slivers {
 		if s.ring >= 0 && crossed[s.ring] {
 			solid[s.area]++
 			continue
 		}
-		slivers.add(fmt.Sprintf("weights: %s: %s has no area (its mean width is at most the snap distance %g); it is left out of the neighbour search",
-			names.area(int(s.area)), ringName(int(s.part), int(s.hole)), snap))
+		slivers = append(slivers, Problem{Sliver, int(s.area), fmt.Sprintf("%s: %s has no area (its mean width is at most the snap distance %g); it is left out of the neighbour search",
+			names.area(int(s.area)), ringName(int(s.part), int(s.hole)), snap)})
 	}
 	for _, s := range l.slivers {
 		if solid[s.area] == 0 {
-			solid[s.area] = -1 // one warning per area
-			empty.add(fmt.Sprintf("weights: %s has no ring with an area; it gets no neighbour", names.area(int(s.area))))
+			solid[s.area] = -1 // one problem per area
+			empty = append(empty, Problem{NoArea, int(s.area), fmt.Sprintf("%s has no ring with an area; it gets no neighbour", names.area(int(s.area)))})
 		}
 	}
-	return append(slivers.out("have sliver rings"), empty.out("have no ring with an area")...)
+	return append(slivers, empty...)
 }
 
 // isSliver reports whether a closed ring (given by its vertices, the

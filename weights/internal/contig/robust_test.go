@@ -29,14 +29,19 @@ func pairsDiff(got, want [][2]int32) string {
 	return ""
 }
 
-// build runs Find, failing the test on an error.
+// build runs Find, failing the test on an error, and returns the pairs
+// and the problems' texts.
 func build(t *testing.T, geoms []orb.MultiPolygon, opt Options) ([][2]int32, []string) {
 	t.Helper()
-	pairs, warns, err := Find(geoms, opt)
+	pairs, problems, err := Find(geoms, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return pairs, warns
+	texts := make([]string, len(problems))
+	for k, p := range problems {
+		texts[k] = p.Text
+	}
+	return pairs, texts
 }
 
 // rules are the two contiguity rules, for loops over both.
@@ -208,6 +213,50 @@ func TestContigRookMinimumSharedLength(t *testing.T) {
 			pairs, _ := build(t, []orb.MultiPolygon{a, b}, r.rule)
 			if got := len(pairs) == 1; got != r.want {
 				t.Errorf("shared %g, %s: neighbours %v, want %v", c.shared, ruleName(r.rule), got, r.want)
+			}
+		}
+	}
+}
+
+// Two triangles that meet only at one vertex are queen neighbours and
+// never rook ones, whatever the angle between their nearest sides: a side
+// leaving the corner at an angle θ stays within snap of the other for
+// snap/tan θ (plane geometry), which a length threshold alone would take
+// for a border at small angles. Checked with the default snap and a wide
+// one, with the corner copies apart by 0.3·snap, on a lon/lat patch, turned
+// so that no side is axis-aligned.
+func TestContigRookCornerAtAnyAngle(t *testing.T) {
+	tri := func(x0, y0, turn float64, angles ...float64) orb.MultiPolygon {
+		ring := orb.Ring{{x0, y0}}
+		for _, a := range angles {
+			s, c := math.Sincos((a + turn) * math.Pi / 180)
+			ring = append(ring, orb.Point{x0 + 0.5*c, y0 + 0.5*s})
+		}
+		return orb.MultiPolygon{{append(ring, ring[0])}}
+	}
+	for _, deg := range []float64{2, 5, 15, 30, 60} {
+		for _, snap := range []float64{0, 1e-3} {
+			for _, shift := range []float64{0, 0.3} {
+				for _, turn := range []float64{0, 37} {
+					// a lies below the side at angle 0, b above the side at deg.
+					a := tri(-100, 40, turn, -40, 0)
+					s := snap
+					if s == 0 {
+						s = DefaultSnap([]orb.MultiPolygon{a, a})
+					}
+					b := tri(-100+shift*s, 40, turn, deg, deg+20)
+					geoms := []orb.MultiPolygon{a, b}
+					for _, r := range []struct {
+						rule Options
+						want bool
+					}{{rules[0], true}, {rules[1], false}} {
+						r.rule.Snap = snap
+						pairs, warns := build(t, geoms, r.rule)
+						if got := len(pairs) == 1; got != r.want || len(warns) != 0 {
+							t.Errorf("%g° snap %g shift %g turn %g, %s: neighbours %v, want %v (warnings %q)", deg, snap, shift, turn, ruleName(r.rule), got, r.want, warns)
+						}
+					}
+				}
 			}
 		}
 	}

@@ -5,8 +5,8 @@ import "math"
 // Segment predicates for contiguity, written by hand rather than taken from
 // a general geometry library: the search needs three narrow questions
 // answered with one tolerance (do two sides come within snap; over what
-// length do they run within snap of each other; do two sides of a ring meet
-// exactly), and each is a handful of multiplications. All differences are
+// length do they run together, between vertices within snap of the other
+// side; do two sides of a ring meet exactly), and each is a handful of multiplications. All differences are
 // taken before any product, so coordinates of any magnitude keep the
 // precision of their differences.
 
@@ -50,12 +50,18 @@ func segNear(ax, ay, bx, by, cx, cy, dx, dy, snap2 float64) bool {
 		segCross(ax, ay, bx, by, cx, cy, dx, dy)
 }
 
-// segShared returns the length along which segments a–b and c–d run within
-// snap of each other: measured on the longer one, the stretch of it that
-// the other projects onto while lying within snap of its line. Sides that
-// merely cross, or meet end to end at an angle, give a length of the order
-// of snap or less; sides that lie along one another give the length of
-// their overlap, whether or not their vertices coincide.
+// segShared returns the length along which segments a–b and c–d run
+// together: measured on the longer one, the stretch between the vertices of
+// either side that lie within snap of the other side (0 when fewer than two
+// do). Between two such vertices both sides stay within snap of each other,
+// distance to a segment being convex. Sides that lie along one another give
+// the length of their overlap, whether or not their vertices coincide; sides
+// that only meet — at a shared corner, however narrow the angle between
+// them, or crossing — give at most about the snap distance: the stretch
+// where a side leaving a corner at an angle θ is still within snap of the
+// other (snap/tan θ, long for small θ) ends at no vertex and does not count.
+// Only a side short enough to lie within snap of the other over its whole
+// length counts whole.
 func segShared(ax, ay, bx, by, cx, cy, dx, dy, snap float64) float64 {
 	ux, uy := bx-ax, by-ay
 	vx, vy := dx-cx, dy-cy
@@ -68,34 +74,28 @@ func segShared(ax, ay, bx, by, cx, cy, dx, dy, snap float64) float64 {
 		return 0
 	}
 	ux, uy = ux/l, uy/l
-	// The other side, c + τ(d−c) for τ in [0, 1], in coordinates along
-	// (s) and across (h) the line of the longer one, from a.
-	s0 := (cx-ax)*ux + (cy-ay)*uy
-	s1 := (dx-ax)*ux + (dy-ay)*uy
-	h0 := (cy-ay)*ux - (cx-ax)*uy
-	h1 := (dy-ay)*ux - (dx-ax)*uy
-	lo, hi := segClip(0, 1, s0, s1-s0, 0, l)
-	lo, hi = segClip(lo, hi, h0, h1-h0, -snap, snap)
+	snap2 := snap * snap
+	// Positions along a–b, from a, of the vertices within snap of the
+	// other side.
+	lo, hi := math.Inf(1), math.Inf(-1)
+	if segPointDist2(ax, ay, cx, cy, dx, dy) <= snap2 {
+		lo, hi = 0, 0
+	}
+	if segPointDist2(bx, by, cx, cy, dx, dy) <= snap2 {
+		lo, hi = min(lo, l), l
+	}
+	if segPointDist2(cx, cy, ax, ay, bx, by) <= snap2 {
+		s := min(max((cx-ax)*ux+(cy-ay)*uy, 0), l)
+		lo, hi = min(lo, s), max(hi, s)
+	}
+	if segPointDist2(dx, dy, ax, ay, bx, by) <= snap2 {
+		s := min(max((dx-ax)*ux+(dy-ay)*uy, 0), l)
+		lo, hi = min(lo, s), max(hi, s)
+	}
 	if hi <= lo {
 		return 0
 	}
-	return (hi - lo) * math.Abs(s1-s0)
-}
-
-// segClip narrows [lo, hi] to the τ where m ≤ c + d·τ ≤ M; an empty result
-// has hi ≤ lo.
-func segClip(lo, hi, c, d, m, M float64) (float64, float64) {
-	if d == 0 {
-		if c < m || c > M {
-			return 1, 0
-		}
-		return lo, hi
-	}
-	t1, t2 := (m-c)/d, (M-c)/d
-	if t1 > t2 {
-		t1, t2 = t2, t1
-	}
-	return max(lo, t1), min(hi, t2)
+	return hi - lo
 }
 
 // segMeet says whether segments a–b and c–d have any point in common,

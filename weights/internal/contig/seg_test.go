@@ -20,11 +20,18 @@ func TestContigSegShared(t *testing.T) {
 		{"parallel half a snap apart", [4]float64{0, 0, 2, 0}, [4]float64{0, 0.5 * snap, 2, 0.5 * snap}, 2, 2},
 		{"parallel two snaps apart", [4]float64{0, 0, 2, 0}, [4]float64{0, 2 * snap, 2, 2 * snap}, 0, 0},
 		{"end to end on one line", [4]float64{0, 0, 1, 0}, [4]float64{1, 0, 2, 0}, 0, 0},
-		{"corner at a right angle", [4]float64{0, 0, 1, 0}, [4]float64{1, 0, 1, 1}, 0, snap},
-		{"crossing at a right angle", [4]float64{0, 0, 2, 0}, [4]float64{1, -1, 1, 1}, 0, 2 * snap},
+		{"corner at a right angle", [4]float64{0, 0, 1, 0}, [4]float64{1, 0, 1, 1}, 0, 0},
+		{"corner copies half a snap apart", [4]float64{0, 0, 1, 0}, [4]float64{0.5 * snap, 0, 1, 1}, 0, 0.5 * snap},
+		{"crossing at a right angle", [4]float64{0, 0, 2, 0}, [4]float64{1, -1, 1, 1}, 0, 0},
 		// A side leaving at a slope of 1e-3 stays within snap of the
-		// other for snap/1e-3 = 1e-3 along it.
-		{"slight angle", [4]float64{0, 0, 1, 0}, [4]float64{0, 0, 1, 1e-3}, 1e-3 - 1e-9, 1e-3 + 1e-9},
+		// other for snap/1e-3 = 1e-3 along it, but that stretch ends at
+		// no vertex: a corner, not a shared border.
+		{"slight angle", [4]float64{0, 0, 1, 0}, [4]float64{0, 0, 1, 1e-3}, 0, 0},
+		{"crossing at a slight angle", [4]float64{0, 0, 2, 0}, [4]float64{0, -1e-3, 2, 1e-3}, 0, 0},
+		// A side so short that it lies within snap of the other all along
+		// counts whole (here 10·snap, at a slope of 1e-3).
+		{"short side at a slight angle", [4]float64{0, 0, 1, 0}, [4]float64{0, 0, 10 * snap, 1e-2 * snap}, 10 * snap, 10 * snap},
+		{"T-junction along a side", [4]float64{0, 0, 2, 0}, [4]float64{0.5, 0.5 * snap, 1.5, -0.5 * snap}, 1, 1},
 		{"far apart", [4]float64{0, 0, 1, 0}, [4]float64{5, 5, 6, 5}, 0, 0},
 	}
 	for _, c := range cases {
