@@ -7,6 +7,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"github.com/paulmach/orb"
 )
@@ -218,12 +219,13 @@ func (e *NotNumericError) writeBad(b *strings.Builder) {
 }
 
 // quoteValue quotes a value for a message, cut to 40 characters; JSON
-// objects and arrays (as readers render them) are shown as they are.
+// objects and arrays (as readers render them) are shown as they are, unless
+// they hold control characters, which would break the message's line.
 func quoteValue(s string) string {
 	if r := []rune(s); len(r) > 40 {
 		s = string(r[:37]) + "..."
 	}
-	if strings.HasPrefix(s, "{") || strings.HasPrefix(s, "[") {
+	if (strings.HasPrefix(s, "{") || strings.HasPrefix(s, "[")) && strings.IndexFunc(s, unicode.IsControl) < 0 {
 		return s
 	}
 	return strconv.Quote(s)

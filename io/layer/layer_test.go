@@ -65,6 +65,8 @@ func TestNotNumeric(t *testing.T) {
 		// not ("yes", area "b") is the one named.
 		{"text", []string{"7", "yes", "no", "no", "01001", "1e999"}, []bool{false, true, true, true, true, true},
 			`t.geojson: column "v" is not numeric (5 of its 6 values are not numbers: "yes" in area "b", "no" in area "c", "no" in area "d" and 2 more); the outcome must be a number`, false},
+		{"line break", []string{"{\n", "2", "3", "4", "5", "6"}, []bool{true, false, false, false, false, false},
+			`t.geojson: column "v" holds numbers except for 1 of its 6 values: "{\n" in area "a"; the outcome must be a number`, true},
 		{"codes and range", []string{"01001", "1e999", "x", "y", "z", "w"}, []bool{true, true, true, true, true, true},
 			`t.geojson: column "v" is not numeric (6 of its 6 values are not numbers: "01001" in area "a" (a code with a leading zero), "1e999" in area "b" (beyond the range of numbers), "x" in area "c" and 3 more); the outcome must be a number`, false},
 	} {
