@@ -188,20 +188,25 @@ type BadValue struct{ ID, Value string }
 func (e *NotNumericError) Is(target error) bool { return target == ErrNotNumeric }
 
 func (e *NotNumericError) Error() string {
+	return fmt.Sprintf("%s: column %q %s; %s must be a number", e.Source, e.Column, e.Detail(), e.Role)
+}
+
+// Detail says what the column holds, without the source, the column and
+// the role: "is not numeric: it holds numbers except for 2 of its 200
+// values: …" when most values are numbers, "is not numeric (…)" otherwise.
+func (e *NotNumericError) Detail() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s: column %q ", e.Source, e.Column)
 	switch {
 	case len(e.Bad) == 0:
 		b.WriteString("is not numeric")
 	case e.Mostly:
-		fmt.Fprintf(&b, "holds numbers except for %d of its %d values: ", e.BadCount, e.Present)
+		fmt.Fprintf(&b, "is not numeric: it holds numbers except for %d of its %d values: ", e.BadCount, e.Present)
 		e.writeBad(&b)
 	default:
 		fmt.Fprintf(&b, "is not numeric (%d of its %d values are not numbers: ", e.BadCount, e.Present)
 		e.writeBad(&b)
 		b.WriteString(")")
 	}
-	fmt.Fprintf(&b, "; %s must be a number", e.Role)
 	return b.String()
 }
 

@@ -58,15 +58,15 @@ func TestNotNumeric(t *testing.T) {
 		mostly    bool
 	}{
 		{"decimal comma and an object", []string{"1", "12,5", "3", `{"k":1}`, "5", ""}, []bool{false, true, false, true, false, false},
-			`t.geojson: column "v" holds numbers except for 2 of its 5 values: "12,5" in area "b" (a decimal comma? numbers take a decimal point: 12.5), {"k":1} in area "d"; the outcome must be a number`, true},
+			`t.geojson: column "v" is not numeric: it holds numbers except for 2 of its 5 values: "12,5" in area "b" (a decimal comma? numbers take a decimal point: 12.5), {"k":1} in area "d"; the outcome must be a number`, true},
 		{"thousands or decimal", []string{"1", "2", "1,250", "4", "5", "6"}, []bool{false, false, true, false, false, false},
-			`t.geojson: column "v" holds numbers except for 1 of its 6 values: "1,250" in area "c" (a decimal comma or a thousands separator? write 1.250 or 1250); the outcome must be a number`, true},
+			`t.geojson: column "v" is not numeric: it holds numbers except for 1 of its 6 values: "1,250" in area "c" (a decimal comma or a thousands separator? write 1.250 or 1250); the outcome must be a number`, true},
 		// The first value of the column is a number; the first that is
 		// not ("yes", area "b") is the one named.
 		{"text", []string{"7", "yes", "no", "no", "01001", "1e999"}, []bool{false, true, true, true, true, true},
 			`t.geojson: column "v" is not numeric (5 of its 6 values are not numbers: "yes" in area "b", "no" in area "c", "no" in area "d" and 2 more); the outcome must be a number`, false},
 		{"line break", []string{"{\n", "2", "3", "4", "5", "6"}, []bool{true, false, false, false, false, false},
-			`t.geojson: column "v" holds numbers except for 1 of its 6 values: "{\n" in area "a"; the outcome must be a number`, true},
+			`t.geojson: column "v" is not numeric: it holds numbers except for 1 of its 6 values: "{\n" in area "a"; the outcome must be a number`, true},
 		{"codes and range", []string{"01001", "1e999", "x", "y", "z", "w"}, []bool{true, true, true, true, true, true},
 			`t.geojson: column "v" is not numeric (6 of its 6 values are not numbers: "01001" in area "a" (a code with a leading zero), "1e999" in area "b" (beyond the range of numbers), "x" in area "c" and 3 more); the outcome must be a number`, false},
 	} {
