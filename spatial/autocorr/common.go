@@ -85,7 +85,7 @@ func (e *TooLargeError) Error() string {
 	if e.ID != "" {
 		where = fmt.Sprintf("area %q", e.ID)
 	}
-	msg := fmt.Sprintf("the values are too large to square (%g in %s): the statistics square the deviations from the mean and square them again, which overflows; rescale the column (divide it by a power of ten)", e.Value, where)
+	msg := fmt.Sprintf("the values are too large to square (%.4g in %s): the statistics square the deviations from the mean and square them again, which overflows; rescale the column (divide it by a power of ten)", e.Value, where)
 	if e.Column != "" {
 		msg = fmt.Sprintf("column %q: %s", e.Column, msg)
 	}
