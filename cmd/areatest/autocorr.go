@@ -73,7 +73,10 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 
 // autocorrColumns puts the named columns of the layer into in: numeric
 // variables, text ones for join counts, the --against column and the rate's
-// events and population.
+// events and population. A text column most of whose values are numbers
+// is an error naming the values that are not: it is numbers with a few bad
+// values, not categories (the join counts' other rule, on categories of a
+// single area, is clustering's).
 func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string, against, events, population string) error {
 	for _, v := range variables {
 		col, err := lay.Column(v)
@@ -82,6 +85,8 @@ func autocorrColumns(in *clustering.Input, lay *layer.Layer, variables []string,
 			return err
 		case col.Kind == layer.Number:
 			in.Numeric = append(in.Numeric, clusterColumn(col))
+		case col.MostlyNumbers():
+			return fmt.Errorf("%s: column %q %s; correct them to test it as numbers (join counts take only columns of categories)", lay.Source, col.Name, lay.NotNumeric(col, "").Detail())
 		default:
 			in.Categorical = append(in.Categorical, clustering.Categories{Name: v, Labels: col.Labels(), Missing: col.Missing})
 		}

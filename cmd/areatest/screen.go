@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/progress"
@@ -31,11 +32,17 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	in, opt := c.clustering()
 	opt.Adjust = method
-	sin := clustering.ScreenInput{Input: in, IDColumn: c.lay.IDColumn, Excluded: exclude}
+	sin := clustering.ScreenInput{Input: in, IDColumn: c.lay.IDColumn, Excluded: exclude, TextReasons: map[string]string{}}
 	for _, col := range c.lay.Columns {
-		if col.Kind == layer.Number {
+		switch {
+		case col.Kind == layer.Number:
 			sin.Numeric = append(sin.Numeric, clusterColumn(col))
-		} else {
+		case col.MostlyNumbers():
+			// Numbers with a few bad values: name them, so that they can be
+			// fixed, rather than call the column text.
+			sin.Text = append(sin.Text, col.Name)
+			sin.TextReasons[col.Name] = strings.TrimPrefix(c.lay.NotNumeric(col, "").Detail(), "is ")
+		default:
 			sin.Text = append(sin.Text, col.Name)
 		}
 	}

@@ -42,7 +42,12 @@
 //     except that a numeric string with a leading zero ("01001") marks the
 //     column as codes, so it stays Text. Otherwise the column is Text:
 //     booleans as true/false, numbers in shortest form, and objects or arrays
-//     as compact JSON text.
+//     as compact JSON text; its Column.NotNumber marks the values that are
+//     not numbers (words, codes with a leading zero, booleans, objects,
+//     numbers beyond float64), so that a caller can tell numbers with a few
+//     bad values from text.
+//   - A key repeated within one feature's properties: the last value wins,
+//     and only it counts towards the column's kind.
 //
 // The package never prints; warnings are returned to the caller, and every
 // error Read returns is an *Error with the source, the feature, its id and,

@@ -67,11 +67,19 @@ func (rd *reader) fail(feature int, id, format string, args ...any) *Error {
 // jsonError turns an error from the JSON decoder into a one-line message.
 // fromToken says whether it came from Decoder.Token, whose syntax errors
 // carry the absolute offset of the bad byte; errors from Decoder.Decode do
-// not, so their position is found by scanning the value again.
+// not, so their position is found by scanning the value again. An input
+// that fails on its first byte and looks like another format (notGeoJSON)
+// is called what it looks like instead.
 func (rd *reader) jsonError(err error, feature int, id string, fromToken bool) *Error {
 	var se *json.SyntaxError
 	switch {
 	case errors.As(err, &se):
+		if feature == 0 && rd.dec.InputOffset() <= 1 {
+			if e := rd.notGeoJSON(); e != nil {
+				e.Err = err
+				return e
+			}
+		}
 		idx := rd.syntaxOffset(se, fromToken)
 		line, col, ok := rd.lineColumn(idx)
 		at := fmt.Sprintf("byte offset %d", idx)
@@ -81,9 +89,6 @@ func (rd *reader) jsonError(err error, feature int, id string, fromToken bool) *
 		msg := se.Error()
 		if c := badChar(msg); c == "N" || c == "I" {
 			msg += " (NaN and Infinity are not JSON numbers)"
-		}
-		if feature == 0 && rd.dec.InputOffset() <= 1 {
-			msg += rd.formatHint()
 		}
 		e := rd.fail(feature, id, "not valid JSON at %s: %s", at, msg)
 		e.Err = err
@@ -117,20 +122,45 @@ func badChar(msg string) string {
 	return rest[:j]
 }
 
-// formatHint recognises a few common non-JSON files by their first bytes,
-// which the JSON error alone would leave a puzzle.
-func (rd *reader) formatHint() string {
+// notGeoJSON recognises a few common formats by the first bytes of the
+// input, which a JSON syntax error alone would leave a puzzle: compressed
+// files and archives, databases, shapefiles, XML (KML, GML) and delimited
+// text (CSV: a first line with commas, semicolons or tabs that does not
+// start a JSON object or array). It returns nil for anything else.
+func (rd *reader) notGeoJSON() *Error {
+	const prefix = "not GeoJSON: the input looks "
+	h := rd.head
 	switch {
-	case strings.HasPrefix(rd.head, "\x1f\x8b"):
-		return " (the input looks gzip-compressed; decompress it first)"
-	case strings.HasPrefix(rd.head, "PK"):
-		return " (the input looks like a ZIP archive; unpack it first)"
-	case strings.HasPrefix(rd.head, "SQLite format"):
-		return " (the input looks like a GeoPackage/SQLite database, not GeoJSON)"
-	case strings.HasPrefix(rd.head, "\x00\x00\x27\x0a"):
-		return " (the input looks like a shapefile, not GeoJSON)"
+	case strings.HasPrefix(h, "\x1f\x8b"):
+		return rd.fail(0, "", prefix+"gzip-compressed; decompress it first")
+	case strings.HasPrefix(h, "PK"):
+		return rd.fail(0, "", prefix+"like a ZIP archive; unpack it first")
+	case strings.HasPrefix(h, "SQLite format"):
+		return rd.fail(0, "", prefix+"like a GeoPackage/SQLite database; export the layer as a GeoJSON FeatureCollection")
+	case strings.HasPrefix(h, "\x00\x00\x27\x0a"):
+		return rd.fail(0, "", prefix+"like a shapefile; export the layer as a GeoJSON FeatureCollection")
 	}
-	return ""
+	first := strings.TrimSpace(h)
+	if i := strings.IndexByte(first, '\n'); i >= 0 {
+		first = strings.TrimSpace(first[:i])
+	}
+	switch {
+	case first == "" || first[0] == '{' || first[0] == '[':
+		return nil
+	case first[0] == '<':
+		return rd.fail(0, "", prefix+"like XML (KML or GML?); convert it to a GeoJSON FeatureCollection")
+	case strings.ContainsAny(first, ",;\t"):
+		return rd.fail(0, "", prefix+"like a table of delimited text (CSV), its first line %s; give the areas as a GeoJSON FeatureCollection, with the table's columns as properties", quoteLine(first))
+	}
+	return nil
+}
+
+// quoteLine quotes the start of a line for a message, cut to 60 bytes.
+func quoteLine(s string) string {
+	if len(s) > 60 {
+		s = strings.ToValidUTF8(s[:57], "") + "..."
+	}
+	return quote(s)
 }
 
 // syntaxOffset finds the byte offset of a syntax error in the input.

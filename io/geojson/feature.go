@@ -46,6 +46,7 @@ type featureState struct {
 	members  []cell
 	gmembers []cell
 	cells    []cell
+	builders []*colBuilder // the column of each cell of the feature
 	geom     geomParser
 }
 
@@ -231,13 +232,23 @@ func (rd *reader) areaID(pos int, id, featureID string) (string, error) {
 }
 
 // addRow appends an area: its id, its geometry and its properties, with
-// every column it lacks marked missing.
+// every column it lacks marked missing. Of a key repeated within the
+// properties only the last value is stored, so it alone decides, with the
+// other rows, whether the column holds numbers.
 func (fs *featureState) addRow(id string, mp orb.MultiPolygon, cells []cell) {
 	row := len(fs.ids)
 	fs.ids = append(fs.ids, id)
 	fs.geoms = append(fs.geoms, mp)
+	fs.builders = fs.builders[:0]
 	for i := range cells {
-		fs.column(cells[i].key, row).set(row, cells[i].raw)
+		b := fs.column(cells[i].key, row)
+		b.last = i
+		fs.builders = append(fs.builders, b)
+	}
+	for i, b := range fs.builders {
+		if b.last == i {
+			b.set(cells[i].raw)
+		}
 	}
 	for _, b := range fs.cols {
 		if len(b.missing) == row {

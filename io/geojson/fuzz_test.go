@@ -15,6 +15,11 @@ func FuzzRead(f *testing.F) {
 	f.Add([]byte(fc(feat(`"a"`, poly(`[[[500000,0],[1,0],[1,1],[0,0]]]`), `{}`))), false)
 	f.Add([]byte(`{"type":"Feature"}`), false)
 	f.Add([]byte(`[1,2`), false)
+	// Columns of numbers with bad values, repeated keys of different kinds,
+	// and a CSV table given as GeoJSON.
+	f.Add([]byte(fc(feat(`"a"`, poly(square), `{"v":"12,5","w":"x","w":2,"c":"01001"}`), feat(`"b"`, poly(square), `{"v":3,"w":{"k":1},"c":1e999}`))), false)
+	f.Add([]byte("GEOID,rate\r\n01001,2.5\r\n"), false)
+	f.Add([]byte("<?xml version=\"1.0\"?>"), false)
 	f.Fuzz(func(t *testing.T, data []byte, idColumn bool) {
 		opt := Options{SkipBadGeometry: len(data)%2 == 0}
 		if idColumn {
@@ -38,5 +43,15 @@ func FuzzRead(f *testing.F) {
 			t.Fatal("nil layer without error")
 		}
 		checkShape(t, lay)
+		// Every column asked for as numbers: no panic, one line naming the
+		// source.
+		for _, c := range lay.Columns {
+			c.MostlyNumbers()
+			if _, err := lay.NumericColumn(c.Name, "the variable"); err != nil {
+				if msg := err.Error(); strings.ContainsAny(msg, "\n\r") || !strings.HasPrefix(msg, "fuzz.geojson: ") {
+					t.Fatalf("bad column message %q", msg)
+				}
+			}
+		}
 	})
 }

@@ -286,13 +286,18 @@ func isWhole(raw []byte, v float64) bool {
 // colBuilder gathers one property across the features. While every value
 // seen is numeric it keeps floats, and text only for values whose written
 // form differs from the float's shortest form; at the first non-numeric
-// value it turns into a text column for good.
+// value it turns into a text column for good, and from then on notNum
+// marks the values that are not numbers (layer.Column.NotNumber).
 type colBuilder struct {
 	name    string
 	numeric bool
 	num     []float64
 	str     []string // nil while no numeric value needs its written form kept
+	notNum  []bool   // nil while numeric
 	missing []bool
+	// last is the position, among the current feature's properties, of the
+	// last cell with this key (featureState.addRow).
+	last int
 }
 
 func newColBuilder(name string, rows int) *colBuilder {
@@ -303,12 +308,8 @@ func newColBuilder(name string, rows int) *colBuilder {
 	return b
 }
 
-// set stores the value of row, which is either the next row or, for a key
-// repeated within one object, the row just stored (the last value wins).
-func (b *colBuilder) set(row int, raw []byte) {
-	if len(b.missing) > row {
-		b.pop()
-	}
+// set stores the value of the next row.
+func (b *colBuilder) set(raw []byte) {
 	if len(raw) == 0 {
 		b.addMissing()
 		return
@@ -346,7 +347,9 @@ func (b *colBuilder) set(row int, raw []byte) {
 	}
 }
 
-// addString stores a JSON string value: missing, a number, or text.
+// addString stores a JSON string value: missing, a number, or text. A
+// string holding a number is a number in a text column too, so that the
+// column keeps count of its numbers.
 func (b *colBuilder) addString(raw []byte) {
 	inner := raw[1 : len(raw)-1]
 	if bytes.IndexByte(inner, '\\') >= 0 {
@@ -357,7 +360,7 @@ func (b *colBuilder) addString(raw []byte) {
 		b.addMissing()
 		return
 	}
-	if b.numeric && isDecimal(t) && !hasLeadingZero(t) {
+	if isDecimal(t) && !hasLeadingZero(t) {
 		if v, err := strconv.ParseFloat(string(t), 64); err == nil && !math.IsInf(v, 0) {
 			var buf [32]byte
 			var text string
@@ -381,7 +384,9 @@ func (b *colBuilder) addNumber(v float64, text string) {
 		if text == "" {
 			text = formatNumber(v)
 		}
-		b.addText(text)
+		b.str = append(b.str, text)
+		b.notNum = append(b.notNum, false)
+		b.missing = append(b.missing, false)
 		return
 	}
 	if text != "" && b.str == nil {
@@ -394,17 +399,21 @@ func (b *colBuilder) addNumber(v float64, text string) {
 	b.missing = append(b.missing, false)
 }
 
+// addText stores a value that is not a number.
 func (b *colBuilder) addText(s string) {
 	if b.numeric {
 		b.toText()
 	}
 	b.str = append(b.str, s)
+	b.notNum = append(b.notNum, true)
 	b.missing = append(b.missing, false)
 }
 
 func (b *colBuilder) addMissing() {
 	if b.numeric {
 		b.num = append(b.num, math.NaN())
+	} else {
+		b.notNum = append(b.notNum, false)
 	}
 	if !b.numeric || b.str != nil {
 		b.str = append(b.str, "")
@@ -412,19 +421,8 @@ func (b *colBuilder) addMissing() {
 	b.missing = append(b.missing, true)
 }
 
-// pop drops the last row, to replace the value of a repeated key.
-func (b *colBuilder) pop() {
-	n := len(b.missing) - 1
-	b.missing = b.missing[:n]
-	if b.numeric {
-		b.num = b.num[:n]
-	}
-	if b.str != nil {
-		b.str = b.str[:n]
-	}
-}
-
-// toText renders the numbers stored so far and drops the floats.
+// toText renders the numbers stored so far and drops the floats; every
+// row so far was a number or missing.
 func (b *colBuilder) toText() {
 	if b.str == nil {
 		b.str = make([]string, len(b.num), cap(b.num))
@@ -434,6 +432,7 @@ func (b *colBuilder) toText() {
 			b.str[i] = formatNumber(v)
 		}
 	}
+	b.notNum = make([]bool, len(b.num), cap(b.num))
 	b.num = nil
 	b.numeric = false
 }
@@ -444,5 +443,5 @@ func (b *colBuilder) column() *layer.Column {
 	if b.numeric {
 		return &layer.Column{Name: b.name, Kind: layer.Number, Num: b.num, Missing: b.missing}
 	}
-	return &layer.Column{Name: b.name, Kind: layer.Text, Str: b.str, Missing: b.missing}
+	return &layer.Column{Name: b.name, Kind: layer.Text, Str: b.str, Missing: b.missing, NotNumber: b.notNum}
 }

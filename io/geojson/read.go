@@ -96,7 +96,7 @@ func newReader(r io.Reader, source string, opt Options) *reader {
 	// Peek at the first bytes: a UTF-8 byte-order mark is dropped (RFC 8259
 	// lets parsers ignore it, and Windows tools write one), and the rest
 	// helps name a non-JSON input.
-	var head [16]byte
+	var head [256]byte
 	n, err := io.ReadFull(r, head[:])
 	h := head[:n]
 	if bytes.HasPrefix(h, []byte("\xef\xbb\xbf")) {
@@ -133,6 +133,9 @@ func (rd *reader) run() (*layer.Layer, error) {
 		return nil, rd.jsonError(err, 0, "", true)
 	}
 	if d, ok := tok.(json.Delim); !ok || d != '{' {
+		if e := rd.notGeoJSON(); e != nil {
+			return nil, e
+		}
 		return nil, rd.fail(0, "", "the input is %s, not a GeoJSON FeatureCollection object", tokenKind(tok))
 	}
 	var top topLevel

@@ -59,6 +59,16 @@ func TestReadErrors(t *testing.T) {
 		{"empty input", ``, Options{}, []string{"counties.geojson: ", "empty"}},
 		{"blank input", "  \n ", Options{}, []string{"counties.geojson: ", "empty"}},
 		{"gzip", "\x1f\x8b\x08\x00rest", Options{}, []string{"counties.geojson: ", "gzip"}},
+		// Other formats are called what they look like, not a JSON
+		// syntax error about their first letter.
+		{"CSV", "GEOID,rate\r\n01001,2.5\r\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV", `first line "GEOID,rate"`}},
+		{"CSV starting with null-like word", "name,rate\nx,1\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV", `"name,rate"`}},
+		{"CSV of quoted names", "\"id\";\"rate\"\n\"a\";1\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV", `"\"id\";\"rate\""`}},
+		{"CSV of numbers", "1,2,3\n4,5,6\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV"}},
+		{"tab-separated", "id\trate\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV"}},
+		{"CSV with a long first line", strings.Repeat("column,", 40) + "\n", Options{}, []string{"counties.geojson: not GeoJSON: ", "CSV", `..."`}},
+		{"KML", `<?xml version="1.0"?><kml/>`, Options{}, []string{"counties.geojson: not GeoJSON: ", "XML"}},
+		{"zip", "PK\x03\x04rest", Options{}, []string{"counties.geojson: not GeoJSON: ", "ZIP"}},
 		{"array at top", `[` + sq(`1`) + `]`, Options{}, []string{"counties.geojson: ", "JSON array, not a GeoJSON FeatureCollection"}},
 		{"string at top", `"FeatureCollection"`, Options{}, []string{"counties.geojson: ", "JSON string"}},
 		{"single feature", sq(`1`), Options{}, []string{"counties.geojson: ", "single GeoJSON Feature"}},
@@ -209,12 +219,17 @@ func checkShape(t testing.TB, lay *layer.Layer) {
 		}
 		switch c.Kind {
 		case layer.Number:
-			if len(c.Num) != n || c.Str != nil {
-				t.Fatalf("number column %q: %d numbers, %d strings", c.Name, len(c.Num), len(c.Str))
+			if len(c.Num) != n || c.Str != nil || c.NotNumber != nil {
+				t.Fatalf("number column %q: %d numbers, %d strings, %d marks", c.Name, len(c.Num), len(c.Str), len(c.NotNumber))
 			}
 		case layer.Text:
-			if len(c.Str) != n || c.Num != nil {
-				t.Fatalf("text column %q: %d strings, %d numbers", c.Name, len(c.Str), len(c.Num))
+			if len(c.Str) != n || c.Num != nil || len(c.NotNumber) != n {
+				t.Fatalf("text column %q: %d strings, %d numbers, %d marks", c.Name, len(c.Str), len(c.Num), len(c.NotNumber))
+			}
+			for i, bad := range c.NotNumber {
+				if bad && c.Missing[i] {
+					t.Fatalf("text column %q: row %d is missing and marked not a number", c.Name, i)
+				}
 			}
 		}
 	}
@@ -308,9 +323,51 @@ func TestNumericStringsKeepTheirTextInMixedColumns(t *testing.T) {
 }
 
 func TestRepeatedKeyLastWins(t *testing.T) {
-	lay, _ := mustRead(t, fc(feat(`1`, poly(square), `{"v":1,"v":"two"}`), feat(`2`, poly(square), `{"v":3}`)), Options{})
-	if c := lay.Columns[0]; len(lay.Columns) != 1 || c.Kind != layer.Text || fmt.Sprint(c.Str) != "[two 3]" {
-		t.Errorf("got %+v", lay.Columns)
+	for _, c := range []struct {
+		name, first string
+		kind        layer.Kind
+		want        string
+	}{
+		{"text last", `{"v":1,"v":"two"}`, layer.Text, "[two 3]"},
+		// The earlier text value must not make the column text.
+		{"number last", `{"v":"two","v":1}`, layer.Number, "[1 3]"},
+		{"object then number", `{"v":{"a":1},"w":5,"v":"2.5"}`, layer.Number, "[2.5 3]"},
+		{"missing last", `{"v":"x","v":null}`, layer.Number, "[ 3]"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			lay, _ := mustRead(t, fc(feat(`1`, poly(square), c.first), feat(`2`, poly(square), `{"v":3}`)), Options{})
+			col, err := lay.Column("v")
+			if err != nil || col.Kind != c.kind || fmt.Sprint(col.Labels()) != c.want {
+				t.Errorf("got %+v, want %v %s", col, c.kind, c.want)
+			}
+		})
+	}
+}
+
+// TestNotNumberMarks: a text column marks the values that are not numbers,
+// whether they came before or after the column turned to text (hand count
+// over the features below).
+func TestNotNumberMarks(t *testing.T) {
+	doc := fc(
+		feat(`1`, poly(square), `{"v":1.5,"c":"01001"}`),
+		feat(`2`, poly(square), `{"v":"12,5","c":"10001"}`),
+		feat(`3`, poly(square), `{"v":" 7 ","c":null}`),
+		feat(`4`, poly(square), `{"v":{"k":1},"c":true}`),
+		feat(`5`, poly(square), `{"v":null,"c":1e999}`),
+		feat(`6`, poly(square), `{"v":"3e2","c":"n/a"}`),
+	)
+	lay, _ := mustRead(t, doc, Options{})
+	for _, w := range []struct {
+		name, notNumber string
+		mostly          bool
+	}{
+		{"v", "[false true false true false false]", true},
+		{"c", "[true false false true true false]", false},
+	} {
+		c, _ := lay.Column(w.name)
+		if c.Kind != layer.Text || fmt.Sprint(c.NotNumber) != w.notNumber || c.MostlyNumbers() != w.mostly {
+			t.Errorf("%s: kind %v, NotNumber %v, mostly %v; want %s, %v", w.name, c.Kind, c.NotNumber, c.MostlyNumbers(), w.notNumber, w.mostly)
+		}
 	}
 }
 

@@ -1,10 +1,13 @@
 package layer
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sort"
 	"strconv"
+	"strings"
+	"unicode"
 
 	"github.com/paulmach/orb"
 )
@@ -42,6 +45,15 @@ type Column struct {
 	Str []string
 	// Missing marks, per area, a value the area lacks.
 	Missing []bool
+	// NotNumber marks, per area, a value of a Text column that is not a
+	// number: a word, a code with a leading zero ("01001"), a boolean, an
+	// object, or a number beyond the range of float64. Numbers ("12.5", 7)
+	// and missing values are false. Readers fill it so that a column of
+	// numbers with a few bad values can be told from a column of text
+	// (NumericColumn, MostlyNumbers); nil, as in a column a program builds,
+	// counts every present value as not a number. Always nil in a Number
+	// column.
+	NotNumber []bool
 }
 
 // MissingCount returns how many areas lack a value in the column.
@@ -113,19 +125,169 @@ func (l *Layer) Column(name string) (*Column, error) {
 }
 
 // NumericColumn returns the named column, which must hold numbers; role
-// says what the caller needs it for ("the outcome", "a covariate"), for the
-// error that names the first value that is not a number and its area.
+// says what the caller needs it for ("the outcome", "a covariate"). The
+// rule: every present value of a column the user names as a number must be
+// a number. A Text column is a *NotNumericError naming its first values
+// that are not numbers and their areas, so that a column of numbers with a
+// few bad values ("12,5" with a decimal comma) is found and fixed rather
+// than read as text.
 func (l *Layer) NumericColumn(name, role string) (*Column, error) {
 	col, err := l.Column(name)
 	if err != nil || col.Kind == Number {
 		return col, err
 	}
+	return nil, l.NotNumeric(col, role)
+}
+
+// NotNumeric describes why col, a Text column, cannot be read as numbers:
+// the values that are not numbers (the first MaxBadValues of them) and
+// their areas. role is as for NumericColumn.
+func (l *Layer) NotNumeric(col *Column, role string) *NotNumericError {
+	e := &NotNumericError{Source: l.Source, Column: col.Name, Role: role, Mostly: col.MostlyNumbers()}
 	for i, m := range col.Missing {
-		if !m {
-			return nil, fmt.Errorf("%s: column %q is not numeric (first non-number value %q in area %q); %s must be a number", l.Source, name, col.Label(i), l.IDs[i], role)
+		if m {
+			continue
+		}
+		e.Present++
+		if col.NotNumber == nil || col.NotNumber[i] {
+			if len(e.Bad) < MaxBadValues {
+				e.Bad = append(e.Bad, BadValue{ID: l.IDs[i], Value: col.Label(i)})
+			}
+			e.BadCount++
 		}
 	}
-	return nil, fmt.Errorf("%s: column %q is not numeric; %s must be a number", l.Source, name, role)
+	return e
+}
+
+// MaxBadValues is how many values that are not numbers a NotNumericError
+// names; it counts the rest.
+const MaxBadValues = 3
+
+// ErrNotNumeric is matched (errors.Is) by every *NotNumericError.
+var ErrNotNumeric = errors.New("column is not numeric")
+
+// NotNumericError says that a column needed as numbers holds values that
+// are not numbers, naming the first few with their areas.
+type NotNumericError struct {
+	// Source is the layer's source, Column the column's name, and Role
+	// what the caller needs the column for ("the outcome").
+	Source, Column, Role string
+	// Present counts the values present, BadCount those that are not
+	// numbers; Bad holds the first of them (at most MaxBadValues).
+	Present, BadCount int
+	Bad               []BadValue
+	// Mostly says that most values are numbers (Column.MostlyNumbers):
+	// numbers with a few bad values rather than text.
+	Mostly bool
+}
+
+// BadValue is a value that is not a number, with its area's id.
+type BadValue struct{ ID, Value string }
+
+// Is makes errors.Is(err, ErrNotNumeric) true.
+func (e *NotNumericError) Is(target error) bool { return target == ErrNotNumeric }
+
+func (e *NotNumericError) Error() string {
+	return fmt.Sprintf("%s: column %q %s; %s must be a number", e.Source, e.Column, e.Detail(), e.Role)
+}
+
+// Detail says what the column holds, without the source, the column and
+// the role: "is not numeric: it holds numbers except for 2 of its 200
+// values: …" when most values are numbers, "is not numeric (…)" otherwise.
+func (e *NotNumericError) Detail() string {
+	var b strings.Builder
+	switch {
+	case len(e.Bad) == 0:
+		b.WriteString("is not numeric")
+	case e.Mostly:
+		fmt.Fprintf(&b, "is not numeric: it holds numbers except for %d of its %d values: ", e.BadCount, e.Present)
+		e.writeBad(&b)
+	default:
+		fmt.Fprintf(&b, "is not numeric (%d of its %d values are not numbers: ", e.BadCount, e.Present)
+		e.writeBad(&b)
+		b.WriteString(")")
+	}
+	return b.String()
+}
+
+// writeBad lists the bad values, each with its area and a hint.
+func (e *NotNumericError) writeBad(b *strings.Builder) {
+	for k, v := range e.Bad {
+		if k > 0 {
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(b, "%s in area %q%s", quoteValue(v.Value), v.ID, valueHint(v.Value))
+	}
+	if more := e.BadCount - len(e.Bad); more > 0 {
+		fmt.Fprintf(b, " and %d more", more)
+	}
+}
+
+// quoteValue quotes a value for a message, cut to 40 characters; JSON
+// objects and arrays (as readers render them) are shown as they are, unless
+// they hold control characters, which would break the message's line.
+func quoteValue(s string) string {
+	if r := []rune(s); len(r) > 40 {
+		s = string(r[:37]) + "..."
+	}
+	if (strings.HasPrefix(s, "{") || strings.HasPrefix(s, "[")) && strings.IndexFunc(s, unicode.IsControl) < 0 {
+		return s
+	}
+	return strconv.Quote(s)
+}
+
+// valueHint guesses, for a message only, why a value is not a number: a
+// decimal comma ("12,5"; with three digits after it, perhaps a thousands
+// separator), a code with a leading zero, or a number too large for a
+// float64.
+func valueHint(s string) string {
+	t := strings.TrimSpace(s)
+	if i := strings.IndexByte(t, ','); i > 0 && strings.Count(t, ",") == 1 {
+		whole, frac := strings.TrimLeft(t[:i], "+-"), t[i+1:]
+		if allDigits(whole) && allDigits(frac) {
+			if len(frac) == 3 {
+				return fmt.Sprintf(" (a decimal comma or a thousands separator? write %s.%s or %s%s)", t[:i], frac, t[:i], frac)
+			}
+			return fmt.Sprintf(" (a decimal comma? numbers take a decimal point: %s.%s)", t[:i], frac)
+		}
+	}
+	_, err := strconv.ParseFloat(t, 64)
+	u := strings.TrimLeft(t, "+-")
+	switch {
+	case errors.Is(err, strconv.ErrRange):
+		return " (beyond the range of numbers)"
+	case err == nil && len(u) > 1 && u[0] == '0' && allDigits(u[1:2]):
+		return " (a code with a leading zero)"
+	}
+	return ""
+}
+
+func allDigits(s string) bool {
+	for _, c := range s {
+		if c < '0' || c > '9' {
+			return false
+		}
+	}
+	return s != ""
+}
+
+// MostlyNumbers reports a Text column more than half of whose present
+// values are numbers (NotNumber): numbers with some bad values, not a
+// column of categories. Number columns report false.
+func (c *Column) MostlyNumbers() bool {
+	if c.Kind == Number || c.NotNumber == nil {
+		return false
+	}
+	present, numbers := 0, 0
+	for i, m := range c.Missing {
+		if !m {
+			present++
+			if !c.NotNumber[i] {
+				numbers++
+			}
+		}
+	}
+	return 2*numbers > present
 }
 
 // Labels returns every area's value as text (Label), "" where missing.

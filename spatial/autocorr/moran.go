@@ -32,11 +32,16 @@ func MoransI(x []float64, g *weights.Graph) (float64, error) {
 
 // Centre returns x − mean(x) and its sum of squares. A column with no
 // variation is ErrConstant: the test is relative, since a column of
-// identical large numbers leaves only rounding noise after centring. Every
-// statistic of the tool that centres a variable uses it.
+// identical large numbers leaves only rounding noise after centring. A
+// column too large for the sums of the statistics is a *TooLargeError
+// (CheckMagnitude). Every statistic of the tool that centres a variable
+// uses it.
 func Centre(x []float64) ([]float64, float64, error) { return centre(x) }
 
 func centre(x []float64) ([]float64, float64, error) {
+	if err := CheckMagnitude(x); err != nil {
+		return nil, 0, err
+	}
 	var s float64
 	for _, v := range x {
 		s += v

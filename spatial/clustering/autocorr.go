@@ -70,6 +70,9 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	}
 	v.Areas, v.Islands = len(r.Used), len(keep)-len(r.Used)
 	x := r.Pick(col.Values)
+	if err := checkMagnitude(x, in.IDs, r); err != nil {
+		return v, named(err, col.Name)
+	}
 	sm := &sample{x: x, ids: in.IDs, r: r, opt: opt, purpose: purpose, res: res}
 	if err := v.global(sm); err != nil {
 		return v, named(err, col.Name)
@@ -79,6 +82,9 @@ func (in *Input) variable(col Column, opt Options, purpose uint64, res *Result) 
 	}
 	if in.Against != nil && in.Against.Name != col.Name {
 		y := r.Pick(in.Against.Values)
+		if err := checkMagnitude(y, in.IDs, r); err != nil {
+			return v, named(err, in.Against.Name)
+		}
 		b, err := autocorr.RunBivariate(x, y, r.Graph, plan(opt, purpose+3, opt.Alternative))
 		if err != nil {
 			return v, named(err, col.Name+" against "+in.Against.Name)
@@ -246,8 +252,13 @@ func (in *Input) joins(cat Categories, opt Options, purpose uint64) (Joins, erro
 		code[l] = int32(k)
 	}
 	codes := make([]int32, len(r.Used))
+	size := make([]int, len(j.Levels))
 	for k, i := range r.Areas {
 		codes[k] = code[cat.Labels[i]]
+		size[codes[k]]++
+	}
+	if err := checkCategories(size); err != nil {
+		return j, named(err, cat.Name)
 	}
 	// Joins count linked pairs, so the binary graph is the right one.
 	if j.Test, err = autocorr.RunJoins(codes, r.Binary, plan(opt, purpose, opt.Alternative)); err != nil {
@@ -286,6 +297,9 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 	if err != nil {
 		return nil, named(err, name)
 	}
+	if err := checkMagnitude(raw, in.IDs, r); err != nil {
+		return nil, named(err, name)
+	}
 	alt := opt.Alternative
 	m, err := autocorr.RunTest(raw, r.Graph, plan(opt, 50, alt))
 	if err != nil {
@@ -315,4 +329,52 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("Populations range from %.0f to %.0f: raw rates of the smallest areas swing widely by chance, so read the empirical-Bayes Moran's I rather than the raw one.", rt.Smallest, rt.Largest))
 	}
 	return rt, nil
+}
+
+// checkMagnitude is autocorr.CheckMagnitude on the analysed areas of r,
+// with the area of the value it names filled in from ids.
+func checkMagnitude(x []float64, ids []string, r *weights.Restricted) error {
+	err := autocorr.CheckMagnitude(x)
+	var tl *autocorr.TooLargeError
+	if errors.As(err, &tl) {
+		tl.ID = ids[r.Areas[tl.Index]]
+	}
+	return err
+}
+
+// ErrNotCategories is matched (errors.Is) by every *NotCategoriesError.
+var ErrNotCategories = errors.New("not a column of categories")
+
+// NotCategoriesError refuses join counts on a text column whose values are
+// not plainly categories: the rule is that more than half of its categories
+// (among the analysed areas) have a single area, as in a column of names or
+// codes. Join counts of such a column count almost no same-category joins
+// and say nothing.
+type NotCategoriesError struct {
+	// Areas is the number of analysed areas, Levels the number of
+	// categories among them, Single how many of those have one area.
+	Areas, Levels, Single int
+}
+
+// Is makes errors.Is(err, ErrNotCategories) true.
+func (e *NotCategoriesError) Is(target error) bool { return target == ErrNotCategories }
+
+func (e *NotCategoriesError) Error() string {
+	return fmt.Sprintf("%d categories among %d areas, %d of them with a single area: this does not look like a column of categories (names or codes?), and join counts need categories that several areas share", e.Levels, e.Areas, e.Single)
+}
+
+// checkCategories applies the rule of NotCategoriesError to the number of
+// areas in each category.
+func checkCategories(size []int) error {
+	areas, single := 0, 0
+	for _, s := range size {
+		areas += s
+		if s == 1 {
+			single++
+		}
+	}
+	if 2*single > len(size) {
+		return &NotCategoriesError{Areas: areas, Levels: len(size), Single: single}
+	}
+	return nil
 }

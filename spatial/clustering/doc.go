@@ -16,7 +16,10 @@
 //     why.
 //
 // Each column is analysed on the areas that have a value, with the graph
-// cut down to them (weights.Restrict). The results state facts only: a
+// cut down to them (weights.Restrict). Values too large for the sums of the
+// statistics are an error naming the column and the area
+// (autocorr.TooLargeError), and a reason to skip the column in Screen;
+// join counts run only on plainly categorical columns (NotCategoriesError). The results state facts only: a
 // caller that offers settings words its own advice from them (for example
 // Result.IslandsLeftOut).
 //

@@ -1,6 +1,7 @@
 package clustering
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"regexp"
@@ -59,8 +60,12 @@ type ScreenInput struct {
 	Input
 	IDColumn string
 	// Text lists the names of the text columns, which are reported as
-	// skipped.
+	// skipped, "not numeric" or with the reason TextReasons gives.
 	Text []string
+	// TextReasons says, for a text column that is mostly numbers, why it is
+	// not numeric (the values that are not numbers), where the caller can
+	// say more than "not numeric".
+	TextReasons map[string]string
 	// Excluded lists columns the user asked to leave out.
 	Excluded []string
 }
@@ -94,6 +99,8 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 			res.Skipped = append(res.Skipped, Skipped{t, "holds the area ids"})
 		case excluded[t]:
 			res.Skipped = append(res.Skipped, Skipped{t, "excluded on request"})
+		case in.TextReasons[t] != "":
+			res.Skipped = append(res.Skipped, Skipped{t, in.TextReasons[t]})
 		default:
 			res.Skipped = append(res.Skipped, Skipped{t, "not numeric"})
 		}
@@ -149,13 +156,18 @@ func (res *ScreenResult) screenGroup(in *Input, g *columnGroup, opt Options, pur
 		}
 		return nil
 	}
-	// A column constant on the used areas cannot be screened; find those
-	// first so the rest share one run.
+	// A column constant on the used areas, or too large for the sums of
+	// the statistics, cannot be screened; find those first (by the checks
+	// of autocorr.Centre) so the rest share one run.
 	var xs [][]float64
 	var cols []Column
 	for _, c := range g.cols {
 		x := r.Pick(c.Values)
-		if isConstant(x) {
+		if err := checkMagnitude(x, in.IDs, r); err != nil {
+			res.Skipped = append(res.Skipped, Skipped{c.Name, err.Error()})
+			continue
+		}
+		if _, _, err := autocorr.Centre(x); errors.Is(err, autocorr.ErrConstant) {
 			res.Skipped = append(res.Skipped, Skipped{c.Name, "constant on the areas with a value"})
 			continue
 		}
