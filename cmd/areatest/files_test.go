@@ -158,6 +158,7 @@ func TestOutputsOfOneRunDiffer(t *testing.T) {
 	} {
 		wantRefused(t, 2, c.want, c.args, "r.csv", "m.svg")
 	}
+	wantRefused(t, 2, "--output x.csv and --write x.csv are the same file", []string{"weights", "-i", "region.geojson", "--write", "x.csv", "-o", "x.csv"}, "x.csv")
 	if b, _ := os.ReadFile("old.svg"); string(b) != "old" {
 		t.Error("old.svg was changed")
 	}

@@ -3,7 +3,6 @@ package main
 import (
 	"io"
 
-	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/weights"
 )
@@ -27,9 +26,10 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if c.input == "" {
 		return usagef("--input is required (see areatest weights --help)")
 	}
-	err := c.checkOutput()
-	if err == nil {
-		c.spec, c.scaling, _, err = c.weights.spec()
+	var err error
+	if c.spec, c.scaling, _, err = c.weights.spec(); err == nil {
+		c.wantOutput("--write", write)
+		err = c.checkOutput()
 	}
 	if err == nil {
 		err = c.open(stdin, stderr)
@@ -55,15 +55,11 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}
 	}
 	if write != "" {
-		if err := output.Write(write, stdout, c.inputs(), func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs, write) }); err != nil {
-			return err
-		}
+		c.fileOf("--write").SetRender(func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs, write) })
 		doc.Written = write
 	}
-	return output.Write(c.output, stdout, append(c.inputs(), write), func(w io.Writer) error {
-		if c.format == "json" {
-			return report.JSON(w, doc)
-		}
-		return report.WeightsText(w, doc)
+	return c.emit(stdout, stderr, nil, map[string]func(io.Writer) error{
+		"json": func(w io.Writer) error { return report.JSON(w, doc) },
+		"text": func(w io.Writer) error { return report.WeightsText(w, doc) },
 	})
 }
