@@ -52,17 +52,28 @@ func (c *comparison) k() int { return len(c.levels) }
 // scheme, the spectral surrogates and the false-positive check, estimates
 // the effective sample size, checks for spatial clustering and says which
 // p-value to read. Problems with the data are an *Error or one of the
-// typed errors of this package.
+// typed errors of this package; counts above this package's maxima (or
+// shuffle.MaxPermutations) are a *shuffle.CountError, returned before any
+// work.
 func Run(in Input, opt Options) (*Result, error) {
 	n := len(in.IDs)
 	if len(in.Outcome) != n || len(in.Group) != n || in.Graph == nil || in.Graph.Len() != n {
 		return nil, errors.New("compare: input columns and graph disagree in length")
+	}
+	if err := opt.checkCounts(); err != nil {
+		return nil, err
 	}
 	res := &Result{Seed: opt.Seed, Cautions: Cautions, Warnings: []string{}, Excluded: []Exclusion{}}
 	res.Input = InputInfo{Areas: n, Outcome: in.OutcomeName, Group: in.GroupName, Strata: in.StrataName}
 	c, err := prepare(in, opt, res)
 	if err != nil {
 		return nil, err
+	}
+	if opt.FalsePositives > 0 && len(in.Covariates) == 0 {
+		// Before any work: a check that cannot reject is a setting to fix.
+		if err := checkShuffles(opt.checkShuffles(), opt.Alpha, c.alt); err != nil {
+			return nil, err
+		}
 	}
 	t := &tester{opt: opt, data: c.data, stat: c.stat, alt: c.alt}
 	if len(in.Covariates) > 0 {
