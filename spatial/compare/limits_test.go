@@ -23,7 +23,7 @@ func TestRunRefusesCountsAboveTheMaxima(t *testing.T) {
 		{"permutations", func(o *Options) { o.Permutations = 1e12 }, shuffle.MaxPermutations},
 		{"surrogates", func(o *Options) { o.Surrogates = MaxSurrogates + 1 }, MaxSurrogates},
 		{"false-positive checks", func(o *Options) { o.FalsePositives = MaxFalsePositiveChecks + 1 }, MaxFalsePositiveChecks},
-		{"check shuffles", func(o *Options) { o.FalsePositives, o.FalsePositiveShuffles = 10, MaxCheckShuffles + 1 }, MaxCheckShuffles},
+		{"check shuffles", func(o *Options) { o.FalsePositives, o.FalsePositiveShuffles = 10, MaxCheckShuffles+1 }, MaxCheckShuffles},
 	}
 	for _, c := range cases {
 		o := opts()
