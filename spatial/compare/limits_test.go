@@ -126,6 +126,24 @@ func TestFalsePositiveCheckIsMonteCarlo(t *testing.T) {
 			}
 		}
 	}
+	// Each check's p-value is a Monte Carlo one, 2(1 + b)/(1 + B) two-sided:
+	// a multiple of 1/50 here, which no count over 705,432 enumerated
+	// arrangements gives but by chance.
+	data, err := groups.Prepare(y, lab, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := shuffle.NewStream(1, 2, 0)
+	for e := 0; e < 5; e++ {
+		draw(&rng, sur)
+		p, err := freeShuffle(data, sur, groups.DiffMedians, shuffle.TwoSided, B, 1, innerPurpose(2, e))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if k := p * (1 + B); math.Abs(k-math.Round(k)) > 1e-9 {
+			t.Errorf("surrogate %d: p = %v is not a Monte Carlo p-value of %d shuffles", e, p, B)
+		}
+	}
 	if got.Permutations != B || got.Surrogates != S || got.Rejected != want {
 		t.Fatalf("check %+v, replay rejected %d of %d with %d shuffles", got, want, S, B)
 	}
