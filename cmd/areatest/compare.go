@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/compare"
@@ -70,6 +71,28 @@ func (c *compareFlags) check() error {
 		return usagef("--surrogates and --false-positive-check must not be negative, --check-shuffles at least 1")
 	case !(c.alpha > 0 && c.alpha < 1):
 		return usagef("--alpha must be between 0 and 1")
+	}
+	for _, f := range []struct {
+		name       string
+		value, max int
+	}{
+		{"--surrogates", c.surrogates, compare.MaxSurrogates},
+		{"--false-positive-check", c.fpChecks, compare.MaxFalsePositiveChecks},
+		{"--check-shuffles", c.fpShuffles, compare.MaxCheckShuffles},
+	} {
+		if err := atMost(f.name, f.value, f.max); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// atMost refuses a count flag above the maximum the library enforces
+// (shuffle.MaxPermutations, compare.MaxSurrogates, …), naming it, as a
+// usage error: the flag, not the data, is to change.
+func atMost(flag string, value, max int) error {
+	if value > max {
+		return usagef("%s %s is more than the maximum of %s", flag, numtext.Count(value), numtext.Count(max))
 	}
 	return nil
 }
@@ -182,6 +205,7 @@ func flagAdvice(err error) error {
 	var ce *compare.ContrastError
 	var le *compare.LevelError
 	var te *compare.TwoGroupError
+	var se *compare.CheckShufflesError
 	switch {
 	case errors.As(err, &ce):
 		return &advised{"--contrast " + ce.Facts(), err}
@@ -189,6 +213,10 @@ func flagAdvice(err error) error {
 		return &advised{"--contrast " + le.Facts(), err}
 	case errors.As(err, &te):
 		return &advised{te.Facts() + "; use kruskal-wallis or anova-f, or pick two with --contrast", err}
+	case errors.As(err, &se):
+		// A setting, not the data, is to change: a usage error.
+		return usagef("--check-shuffles %d cannot reject at --alpha %g: the smallest p-value %d shuffles give is %.3g; use --check-shuffles %d or more, or --false-positive-check 0",
+			se.Shuffles, se.Alpha, se.Shuffles, se.Smallest, se.Need)
 	}
 	return err
 }

@@ -98,6 +98,9 @@ func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) 
 	if c.permutations < 1 || c.workers < 1 {
 		return usagef("--permutations and --workers must be at least 1")
 	}
+	if err := atMost("--permutations", c.permutations, shuffle.MaxPermutations); err != nil {
+		return err
+	}
 	if c.spec, c.scaling, c.keepIslands, err = c.weights.spec(); err != nil {
 		return err
 	}

@@ -39,7 +39,7 @@ func compareHeader(b *strings.Builder, r *compare.Result) {
 		if i > 0 {
 			head = "            "
 		}
-		fmt.Fprintf(b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idList(e.IDs, 6))
+		fmt.Fprintf(b, "%s %s: %s%s\n", head, e.Reason, areas(e.Areas), idListOf(first(e.IDs, 6), e.Areas))
 	}
 	b.WriteString("\n")
 }
@@ -112,7 +112,7 @@ func compareChecks(b *strings.Builder, r *compare.Result) {
 	a := r.Autocorrelation
 	fmt.Fprintf(b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Scaling, r.Weights.Kind)
 	fmt.Fprintf(b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
-		numtext.Count(r.Weights.Islands), idList(r.Weights.IslandIDs, 6))
+		numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
 	if a.Outcome.Variable != "" {
 		fmt.Fprintf(b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
 		for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {

@@ -31,6 +31,11 @@
 // of its flags (errors.go); warnings about the caller's settings come as a
 // Notice the caller may word through Options.Word.
 //
+// Counts are bounded (limits.go): MaxSurrogates, MaxFalsePositiveChecks
+// and MaxCheckShuffles here, shuffle.MaxPermutations for the shuffles; Run
+// refuses more, and a false-positive check too short to reject at Alpha,
+// before any work.
+//
 // Each stage draws its random numbers from a stream of its own (the
 // stream constants in run.go), so that a seeded result does not depend on
 // which other stages ran nor on the number of workers.

@@ -48,9 +48,9 @@ func (e *ContrastError) Facts() string {
 // LevelError is a contrast level that no area with data has.
 type LevelError struct {
 	Level, Column string
-	// Present are the contrast's levels found among the areas with data,
-	// sorted (the areas outside the contrast are left out before levels
-	// are counted).
+	// Present are the levels of the column among the areas with data (a
+	// value of every column the comparison needs), contrast or not, in
+	// natural order (numbers by value, then text).
 	Present []string
 }
 

@@ -1,8 +1,10 @@
 package compare
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
+	"sync"
 	"sync/atomic"
 
 	"github.com/areatest/areatest/internal/parallel"
@@ -19,12 +21,24 @@ import (
 // still spread over the cores.
 const FPRBlock = 25
 
+// DefaultFalsePositiveChecks and DefaultCheckShuffles are the numbers of
+// surrogates and of shuffles per surrogate of FalsePositives when
+// FPROptions leaves them 0.
+const (
+	DefaultFalsePositiveChecks = 500
+	DefaultCheckShuffles       = 199
+)
+
 // FPROptions tune FalsePositives. Zero values take the defaults.
 type FPROptions struct {
-	// Surrogates is the number of surrogate outcomes S (default 500).
+	// Surrogates is the number of surrogate outcomes S (default
+	// DefaultFalsePositiveChecks, at most MaxFalsePositiveChecks).
 	Surrogates int
-	// Permutations is the number of free shuffles B per surrogate
-	// (default 199).
+	// Permutations is the number of Monte Carlo free shuffles B per
+	// surrogate (default DefaultCheckShuffles, at most MaxCheckShuffles).
+	// The check never enumerates arrangements, however few there are: its
+	// cost is S·B shuffles whatever the layer, and the report's count is
+	// the count used.
 	Permutations int
 	// Alpha is the level at which a shuffle test rejects (default 0.05).
 	Alpha float64
@@ -63,8 +77,12 @@ type FalsePositiveRate struct {
 
 // FalsePositives draws opt.Surrogates surrogates of o and runs on each the
 // ordinary free label shuffle of stat (shuffle.Run, groups.Prepare and
-// groups.Data.Factory: the very test the comparison reports), counting the
-// rejections at opt.Alpha. labels[i] in 0..k−1 is the group of area i.
+// groups.Data.Factory: the very test the comparison reports, by Monte Carlo
+// with opt.Permutations shuffles), counting the rejections at opt.Alpha.
+// labels[i] in 0..k−1 is the group of area i. Counts above the maxima are
+// a *shuffle.CountError, too few shuffles to reject at Alpha a
+// *CheckShufflesError. Only the count of rejections is kept, so memory does
+// not grow with the number of surrogates.
 func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32, k int, opt FPROptions) (FalsePositiveRate, error) {
 	n := o.Len()
 	if len(labels) != n {
@@ -73,29 +91,23 @@ func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32,
 	if _, err := NewGroupStatistic(stat, labels, k); err != nil {
 		return FalsePositiveRate{}, err
 	}
-	S := opt.Surrogates
-	if S == 0 {
-		S = 500
-	}
-	B := opt.Permutations
-	if B == 0 {
-		B = 199
-	}
-	alpha := opt.Alpha
-	if alpha == 0 {
-		alpha = 0.05
-	}
+	S, B, alpha := cmp.Or(opt.Surrogates, DefaultFalsePositiveChecks), cmp.Or(opt.Permutations, DefaultCheckShuffles), cmp.Or(opt.Alpha, 0.05)
 	if S < 1 || B < 1 || !(alpha > 0 && alpha < 1) {
 		return FalsePositiveRate{}, errors.New("compare: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
+	}
+	if err := (Options{FalsePositives: S, FalsePositiveShuffles: B}).checkCounts(); err != nil {
+		return FalsePositiveRate{}, err
 	}
 	alt := opt.Alternative
 	if !stat.Directional() {
 		alt = shuffle.Greater
 	}
+	if err := checkShuffles(B, alpha, alt); err != nil {
+		return FalsePositiveRate{}, err
+	}
 	blocks := (S + FPRBlock - 1) / FPRBlock
-	rejected := make([]bool, S)
-	errs := make([]error, blocks)
-	var done atomic.Int64
+	var rejected, done atomic.Int64
+	var failed firstError
 	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
 		draw := o.NewDraw()
 		y := make([]float64, n)
@@ -110,35 +122,47 @@ func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32,
 				draw(&rng, y)
 				p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
 				if err != nil {
-					errs[b] = err
+					failed.set(b, err)
 					break
 				}
-				rejected[d] = p <= alpha
+				if p <= alpha {
+					rejected.Add(1) // a count: the same total in any order
+				}
 			}
 			if opt.Progress != nil {
 				opt.Progress(int(done.Add(int64(hi-lo))), S)
 			}
 		}
 	})
-	for _, err := range errs {
-		if err != nil {
-			return FalsePositiveRate{}, err
-		}
+	if failed.err != nil {
+		return FalsePositiveRate{}, failed.err
 	}
-	r := FalsePositiveRate{Scheme: "free", Alpha: alpha, Surrogates: S, Permutations: B}
-	for _, rej := range rejected {
-		if rej {
-			r.Rejected++
-		}
-	}
+	r := FalsePositiveRate{Scheme: "free", Alpha: alpha, Surrogates: S, Permutations: B, Rejected: int(rejected.Load())}
 	r.Rate = float64(r.Rejected) / float64(S)
 	r.Interval[0], r.Interval[1] = shuffle.ClopperPearson(r.Rejected, S, 0.95)
 	return r, nil
 }
 
+// firstError keeps the error of the lowest-numbered block that failed, so
+// that the error reported does not depend on scheduling.
+type firstError struct {
+	mu    sync.Mutex
+	block int
+	err   error
+}
+
+func (f *firstError) set(block int, err error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	if f.err == nil || block < f.block {
+		f.block, f.err = block, err
+	}
+}
+
 // freeShuffle is the comparison's free shuffle test of one outcome: the
 // outcome sorted once into d (groups.Data.Reprepare), labels shuffled B
-// times, the tie scale the range of the outcome. It returns the p-value.
+// times at random (never enumerated), the tie scale the range of the
+// outcome. It returns the p-value.
 func freeShuffle(d *groups.Data, y []float64, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
 	if err := d.Reprepare(y); err != nil {
 		return 0, err
@@ -147,7 +171,9 @@ func freeShuffle(d *groups.Data, y []float64, stat groups.Statistic, alt shuffle
 	if stat.InOutcomeUnits() {
 		scale = d.Y[len(d.Y)-1] - d.Y[0]
 	}
-	res, err := shuffle.Run(shuffle.Plan{Scheme: "free", Labels: d.Labels, Permutations: B,
+	// ExactLimit −1: Monte Carlo always, so that the check costs B shuffles
+	// per surrogate and reports the count it used.
+	res, err := shuffle.Run(shuffle.Plan{Scheme: "free", Labels: d.Labels, Permutations: B, ExactLimit: -1,
 		Seed: seed, Purpose: purpose, Workers: 1, Alternative: alt, Scale: scale}, d.Factory(stat))
 	if err != nil {
 		return 0, err

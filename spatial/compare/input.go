@@ -53,7 +53,8 @@ type Options struct {
 	// With more than two levels in the data it restricts the test to them.
 	Contrast    []string
 	Alternative shuffle.Alternative
-	// Permutations is the number of Monte Carlo shuffles B per scheme.
+	// Permutations is the number of Monte Carlo shuffles B per scheme, at
+	// most shuffle.MaxPermutations.
 	Permutations int
 	// ExactLimit as in shuffle.Plan.
 	ExactLimit int
@@ -66,11 +67,13 @@ type Options struct {
 	// are given and at least ZoneMinAreas areas are tested.
 	Zones bool
 	// Surrogates is the number of spectral surrogates of the outcome for
-	// the spatially constrained scheme (0: not run).
+	// the spatially constrained scheme (0: not run), at most MaxSurrogates.
 	Surrogates int
 	// FalsePositives is the number of surrogates on which the free
-	// shuffle's false-positive rate is measured (0: not measured), with
-	// FalsePositiveShuffles shuffles each (0: 199).
+	// shuffle's false-positive rate is measured (0: not measured; at most
+	// MaxFalsePositiveChecks), with FalsePositiveShuffles Monte Carlo
+	// shuffles each (0: DefaultCheckShuffles; at most MaxCheckShuffles),
+	// enough for a p-value at or below Alpha (see CheckShufflesError).
 	FalsePositives, FalsePositiveShuffles int
 	// Basis tunes the eigenbasis of the surrogates.
 	Basis surrogate.Options
@@ -88,6 +91,14 @@ func (o Options) word(n Notice) string {
 		return n.String()
 	}
 	return o.Word(n)
+}
+
+// checkShuffles is FalsePositiveShuffles with its default.
+func (o Options) checkShuffles() int {
+	if o.FalsePositiveShuffles == 0 {
+		return DefaultCheckShuffles
+	}
+	return o.FalsePositiveShuffles
 }
 
 func (o Options) progress(stage string) func(done, total int) {

@@ -12,34 +12,31 @@ import (
 var positive = map[string]bool{"1": true, "yes": true, "true": true, "y": true, "t": true}
 
 // orderLevels puts the group levels in report order. With a contrast, its
-// order; with two levels one of which reads as "yes", that one first;
-// otherwise natural order (numbers by value, then text).
-func orderLevels(present map[string]int, contrast []string, column string) ([]string, error) {
+// order (selectAreas has checked that both levels are present); with two
+// levels one of which reads as "yes", that one first; otherwise natural
+// order (numbers by value, then text).
+func orderLevels(present map[string]int, contrast []string) []string {
 	if len(contrast) == 2 {
-		for _, c := range contrast {
-			if present[c] == 0 {
-				var have []string
-				for l := range present {
-					have = append(have, l)
-				}
-				sort.Strings(have)
-				return nil, &LevelError{Level: c, Column: column, Present: have}
-			}
-		}
-		return []string{contrast[0], contrast[1]}, nil
+		return []string{contrast[0], contrast[1]}
 	}
-	levels := make([]string, 0, len(present))
-	for l := range present {
-		levels = append(levels, l)
-	}
-	sort.Slice(levels, func(a, b int) bool { return naturalLess(levels[a], levels[b]) })
+	levels := sortedLevels(present)
 	if len(levels) == 2 {
 		p0, p1 := positive[strings.ToLower(levels[0])], positive[strings.ToLower(levels[1])]
 		if p1 && !p0 {
 			levels[0], levels[1] = levels[1], levels[0]
 		}
 	}
-	return levels, nil
+	return levels
+}
+
+// sortedLevels lists the levels of present in natural order, for messages.
+func sortedLevels(present map[string]int) []string {
+	levels := make([]string, 0, len(present))
+	for l := range present {
+		levels = append(levels, l)
+	}
+	sort.Slice(levels, func(a, b int) bool { return naturalLess(levels[a], levels[b]) })
+	return levels
 }
 
 func naturalLess(a, b string) bool {

@@ -11,6 +11,14 @@ import (
 
 // recommend says which p-value to read, and why, and writes the warning
 // with its numbers when the free shuffle cannot be trusted.
+//
+// The rule: the free shuffle is suspect when the spatial check finds both
+// the outcome and the grouping clustered, or when the false-positive check
+// finds its rate above alpha; then a spatially constrained p-value is
+// preferred. Otherwise the free shuffle's p-value is read — on the grounds
+// that nothing clusters only when the spatial check ran; when it could not
+// run, the reason says so and that the p-value holds only if neighbouring
+// areas are not alike.
 func recommend(res *Result) {
 	find := func(prefix string) *shuffle.Result {
 		for k := range res.Tests {
@@ -24,11 +32,7 @@ func recommend(res *Result) {
 	inflated := fpr != nil && fpr.Interval[0] > fpr.Alpha
 	suspect := res.Autocorrelation.Clustered || inflated
 	if !suspect {
-		res.Recommended = Recommendation{Scheme: res.Tests[0].Scheme, PValue: res.Tests[0].PValue,
-			Reason: "The outcome and the grouping do not both cluster in space, so neighbouring areas can be treated as separate evidence: the free shuffle's p-value is fine."}
-		if fpr != nil {
-			res.Recommended.Reason += fmt.Sprintf(" On %d surrogates with the outcome's spatial pattern it rejected %.1f%% of true nulls at the %g level.", fpr.Surrogates, 100*fpr.Rate, fpr.Alpha)
-		}
+		recommendFree(res)
 		return
 	}
 	// The free shuffle is suspect: say so with numbers.
@@ -68,4 +72,18 @@ func recommend(res *Result) {
 		b.WriteString("Treat the free shuffle's p-value as a lower bound, not as the strength of the evidence.")
 	}
 	res.Warnings = append(res.Warnings, b.String())
+}
+
+// recommendFree recommends the free shuffle, which nothing found
+// suspect, with the grounds that hold: the spatial check's, or, when that
+// could not run, only that it could not.
+func recommendFree(res *Result) {
+	reason := "The outcome and the grouping do not both cluster in space, so neighbouring areas can be treated as separate evidence: the free shuffle's p-value is fine."
+	if why := res.Autocorrelation.Skipped; why != "" {
+		reason = fmt.Sprintf("The spatial check could not run (%s), so nothing here shows whether the outcome and the grouping cluster in space. The free shuffle treats every area as separate evidence; its p-value holds only if neighbouring areas are not alike. Neighbours defined another way (nearest areas or a distance band) would let the check run.", why)
+	}
+	res.Recommended = Recommendation{Scheme: res.Tests[0].Scheme, PValue: res.Tests[0].PValue, Reason: reason}
+	if fpr := res.FalsePositiveRate; fpr != nil {
+		res.Recommended.Reason += fmt.Sprintf(" On %d surrogates with the outcome's spatial pattern it rejected %.1f%% of true nulls at the %g level.", fpr.Surrogates, 100*fpr.Rate, fpr.Alpha)
+	}
 }

@@ -127,6 +127,10 @@ type Autocorrelation struct {
 	// significant positive autocorrelation at Alpha.
 	Clustered bool    `json:"clustered"`
 	Alpha     float64 `json:"alpha"`
+	// Skipped, when set, says why the check could not run (too few tested
+	// areas with a neighbour); Clustered is then false for want of a
+	// check, not because nothing clusters.
+	Skipped string `json:"skipped,omitempty"`
 }
 
 // VariableMoran is Moran's I of one variable.

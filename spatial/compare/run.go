@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
@@ -50,17 +52,28 @@ func (c *comparison) k() int { return len(c.levels) }
 // scheme, the spectral surrogates and the false-positive check, estimates
 // the effective sample size, checks for spatial clustering and says which
 // p-value to read. Problems with the data are an *Error or one of the
-// typed errors of this package.
+// typed errors of this package; counts above this package's maxima (or
+// shuffle.MaxPermutations) are a *shuffle.CountError, returned before any
+// work.
 func Run(in Input, opt Options) (*Result, error) {
 	n := len(in.IDs)
 	if len(in.Outcome) != n || len(in.Group) != n || in.Graph == nil || in.Graph.Len() != n {
 		return nil, errors.New("compare: input columns and graph disagree in length")
+	}
+	if err := opt.checkCounts(); err != nil {
+		return nil, err
 	}
 	res := &Result{Seed: opt.Seed, Cautions: Cautions, Warnings: []string{}, Excluded: []Exclusion{}}
 	res.Input = InputInfo{Areas: n, Outcome: in.OutcomeName, Group: in.GroupName, Strata: in.StrataName}
 	c, err := prepare(in, opt, res)
 	if err != nil {
 		return nil, err
+	}
+	if opt.FalsePositives > 0 && len(in.Covariates) == 0 {
+		// Before any work: a check that cannot reject is a setting to fix.
+		if err := checkShuffles(opt.checkShuffles(), opt.Alpha, c.alt); err != nil {
+			return nil, err
+		}
 	}
 	t := &tester{opt: opt, data: c.data, stat: c.stat, alt: c.alt}
 	if len(in.Covariates) > 0 {
@@ -127,7 +140,11 @@ func prepare(in Input, opt Options, res *Result) (*comparison, error) {
 }
 
 // selectAreas decides which areas take part, and counts the others by the
-// reason they do not, in order of first appearance.
+// reason they do not, in order of first appearance. When no area has a
+// value of every column the comparison needs, it is an *Error that counts
+// the areas by what they lack, rather than an empty test; a contrast level
+// that none of the areas with data has is a *LevelError listing the levels
+// those areas do have.
 func selectAreas(in Input, contrast []string) ([]int, []Exclusion, error) {
 	var inContrast map[string]bool
 	if len(contrast) > 0 {
@@ -137,22 +154,18 @@ func selectAreas(in Input, contrast []string) ([]int, []Exclusion, error) {
 		inContrast = map[string]bool{contrast[0]: true, contrast[1]: true}
 	}
 	keep := make([]int, 0, len(in.IDs))
+	present := map[string]int{} // levels of the areas with data, contrast or not
 	reasons := map[string]int{}
 	excluded := []Exclusion{}
 	for i := range in.IDs {
-		why := ""
-		switch {
-		case in.OutcomeMissing[i]:
-			why = "missing " + in.OutcomeName
-		case in.GroupMissing[i]:
-			why = "missing " + in.GroupName
-		case in.Strata != nil && in.StrataMissing[i]:
-			why = "missing " + in.StrataName
-		case inContrast != nil && !inContrast[in.Group[i]]:
-			why = fmt.Sprintf("%s not in the contrast", in.GroupName)
-		case missingCovariate(in.Covariates, i) != "":
-			why = "missing " + missingCovariate(in.Covariates, i)
-		default:
+		why := missingReason(in, i)
+		if why == "" {
+			present[in.Group[i]]++
+			if inContrast != nil && !inContrast[in.Group[i]] {
+				why = fmt.Sprintf("%s not in the contrast", in.GroupName)
+			}
+		}
+		if why == "" {
 			keep = append(keep, i)
 			continue
 		}
@@ -165,7 +178,48 @@ func selectAreas(in Input, contrast []string) ([]int, []Exclusion, error) {
 		excluded[r].Areas++
 		excluded[r].IDs = append(excluded[r].IDs, in.IDs[i])
 	}
+	if len(present) == 0 {
+		return nil, nil, noAreaError(in, excluded)
+	}
+	for _, c := range contrast {
+		if present[c] == 0 {
+			return nil, nil, &LevelError{Level: c, Column: in.GroupName, Present: sortedLevels(present)}
+		}
+	}
 	return keep, excluded, nil
+}
+
+// missingReason says which of the columns the comparison needs area i
+// lacks ("missing COLUMN"), or "" when it has them all.
+func missingReason(in Input, i int) string {
+	switch {
+	case in.OutcomeMissing[i]:
+		return "missing " + in.OutcomeName
+	case in.GroupMissing[i]:
+		return "missing " + in.GroupName
+	case in.Strata != nil && in.StrataMissing[i]:
+		return "missing " + in.StrataName
+	case missingCovariate(in.Covariates, i) != "":
+		return "missing " + missingCovariate(in.Covariates, i)
+	}
+	return ""
+}
+
+// noAreaError is the error for a layer on which no area has a value of
+// every column needed, with the areas counted by what they lack.
+func noAreaError(in Input, excluded []Exclusion) error {
+	parts := make([]string, len(excluded))
+	for k, e := range excluded {
+		parts[k] = fmt.Sprintf("%s %s", numtext.Count(e.Areas), e.Reason)
+	}
+	need := in.OutcomeName + " and " + in.GroupName
+	if in.Strata != nil || len(in.Covariates) > 0 {
+		need = "every column the comparison needs"
+	}
+	if len(parts) == 0 {
+		return dataErr("no area can be tested: the layer has no areas")
+	}
+	return dataErr("no area can be tested: none of the %s areas has a value of %s (%s)", numtext.Count(len(in.IDs)), need, strings.Join(parts, ", "))
 }
 
 func missingCovariate(cs []Covariate, i int) string {
@@ -185,10 +239,7 @@ func (c *comparison) setLevels() error {
 	for _, i := range c.keep {
 		present[in.Group[i]]++
 	}
-	levels, err := orderLevels(present, c.opt.Contrast, in.GroupName)
-	if err != nil {
-		return err
-	}
+	levels := orderLevels(present, c.opt.Contrast)
 	if len(levels) < 2 {
 		return dataErr("%s has only one level (%q) among the %d areas with data; a comparison needs at least two groups", in.GroupName, levels[0], len(c.keep))
 	}

@@ -24,7 +24,8 @@ func (c *comparison) spatialCheck(res *Result) error {
 	res.Warnings = append(res.Warnings, res.Weights.Warnings...)
 	res.Autocorrelation.Alpha = opt.Alpha
 	if linkedAreas := r.Summary.Areas - r.Summary.Islands; linkedAreas < 3 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("Only %d tested areas have a neighbour among the tested areas, too few for Moran's I; the spatial check was skipped.", linkedAreas))
+		res.Autocorrelation.Skipped = fmt.Sprintf("only %d of the %d tested areas have a neighbour among the tested areas, too few for Moran's I", linkedAreas, r.Summary.Areas)
+		res.Warnings = append(res.Warnings, fmt.Sprintf("The spatial check could not run: %s.", res.Autocorrelation.Skipped))
 		return nil
 	}
 	if err := c.morans(r.Graph, r.Used, res); err != nil {
@@ -33,10 +34,10 @@ func (c *comparison) spatialCheck(res *Result) error {
 	switch w := res.Weights; {
 	case w.Islands > 0 && in.KeepIslands:
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d tested area(s) have no neighbour (%s); they are kept in the spatial check with a spatial lag of zero.",
-			w.Islands, listIDs(w.IslandIDs, 5)))
+			w.Islands, listIDs(w.IslandIDs, w.Islands, 5)))
 	case w.Islands > 0:
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d tested area(s) have no neighbour (%s) and are left out of the spatial check; they still count in the group test.",
-			w.Islands, listIDs(w.IslandIDs, 5)))
+			w.Islands, listIDs(w.IslandIDs, w.Islands, 5)))
 	}
 	significant := func(m VariableMoran) bool { return m.MoransI > m.Expected && m.PValue <= opt.Alpha }
 	if significant(res.Autocorrelation.Outcome) {
@@ -106,9 +107,13 @@ func moranOf(name string, x []float64, g *weights.Graph, plan shuffle.Plan) (Var
 		Permutations: t.Permutation.Permutations, Exact: t.Permutation.Exact}, nil
 }
 
-func listIDs(ids []string, max int) string {
-	if len(ids) <= max {
+// listIDs lists up to max of ids, and how many more of total there are:
+// ids may itself be cut short (weights.Summary lists only the first few
+// islands), so the count comes from total, not from len(ids).
+func listIDs(ids []string, total, max int) string {
+	ids = ids[:min(len(ids), max)]
+	if total <= len(ids) {
 		return strings.Join(ids, ", ")
 	}
-	return strings.Join(ids[:max], ", ") + fmt.Sprintf(" and %d more", len(ids)-max)
+	return strings.Join(ids, ", ") + fmt.Sprintf(" and %d more", total-len(ids))
 }

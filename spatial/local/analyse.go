@@ -111,8 +111,10 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	if len(r.Used) < 3 || r.Graph.Links() == 0 {
-		return nil, fmt.Errorf("%s: only %d areas with a value of %s have a neighbour among themselves; a local analysis needs more", in.File, len(r.Used), in.Variable)
+	// r.Used holds the kept islands too; the count that matters here is
+	// of the areas with a neighbour.
+	if linked := r.Summary.Areas - r.Summary.Islands; len(r.Used) < 3 || linked == 0 {
+		return nil, fmt.Errorf("%s: only %d of the %d areas with a value of %s have a neighbour among themselves; a local analysis needs at least three areas to analyse and a pair of neighbours among them", in.File, linked, r.Summary.Areas, in.Variable)
 	}
 	x, y := r.Pick(in.Values), r.Pick(in.AgainstValues)
 	opt.KeepNull = nil

@@ -74,7 +74,8 @@ type LocalPlan struct {
 	// weights are all equal is enumerated the same way; one with unequal
 	// weights is enumerated over the (n−1)!/(n−1−d)! ordered fillings.
 	Weights []float64
-	// Permutations is the number B of Monte Carlo draws per area.
+	// Permutations is the number B of Monte Carlo draws per area, at most
+	// MaxPermutations.
 	Permutations int
 	// ExactLimit: an area with at most this many distinct fillings is
 	// enumerated in full. 0 means DefaultLocalExactLimit; negative never
@@ -160,6 +161,9 @@ func RunLocal(p LocalPlan, f LocalFactory) ([]LocalResult, error) {
 	}
 	if needDraws && p.Permutations < 1 {
 		return nil, errors.New("shuffle: the number of permutations must be at least 1")
+	}
+	if err := CheckCount("permutations", p.Permutations, MaxPermutations); err != nil {
+		return nil, err
 	}
 	res := make([]LocalResult, n)
 	for _, i := range p.KeepNull {

@@ -19,6 +19,11 @@
 // multiple-testing adjustment (Adjustment, Adjust: Holm, Benjamini–Hochberg,
 // Benjamini–Yekutieli), and the seeded random streams (Stream).
 //
+// Counts: no test takes more than MaxPermutations draws (limits.go), and
+// the counting streams — tallies are folded a window of blocks at a time —
+// so memory does not grow with the draws unless a null distribution is
+// kept on purpose (KeepNull).
+//
 // Reproducibility: work is cut into fixed blocks of draws, scheduled by
 // internal/parallel; block k always uses the stream derived from (seed,
 // purpose, k), so results do not depend on how many goroutines share the

@@ -7,8 +7,6 @@ import (
 	"math/big"
 	"sort"
 	"sync/atomic"
-
-	"github.com/areatest/areatest/internal/parallel"
 )
 
 // Evaluator computes a statistic for one arrangement of labels. It may keep
@@ -37,7 +35,8 @@ type Plan struct {
 	// Strata, when not nil, gives each unit a stratum; labels are exchanged
 	// only between units of the same stratum.
 	Strata []int32
-	// Permutations is the number of Monte Carlo arrangements B.
+	// Permutations is the number of Monte Carlo arrangements B, at most
+	// MaxPermutations.
 	Permutations int
 	// ExactLimit: enumerate every distinct arrangement when there are at
 	// most this many. 0 means DefaultExactLimit; negative never enumerates.
@@ -136,6 +135,9 @@ func RunMany(p Plan, stats []Statistic, f ManyFactory) ([]Result, error) {
 	}
 	if p.Strata != nil && len(p.Strata) != n {
 		return nil, fmt.Errorf("shuffle: %d strata for %d units", len(p.Strata), n)
+	}
+	if err := CheckCount("permutations", p.Permutations, MaxPermutations); err != nil {
+		return nil, err
 	}
 	groups := strataMembers(n, p.Strata)
 	observed := make([]float64, k)
@@ -388,12 +390,14 @@ func reverse(s []int32) {
 }
 
 // sample draws p.Permutations random arrangements in fixed blocks, each block
-// with its own stream, spread over the workers.
+// with its own stream, spread over the workers; the blocks' tallies are
+// folded in block order a window at a time (forBlocksFolded).
 func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Statistic, res []Result) {
 	B := p.Permutations
 	k := len(stats)
 	blocks := (B + BlockSize - 1) / BlockSize
-	tallies := make([]tally, blocks*k) // block b, statistic s at b*k+s
+	window := make([]tally, min(blocks, foldWindow)*k) // slot w, statistic s at w*k+s
+	totals := make([]tally, k)
 	var nulls [][]float64
 	if p.KeepNull {
 		nulls = make([][]float64, k)
@@ -402,18 +406,19 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 		}
 	}
 	var done atomic.Int64
-	parallel.ForBlocks(blocks, p.Workers, func() func(int) {
+	forBlocksFolded(blocks, p.Workers, func() func(int, int) {
 		eval := f()
 		labels := make([]int32, len(p.Labels))
 		vals := make([]float64, k)
 		var rng Stream
-		return func(b int) {
+		return func(b, slot int) {
 			// Every block starts from the observed arrangement, so its
 			// draws depend only on (seed, block).
 			copy(labels, p.Labels)
 			rng.Reset(p.Seed, p.Purpose, b)
 			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-			ts := tallies[b*k : (b+1)*k]
+			ts := window[slot*k : (slot+1)*k]
+			clear(ts)
 			for d := lo; d < hi; d++ {
 				shuffleGroups(&rng, labels, groups)
 				eval(labels, vals)
@@ -428,18 +433,18 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 				p.Progress(int(done.Add(int64(hi-lo))), B)
 			}
 		}
+	}, func(_, slot int) {
+		for s := range totals {
+			totals[s].merge(window[slot*k+s])
+		}
 	})
 	for s := range res {
-		var t tally
-		for b := 0; b < blocks; b++ { // block order, so float sums do not depend on scheduling
-			t.merge(tallies[b*k+s])
-		}
 		r := &res[s]
 		r.Permutations = B
 		if nulls != nil {
 			r.Null = nulls[s]
 		}
-		finishSampled(r, t, B, stats[s].Alternative)
+		finishSampled(r, totals[s], B, stats[s].Alternative)
 	}
 }
 

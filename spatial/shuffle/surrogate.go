@@ -5,8 +5,6 @@ import (
 	"fmt"
 	"math"
 	"sync/atomic"
-
-	"github.com/areatest/areatest/internal/parallel"
 )
 
 // SurrogatePlan describes a test whose null distribution comes from
@@ -21,7 +19,7 @@ import (
 type SurrogatePlan struct {
 	// Scheme names the null model in reports.
 	Scheme string
-	// Draws is the number of surrogate outcomes B.
+	// Draws is the number of surrogate outcomes B, at most MaxPermutations.
 	Draws int
 	// Seed fixes the random streams; Purpose separates them from the
 	// streams of other tests that share the seed.
@@ -63,6 +61,9 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 	if p.Draws < 1 {
 		return Result{}, errors.New("shuffle: the number of surrogate draws must be at least 1")
 	}
+	if err := CheckCount("surrogate draws", p.Draws, MaxPermutations); err != nil {
+		return Result{}, err
+	}
 	if newDraw == nil || newEval == nil {
 		return Result{}, errors.New("shuffle: a surrogate test needs a draw and an evaluator")
 	}
@@ -76,24 +77,26 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 	tol := 1e-9 * math.Max(math.Abs(observed), scale)
 	B := p.Draws
 	blocks := (B + BlockSize - 1) / BlockSize
-	tallies := make([]tally, blocks)
+	window := make([]tally, min(blocks, foldWindow))
+	var t tally
 	var null []float64
 	if p.KeepNull {
 		null = make([]float64, B)
 	}
 	var done atomic.Int64
-	parallel.ForBlocks(blocks, p.Workers, func() func(int) {
+	forBlocksFolded(blocks, p.Workers, func() func(int, int) {
 		draw, eval := newDraw(), newEval()
 		y := make([]float64, n)
 		var rng Stream
-		return func(b int) {
+		return func(b, slot int) {
 			rng.Reset(p.Seed, p.Purpose, b)
 			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-			t := &tallies[b]
+			bt := &window[slot]
+			*bt = tally{}
 			for d := lo; d < hi; d++ {
 				draw(&rng, y)
 				v := eval(y)
-				t.add(v, observed, tol)
+				bt.add(v, observed, tol)
 				if null != nil {
 					null[d] = v
 				}
@@ -102,11 +105,7 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 				p.Progress(int(done.Add(int64(hi-lo))), B)
 			}
 		}
-	})
-	var t tally
-	for _, bt := range tallies { // block order, so float sums do not depend on scheduling
-		t.merge(bt)
-	}
+	}, func(_, slot int) { t.merge(window[slot]) }) // block order, so float sums do not depend on scheduling
 	res := Result{Scheme: p.Scheme, Alternative: p.Alternative.String(), Observed: observed,
 		Permutations: B, Null: null}
 	finishSampled(&res, t, B, p.Alternative)
