@@ -48,11 +48,8 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 
 // check checks the flag values and turns them into the library's options.
 func (c *compareFlags) check() error {
-	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
-		return err
-	}
 	c.opt = compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
-		Alternative: c.alt, Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
+		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
 	if c.statistic != "" {
 		s, err := groups.ParseStatistic(c.statistic)
 		if err != nil {
@@ -84,6 +81,12 @@ func (c *compareFlags) check() error {
 			return err
 		}
 	}
+	// The shared flags last: they end by checking the output files, after
+	// every usage error.
+	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
+		return err
+	}
+	c.opt.Alternative = c.alt
 	return nil
 }
 
