@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
@@ -101,6 +102,20 @@ func Run(in Input, opt Options) (*Result, error) {
 	return res, nil
 }
 
+// checkMagnitude refuses values of a tested column (v[k] belongs to area
+// keep[k]) too large for the statistics to square, naming the column and
+// the area (autocorr.CheckMagnitude).
+func (c *comparison) checkMagnitude(column string, v []float64) error {
+	var tl *autocorr.TooLargeError
+	if err := autocorr.CheckMagnitude(v); errors.As(err, &tl) {
+		tl.Column, tl.ID = column, c.in.IDs[c.keep[tl.Index]]
+		return err
+	} else if err != nil {
+		return err
+	}
+	return nil
+}
+
 // prepare picks the tested areas and their levels, chooses the statistic
 // and fills the result's groups and observed statistic.
 func prepare(in Input, opt Options, res *Result) (*comparison, error) {
@@ -110,6 +125,9 @@ func prepare(in Input, opt Options, res *Result) (*comparison, error) {
 		return nil, err
 	}
 	if err := c.setLevels(); err != nil {
+		return nil, err
+	}
+	if err := c.checkMagnitude(in.OutcomeName, c.y); err != nil {
 		return nil, err
 	}
 	res.Input.Tested = len(c.keep)

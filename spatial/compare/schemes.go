@@ -124,6 +124,9 @@ func (t *tester) adjustFor(c *comparison, res *Result) error {
 		for j, i := range c.keep {
 			col[j] = cov.Values[i]
 		}
+		if err := c.checkMagnitude(cov.Name, col); err != nil {
+			return err
+		}
 		cols = append(cols, col)
 		names = append(names, cov.Name)
 	}

@@ -1,10 +1,12 @@
 package local
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sort"
 
+	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -117,6 +119,16 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 		return nil, fmt.Errorf("%s: only %d of the %d areas with a value of %s have a neighbour among themselves; a local analysis needs at least three areas to analyse and a pair of neighbours among them", in.File, linked, r.Summary.Areas, in.Variable)
 	}
 	x, y := r.Pick(in.Values), r.Pick(in.AgainstValues)
+	for _, v := range []struct {
+		name string
+		x    []float64
+	}{{in.Variable, x}, {in.Against, y}} {
+		var tl *autocorr.TooLargeError
+		if err := autocorr.CheckMagnitude(v.x); errors.As(err, &tl) {
+			tl.Column, tl.ID = v.name, in.IDs[r.Areas[tl.Index]]
+			return nil, fmt.Errorf("%s: %w", in.File, err)
+		}
+	}
 	opt.KeepNull = nil
 	nullArea := -1
 	if in.NullOf != "" {
@@ -221,8 +233,8 @@ func (res *Result) Strongest(top int) []Area {
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool { return math.Abs(out[i].Z) > math.Abs(out[j].Z) })
-	if len(out) > top {
-		out = out[:top]
+	if len(out) > max(top, 0) {
+		out = out[:max(top, 0)]
 	}
 	return out
 }
