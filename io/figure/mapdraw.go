@@ -50,7 +50,7 @@ func measureLegend(ff *fontFaces, spec mapSpec) legendBox {
 	lg.entryW = swatchW + 9 + lg.labelW + 16 + lg.countW
 	headW := math.Max(lg.entryW, 200)
 	if spec.heading != "" {
-		lg.heading = ff.wrap(spec.heading, true, headSize, headW)
+		lg.heading = ff.wrap(spec.heading, true, headSize, headW, maxHeadingLines)
 	}
 	lg.w = lg.entryW
 	for _, h := range lg.heading {
