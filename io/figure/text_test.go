@@ -204,3 +204,37 @@ func BenchmarkLongName(b *testing.B) {
 		}
 	}
 }
+
+// FuzzTextLayout checks that the incremental layout gives the lines of
+// the plain one on any text, valid UTF-8 or not, and that every line of a
+// capped wrap fits. Not run in CI; run it with
+//
+//	go test ./io/figure -run XXX -fuzz FuzzTextLayout -fuzztime 60s -fuzzminimizetime 5s
+func FuzzTextLayout(f *testing.F) {
+	ff, err := loadFonts()
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add("Where rate per 100,000 clusters", 200.0, uint8(3))
+	f.Add("AV To\nWa  字 \xff\xfe long", 40.0, uint8(1))
+	f.Add("", 0.0, uint8(2))
+	f.Fuzz(func(t *testing.T, s string, w float64, maxLines uint8) {
+		if len(s) > 300 {
+			return // the plain layout is quadratic
+		}
+		want := plainWrap(ff, s, false, 14, w)
+		if got := ff.wrap(s, false, 14, w, len(want)); !slices.Equal(got, want) {
+			t.Fatalf("wrap(%q, %v):\n got %q\nwant %q", s, w, got, want)
+		}
+		n := int(maxLines%8) + 1
+		lines := ff.wrap(s, false, 14, w, n)
+		if len(lines) > n {
+			t.Fatalf("wrap(%q, %v, %d) gave %d lines", s, w, n, len(lines))
+		}
+		for _, l := range lines {
+			if l != "…" && ff.width(false, 14, l) > w {
+				t.Fatalf("line %q of wrap(%q, %v, %d) is wider than %v", l, s, w, n, w)
+			}
+		}
+	})
+}
