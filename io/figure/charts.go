@@ -229,6 +229,7 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, s
 			area.Max.Y += d // trim the top, keeping the axis by the legend
 		}
 	}
+	fitAxisLabels(ff, p, area)
 	p.Draw(area)
 	if f == PNG {
 		_, err := vc.WriteTo(w)
@@ -243,6 +244,15 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, s
 	out := strings.ReplaceAll(buf.String(), "font-family:Liberation Sans;", "font-family:"+fontFamily+";")
 	_, err := io.WriteString(w, out)
 	return err
+}
+
+// fitAxisLabels cuts an axis label longer than its axis with "…", so that
+// a long variable name is not drawn past the edges of the picture.
+func fitAxisLabels(ff *fontFaces, p *plot.Plot, area draw.Canvas) {
+	data := p.DataCanvas(area)
+	toPx := func(l vg.Length) float64 { return float64(l) * pxPerPt }
+	p.X.Label.Text = ff.ellipsize(p.X.Label.Text, false, 14, toPx(data.Max.X-data.Min.X))
+	p.Y.Label.Text = ff.ellipsize(p.Y.Label.Text, false, 14, toPx(data.Max.Y-data.Min.Y))
 }
 
 // chartSetup checks the size asked for a chart, filling a side left 0

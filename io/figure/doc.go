@@ -31,9 +31,13 @@
 // projection of longitude/latitude layers). The legend goes to the right
 // of the map, or under it in columns when that lets the map be larger. It
 // lists every class or category with its number of areas, then "no data"
-// with the number of areas without a value. Long titles and notes wrap;
-// long legend labels are shortened with "…"; nothing is drawn outside the
-// picture.
+// with the number of areas without a value. Long titles and notes wrap:
+// the title, the subtitle and the legend heading take at most three lines
+// each and the note eight, the last line ending in "…" when text is left
+// over; long legend labels, and charts' axis labels longer than their
+// axis, are shortened with "…"; nothing is drawn outside the picture. Text
+// is measured as it grows, one character at a time, so laying it out takes
+// time linear in its length (see BenchmarkLongName).
 //
 // Outlines between areas follow the size areas are drawn at: grey lines
 // when areas are large, fainter ones when they are small, none when they

@@ -50,7 +50,7 @@ func measureLegend(ff *fontFaces, spec mapSpec) legendBox {
 	lg.entryW = swatchW + 9 + lg.labelW + 16 + lg.countW
 	headW := math.Max(lg.entryW, 200)
 	if spec.heading != "" {
-		lg.heading = ff.wrap(spec.heading, true, headSize, headW)
+		lg.heading = ff.wrap(spec.heading, true, headSize, headW, maxHeadingLines)
 	}
 	lg.w = lg.entryW
 	for _, h := range lg.heading {
@@ -399,7 +399,8 @@ func (ap *areaPainter) group(st style, areas []int32) {
 }
 
 // markers puts a disc in its area's style on each tiny isolated part, on
-// top of the areas.
+// top of the areas. A part of an area without data — whether the whole
+// area or one part of several — gets the hatched disc of missingClass.
 func (ap *areaPainter) markers(isl islands) {
 	for p, a := range isl.alone {
 		if !a || !isl.tiny(p) {

@@ -3,6 +3,7 @@ package figure
 import (
 	"fmt"
 	"image/color"
+	"slices"
 	"strings"
 	"sync"
 
@@ -83,48 +84,132 @@ func (f *fontFaces) width(bold bool, size float64, s string) float64 {
 
 func fixedToFloat(v fixed.Int26_6) float64 { return float64(v) / 64 }
 
-// wrap breaks s into lines no wider than w pixels, at spaces; a single
-// word wider than w gets a line of its own. Explicit newlines are kept.
-func (f *fontFaces) wrap(s string, bold bool, size, w float64) []string {
+// measure adds up the width of a text as it grows, rune by rune, with the
+// kerning between neighbours: the sum font.MeasureString makes, so a line
+// or a prefix is measured in the time of what is added to it, never again
+// from its start. That keeps wrapping and shortening linear in the length
+// of the text. The zero value is not ready: start one with newMeasure.
+type measure struct {
+	face font.Face
+	adv  fixed.Int26_6
+	prev rune // the last rune added; −1 before the first
+}
+
+func (f *fontFaces) newMeasure(bold bool, size float64) measure {
+	return measure{face: f.face(bold, size), prev: -1}
+}
+
+func (m *measure) addRune(c rune) {
+	if m.prev >= 0 {
+		m.adv += m.face.Kern(m.prev, c)
+	}
+	a, _ := m.face.GlyphAdvance(c)
+	m.adv += a
+	m.prev = c
+}
+
+func (m *measure) add(s string) {
+	for _, c := range s {
+		m.addRune(c)
+	}
+}
+
+// fits says whether the text measured so far is at most w pixels wide.
+func (m measure) fits(w float64) bool { return fixedToFloat(m.adv) <= w }
+
+// Most lines each kind of wrapped text may take; text beyond them is cut
+// with "…" at the end of the last line, so that a title or a variable name
+// of any length leaves room for the map.
+const (
+	maxTitleLines   = 3
+	maxHeadingLines = 3 // the legend's heading
+	maxNoteLines    = 8
+)
+
+// wrap breaks s into at most maxLines lines no wider than w pixels, at
+// spaces; a single word wider than w gets a line of its own, cut with
+// "…". Explicit newlines are kept. When the text needs more lines, the
+// last one ends with "…". The time taken grows with the length of the
+// text kept, not with its square.
+func (f *fontFaces) wrap(s string, bold bool, size, w float64, maxLines int) []string {
 	var lines []string
-	for _, para := range strings.Split(s, "\n") {
+	var line strings.Builder
+	paras := strings.Split(s, "\n")
+	for pi, para := range paras {
 		words := strings.Fields(para)
-		if len(words) == 0 {
-			lines = append(lines, "")
-			continue
-		}
-		line := words[0]
-		for _, word := range words[1:] {
-			if f.width(bold, size, line+" "+word) <= w {
-				line += " " + word
+		line.Reset()
+		m := f.newMeasure(bold, size)
+		for k, word := range words {
+			next := m
+			if k > 0 {
+				next.addRune(' ')
+			}
+			if next.add(word); k == 0 || next.fits(w) {
+				if k > 0 {
+					line.WriteByte(' ')
+				}
+				line.WriteString(word)
+				m = next
 				continue
 			}
-			lines = append(lines, line)
-			line = word
+			if len(lines) == maxLines-1 {
+				// Out of lines: this one ends in "…".
+				return append(lines, f.cut(line.String()+" "+word, bold, size, w, true))
+			}
+			lines = append(lines, f.cut(line.String(), bold, size, w, false))
+			line.Reset()
+			line.WriteString(word)
+			m = f.newMeasure(bold, size)
+			m.add(word)
 		}
-		lines = append(lines, line)
-	}
-	// A word longer than the whole width is cut rather than let run off
-	// the picture.
-	for i, l := range lines {
-		lines[i] = f.ellipsize(l, bold, size, w)
+		if len(lines) == maxLines-1 {
+			more := slices.ContainsFunc(paras[pi+1:], func(p string) bool { return strings.TrimSpace(p) != "" })
+			return append(lines, f.cut(line.String(), bold, size, w, more))
+		}
+		lines = append(lines, f.cut(line.String(), bold, size, w, false))
 	}
 	return lines
 }
 
 // ellipsize shortens s with a trailing "…" until it fits in w pixels.
 func (f *fontFaces) ellipsize(s string, bold bool, size, w float64) string {
-	if f.width(bold, size, s) <= w {
-		return s
-	}
-	r := []rune(s)
-	for len(r) > 0 {
-		r = r[:len(r)-1]
-		if t := strings.TrimRight(string(r), " ") + "…"; f.width(bold, size, t) <= w {
-			return t
+	return f.cut(s, bold, size, w, false)
+}
+
+// cut returns s when it fits in w pixels, and otherwise its longest
+// prefix that fits with "…" after it (trailing spaces dropped before the
+// "…"), or "…" alone. more says the text goes on after s, so the "…" is
+// due even when s would fit. It measures each prefix by adding one rune to
+// the last (see measure), so its time is linear in the length of s.
+func (f *fontFaces) cut(s string, bold bool, size, w float64, more bool) string {
+	if !more {
+		m := f.newMeasure(bold, size)
+		if m.add(s); m.fits(w) {
+			return s
 		}
 	}
-	return "…"
+	r := []rune(s)
+	n := len(r) // prefixes r[:0] … r[:n−1]; r[:n] too when more
+	if more {
+		n++
+	}
+	grow := f.newMeasure(bold, size) // r[:i]
+	kept, keptLen := grow, 0         // r[:i] less its trailing spaces
+	best := 0
+	for i := range n {
+		withDots := kept
+		if withDots.addRune('…'); withDots.fits(w) {
+			best = keptLen
+		}
+		if i == len(r) {
+			break
+		}
+		grow.addRune(r[i])
+		if r[i] != ' ' {
+			kept, keptLen = grow, i+1
+		}
+	}
+	return string(r[:best]) + "…"
 }
 
 // frameText is the text around a picture, wrapped to its width: the title
@@ -143,13 +228,13 @@ func wrapFrameText(ff *fontFaces, title, subtitle, note string, width float64) f
 	tw := width - 2*margin
 	var t frameText
 	if title != "" {
-		t.title = ff.wrap(title, true, titleSize, tw)
+		t.title = ff.wrap(title, true, titleSize, tw, maxTitleLines)
 	}
 	if subtitle != "" {
-		t.sub = ff.wrap(subtitle, false, subSize, tw)
+		t.sub = ff.wrap(subtitle, false, subSize, tw, maxTitleLines)
 	}
 	if note != "" {
-		t.note = ff.wrap(note, false, noteSize, tw)
+		t.note = ff.wrap(note, false, noteSize, tw, maxNoteLines)
 	}
 	return t
 }
