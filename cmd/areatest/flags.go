@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/internal/choice"
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/output"
@@ -57,7 +58,7 @@ func (c *sharedFlags) registerInput(fs *pflag.FlagSet) {
 // registerRun adds the flags of the shuffles, the output and the weights.
 func (c *sharedFlags) registerRun(fs *pflag.FlagSet, formats ...string) {
 	fs.StringVar(&c.alternative, "alternative", "two-sided", "two-sided, greater (more clustered than chance) or less (more dispersed)")
-	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test")
+	fs.IntVarP(&c.permutations, "permutations", "n", 9999, "Monte Carlo shuffles per test (at most "+numtext.Count(shuffle.MaxPermutations)+")")
 	fs.Uint64Var(&c.seed, "seed", 1, "seed of the random shuffles; the same seed gives the same result")
 	fs.IntVar(&c.workers, "workers", runtime.NumCPU(), "goroutines sharing the shuffles (results do not depend on it)")
 	c.registerOutput(fs, formats...)
