@@ -71,16 +71,14 @@ func compareTests(b *strings.Builder, r *compare.Result) {
 			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), pEquals(a.ClassicalP)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
-	for _, t := range r.Tests {
-		interval := "exact"
-		count := numtext.Count(t.Permutations)
-		if !t.Exact {
-			interval = bound(t.Interval[0]) + " to " + bound(t.Interval[1])
-		} else {
-			count += " (all)"
+	if r.FalsePositiveRate != nil {
+		testTableWithRates(b, r)
+	} else {
+		fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", "null model", "p-value", "95% interval", "draws")
+		for _, t := range r.Tests {
+			interval, count := testCells(t)
+			fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", truncate(t.Scheme, 30), PValue(t.PValue), interval, count)
 		}
-		fmt.Fprintf(b, "  %-30s %10s   %-21s %12s\n", truncate(t.Scheme, 30), PValue(t.PValue), interval, count)
 	}
 	if len(r.Tests) > 0 {
 		b.WriteString(Wrap(testFootnote(r), width, "  ", "  "))
@@ -88,12 +86,54 @@ func compareTests(b *strings.Builder, r *compare.Result) {
 	b.WriteString("\n")
 }
 
+// testCells writes a row's interval and its count of draws.
+func testCells(t compare.TestRow) (interval, count string) {
+	interval = "exact"
+	count = numtext.Count(t.Permutations)
+	if !t.Exact {
+		interval = bound(t.Interval[0]) + " to " + bound(t.Interval[1])
+	} else {
+		count += " (all)"
+	}
+	return interval, count
+}
+
+// testTableWithRates writes the table of null models with each
+// label-shuffle row's measured false-positive rate, and under a row whose
+// rate lies above alpha the mark that says so.
+func testTableWithRates(b *strings.Builder, r *compare.Result) {
+	fmt.Fprintf(b, "  %-26s %8s   %-18s %9s   %s\n", "null model", "p-value", "95% interval", "draws", "false positives")
+	for _, t := range r.Tests {
+		interval, count := testCells(t)
+		rate := "not measured"
+		if f := t.FalsePositives; f != nil {
+			rate = fmt.Sprintf("%s (%s–%s)", percent(f.Rate), strings.TrimSuffix(percent(f.Interval[0]), "%"), percent(f.Interval[1]))
+		}
+		fmt.Fprintf(b, "  %-26s %8s   %-18s %9s   %s\n", truncate(t.Scheme, 26), PValue(t.PValue), interval, count, rate)
+		if t.Unsound() {
+			mark := "too many false positives here: " + percent(t.FalsePositives.Rate) + ", do not read this p-value"
+			if strings.HasSuffix(t.Scheme, "automatic zones") {
+				mark += "; give strata of your own"
+			}
+			b.WriteString(Wrap(mark, width, "    ! ", "      "))
+		}
+	}
+}
+
+// percent writes a share as a percentage, with a decimal below 10%.
+func percent(x float64) string {
+	if 100*x < 9.95 {
+		return fmt.Sprintf("%.1f%%", 100*x)
+	}
+	return fmt.Sprintf("%.0f%%", 100*x)
+}
+
 // compareChecks writes the false-positive check, the effective sample size
 // and the spatial check.
 func compareChecks(b *strings.Builder, r *compare.Result) {
 	if f := r.FalsePositiveRate; f != nil {
-		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, the free shuffle (%s shuffles each) called %.1f%% significant at the %g level (95%% interval %.1f–%.1f%%); a sound test calls %g%%.",
-			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), 100*f.Rate, f.Alpha, 100*f.Interval[0], 100*f.Interval[1], 100*f.Alpha), width, "  ", "  "))
+		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. The spectral surrogates' own rate is not measured here.",
+			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	if e := r.EffectiveSampleSize; e != nil {

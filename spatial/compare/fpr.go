@@ -75,38 +75,47 @@ type FalsePositiveRate struct {
 	Rejected     int        `json:"rejected"`
 }
 
-// FalsePositives draws opt.Surrogates surrogates of o and runs on each the
-// ordinary free label shuffle of stat (shuffle.Run, groups.Prepare and
-// groups.Data.Factory: the very test the comparison reports, by Monte Carlo
-// with opt.Permutations shuffles), counting the rejections at opt.Alpha.
-// labels[i] in 0..k−1 is the group of area i. Counts above the maxima are
-// a *shuffle.CountError, too few shuffles to reject at Alpha a
-// *CheckShufflesError. Only the count of rejections is kept, so memory does
-// not grow with the number of surrogates.
+// CheckScheme is one label-shuffle scheme whose false-positive rate the
+// check measures: labels exchanged freely (Strata nil) or only between
+// areas of the same stratum (Strata[i] is area i's, in the order of the
+// labels).
+type CheckScheme struct {
+	// Name is the scheme as the comparison's row names it.
+	Name   string
+	Strata []int32
+}
+
+// FalsePositives is FalsePositivesOf for the free shuffle alone.
 func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32, k int, opt FPROptions) (FalsePositiveRate, error) {
+	r, err := FalsePositivesOf(o, stat, labels, k, []CheckScheme{{Name: "free"}}, opt)
+	if err != nil {
+		return FalsePositiveRate{}, err
+	}
+	return r[0], nil
+}
+
+// FalsePositivesOf draws opt.Surrogates surrogates of o and runs on each,
+// for every scheme, the ordinary label shuffle of stat (shuffle.Run,
+// groups.Prepare and groups.Data.Factory: the very test the comparison
+// reports, by Monte Carlo with opt.Permutations shuffles), counting the
+// rejections at opt.Alpha; it returns one rate per scheme, in order. All
+// schemes see the same surrogates, sorted once each
+// (groups.Data.Reprepare); scheme j's shuffles of surrogate d draw from
+// the seed with a purpose derived from (Purpose, d, j), so a scheme's rate
+// does not depend on which other schemes are measured. labels[i] in
+// 0..k−1 is the group of area i. Counts above the maxima are a
+// *shuffle.CountError, too few shuffles to reject at Alpha a
+// *CheckShufflesError. Only the counts of rejections are kept, so memory
+// does not grow with the number of surrogates.
+func FalsePositivesOf(o *surrogate.Outcome, stat groups.Statistic, labels []int32, k int, schemes []CheckScheme, opt FPROptions) ([]FalsePositiveRate, error) {
 	n := o.Len()
-	if len(labels) != n {
-		return FalsePositiveRate{}, fmt.Errorf("compare: %d labels for %d areas", len(labels), n)
-	}
-	if _, err := NewGroupStatistic(stat, labels, k); err != nil {
-		return FalsePositiveRate{}, err
-	}
-	S, B, alpha := cmp.Or(opt.Surrogates, DefaultFalsePositiveChecks), cmp.Or(opt.Permutations, DefaultCheckShuffles), cmp.Or(opt.Alpha, 0.05)
-	if S < 1 || B < 1 || !(alpha > 0 && alpha < 1) {
-		return FalsePositiveRate{}, errors.New("compare: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
-	}
-	if err := (Options{FalsePositives: S, FalsePositiveShuffles: B}).checkCounts(); err != nil {
-		return FalsePositiveRate{}, err
-	}
-	alt := opt.Alternative
-	if !stat.Directional() {
-		alt = shuffle.Greater
-	}
-	if err := checkShuffles(B, alpha, alt); err != nil {
-		return FalsePositiveRate{}, err
+	S, B, alpha, alt, err := checkSettings(n, stat, labels, k, schemes, opt)
+	if err != nil {
+		return nil, err
 	}
 	blocks := (S + FPRBlock - 1) / FPRBlock
-	var rejected, done atomic.Int64
+	rejected := make([]atomic.Int64, len(schemes))
+	var done atomic.Int64
 	var failed firstError
 	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
 		draw := o.NewDraw()
@@ -114,19 +123,31 @@ func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32,
 		// One groups.Data per worker, re-sorted for each surrogate; the
 		// labels were checked above, so Prepare cannot fail here.
 		data, _ := groups.Prepare(y, labels, k)
+		sorted := make([][]int32, len(schemes))
+		for j, sc := range schemes {
+			if sc.Strata != nil {
+				sorted[j] = make([]int32, n)
+			}
+		}
 		var rng shuffle.Stream
 		return func(b int) {
 			rng.Reset(opt.Seed, opt.Purpose, b)
 			lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
 			for d := lo; d < hi; d++ {
 				draw(&rng, y)
-				p, err := freeShuffle(data, y, stat, alt, B, opt.Seed, innerPurpose(opt.Purpose, d))
-				if err != nil {
+				if err := data.Reprepare(y); err != nil {
 					failed.set(b, err)
 					break
 				}
-				if p <= alpha {
-					rejected.Add(1) // a count: the same total in any order
+				for j, sc := range schemes {
+					p, err := shuffleSorted(data, sc.Strata, sorted[j], stat, alt, B, opt.Seed, schemePurpose(opt.Purpose, d, j))
+					if err != nil {
+						failed.set(b, err)
+						return
+					}
+					if p <= alpha {
+						rejected[j].Add(1) // a count: the same total in any order
+					}
 				}
 			}
 			if opt.Progress != nil {
@@ -135,12 +156,50 @@ func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32,
 		}
 	})
 	if failed.err != nil {
-		return FalsePositiveRate{}, failed.err
+		return nil, failed.err
 	}
-	r := FalsePositiveRate{Scheme: "free", Alpha: alpha, Surrogates: S, Permutations: B, Rejected: int(rejected.Load())}
-	r.Rate = float64(r.Rejected) / float64(S)
-	r.Interval[0], r.Interval[1] = shuffle.ClopperPearson(r.Rejected, S, 0.95)
-	return r, nil
+	out := make([]FalsePositiveRate, len(schemes))
+	for j, sc := range schemes {
+		r := FalsePositiveRate{Scheme: sc.Name, Alpha: alpha, Surrogates: S, Permutations: B, Rejected: int(rejected[j].Load())}
+		r.Rate = float64(r.Rejected) / float64(S)
+		r.Interval[0], r.Interval[1] = shuffle.ClopperPearson(r.Rejected, S, 0.95)
+		out[j] = r
+	}
+	return out, nil
+}
+
+// checkSettings checks the inputs of FalsePositivesOf and returns the
+// counts with their defaults, alpha and the alternative tested.
+func checkSettings(n int, stat groups.Statistic, labels []int32, k int, schemes []CheckScheme, opt FPROptions) (S, B int, alpha float64, alt shuffle.Alternative, err error) {
+	if len(labels) != n {
+		return 0, 0, 0, 0, fmt.Errorf("compare: %d labels for %d areas", len(labels), n)
+	}
+	if len(schemes) == 0 {
+		return 0, 0, 0, 0, errors.New("compare: no scheme to check")
+	}
+	for _, sc := range schemes {
+		if sc.Strata != nil && len(sc.Strata) != n {
+			return 0, 0, 0, 0, fmt.Errorf("compare: %d strata for %d areas in scheme %q", len(sc.Strata), n, sc.Name)
+		}
+	}
+	if _, err := NewGroupStatistic(stat, labels, k); err != nil {
+		return 0, 0, 0, 0, err
+	}
+	S, B, alpha = cmp.Or(opt.Surrogates, DefaultFalsePositiveChecks), cmp.Or(opt.Permutations, DefaultCheckShuffles), cmp.Or(opt.Alpha, 0.05)
+	if S < 1 || B < 1 || !(alpha > 0 && alpha < 1) {
+		return 0, 0, 0, 0, errors.New("compare: the false-positive estimate needs surrogates ≥ 1, permutations ≥ 1 and 0 < alpha < 1")
+	}
+	if err := (Options{FalsePositives: S, FalsePositiveShuffles: B}).checkCounts(); err != nil {
+		return 0, 0, 0, 0, err
+	}
+	alt = opt.Alternative
+	if !stat.Directional() {
+		alt = shuffle.Greater
+	}
+	if err := checkShuffles(B, alpha, alt); err != nil {
+		return 0, 0, 0, 0, err
+	}
+	return S, B, alpha, alt, nil
 }
 
 // firstError keeps the error of the lowest-numbered block that failed, so
@@ -159,26 +218,39 @@ func (f *firstError) set(block int, err error) {
 	}
 }
 
-// freeShuffle is the comparison's free shuffle test of one outcome: the
-// outcome sorted once into d (groups.Data.Reprepare), labels shuffled B
-// times at random (never enumerated), the tie scale the range of the
-// outcome. It returns the p-value.
-func freeShuffle(d *groups.Data, y []float64, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
-	if err := d.Reprepare(y); err != nil {
-		return 0, err
-	}
+// shuffleSorted is the comparison's shuffle test of one outcome already
+// sorted into d (groups.Data.Reprepare): labels shuffled B times at random
+// (never enumerated), within strata when strata is set (given in area
+// order; buf receives them in d's sorted order), the tie scale the range
+// of the outcome. It returns the p-value.
+func shuffleSorted(d *groups.Data, strata, buf []int32, stat groups.Statistic, alt shuffle.Alternative, B int, seed, purpose uint64) (float64, error) {
 	scale := 1.0
 	if stat.InOutcomeUnits() {
 		scale = d.Y[len(d.Y)-1] - d.Y[0]
 	}
+	var sorted []int32
+	if strata != nil {
+		// The group statistics see areas in sorted order of the outcome.
+		for pos, o := range d.Order {
+			buf[pos] = strata[o]
+		}
+		sorted = buf
+	}
 	// ExactLimit −1: Monte Carlo always, so that the check costs B shuffles
 	// per surrogate and reports the count it used.
-	res, err := shuffle.Run(shuffle.Plan{Scheme: "free", Labels: d.Labels, Permutations: B, ExactLimit: -1,
+	res, err := shuffle.Run(shuffle.Plan{Scheme: "check", Labels: d.Labels, Strata: sorted, Permutations: B, ExactLimit: -1,
 		Seed: seed, Purpose: purpose, Workers: 1, Alternative: alt, Scale: scale}, d.Factory(stat))
 	if err != nil {
 		return 0, err
 	}
 	return res.PValue, nil
+}
+
+// schemePurpose gives scheme j's shuffle test of surrogate d its own
+// streams; scheme 0's are innerPurpose(purpose, d), those of the free
+// shuffle when it was the only scheme measured.
+func schemePurpose(purpose uint64, d, j int) uint64 {
+	return innerPurpose(purpose, d) ^ (0xbf58476d1ce4e5b9 * uint64(j))
 }
 
 // innerPurpose gives surrogate s's shuffle test its own streams, apart from

@@ -136,7 +136,10 @@ func TestFalsePositiveCheckIsMonteCarlo(t *testing.T) {
 	rng := shuffle.NewStream(1, 2, 0)
 	for e := 0; e < 5; e++ {
 		draw(&rng, sur)
-		p, err := freeShuffle(data, sur, groups.DiffMedians, shuffle.TwoSided, B, 1, innerPurpose(2, e))
+		if err := data.Reprepare(sur); err != nil {
+			t.Fatal(err)
+		}
+		p, err := shuffleSorted(data, nil, nil, groups.DiffMedians, shuffle.TwoSided, B, 1, innerPurpose(2, e))
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -20,11 +20,11 @@ type Result struct {
 	// Statistic describes the group statistic and its observed value.
 	Statistic StatisticInfo `json:"statistic"`
 	// Tests holds one entry per shuffle scheme, the free shuffle first.
-	Tests           []shuffle.Result `json:"tests"`
-	Autocorrelation Autocorrelation  `json:"autocorrelation"`
-	Excluded        []Exclusion      `json:"excluded"`
-	Warnings        []string         `json:"warnings"`
-	Cautions        []string         `json:"cautions"`
+	Tests           []TestRow       `json:"tests"`
+	Autocorrelation Autocorrelation `json:"autocorrelation"`
+	Excluded        []Exclusion     `json:"excluded"`
+	Warnings        []string        `json:"warnings"`
+	Cautions        []string        `json:"cautions"`
 	// Adjusted describes the covariate adjustment, when asked for.
 	Adjusted *CovariateInfo `json:"adjusted,omitempty"`
 	// Zones describes the automatic zones of the within-zone shuffle.
@@ -35,10 +35,27 @@ type Result struct {
 	// Spectral describes the eigenbasis behind the spectral surrogates.
 	Spectral *SpectralInfo `json:"spectral_basis,omitempty"`
 	// FalsePositiveRate is the measured share of true nulls the free
-	// shuffle rejects on surrogates with the outcome's spatial pattern.
+	// shuffle rejects on surrogates with the outcome's spatial pattern:
+	// Tests[0].FalsePositives, kept here for readers of earlier versions.
 	FalsePositiveRate *FalsePositiveRate `json:"false_positive_rate,omitempty"`
 	// Recommended names the p-value to read and why.
 	Recommended Recommendation `json:"recommended"`
+}
+
+// TestRow is one p-value of the comparison: a scheme's test and, for a
+// label-shuffle row when the false-positive check ran, the rate at which
+// that very shuffle rejected true nulls on the check's surrogates.
+type TestRow struct {
+	shuffle.Result
+	// FalsePositives is nil for the spectral surrogates (whose rate is
+	// not measured here) and when the check did not run.
+	FalsePositives *FalsePositiveRate `json:"false_positive_rate,omitempty"`
+}
+
+// Unsound reports whether the row's measured false-positive rate lies
+// above its level: the whole 95% interval above Alpha.
+func (t TestRow) Unsound() bool {
+	return t.FalsePositives != nil && t.FalsePositives.Interval[0] > t.FalsePositives.Alpha
 }
 
 // SpectralInfo describes the eigenbasis of the spectral surrogates and how

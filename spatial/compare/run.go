@@ -43,6 +43,10 @@ type comparison struct {
 	// or the upper tail for H and F.
 	alt  shuffle.Alternative
 	data *groups.Data
+	// checks are the label-shuffle schemes run, whose false-positive rates
+	// the check measures, and checkRows their rows in Result.Tests.
+	checks    []CheckScheme
+	checkRows []int
 }
 
 // k is the number of groups.

@@ -21,7 +21,7 @@ func (c *comparison) runShuffles(t *tester, res *Result) error {
 	if err != nil {
 		return err
 	}
-	res.Tests = append(res.Tests, free)
+	c.addRow(res, free, nil)
 	in := c.in
 	if in.Strata != nil {
 		strata, count := codes(c.keep, in.Strata)
@@ -32,7 +32,7 @@ func (c *comparison) runShuffles(t *tester, res *Result) error {
 		if err != nil {
 			return err
 		}
-		res.Tests = append(res.Tests, within)
+		c.addRow(res, within, strata)
 		if mixedStrata(strata, c.lab) == 0 {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("No level of %s holds areas of more than one group, so shuffling within %s cannot move a label: its p-value is 1 by construction.", in.StrataName, in.StrataName))
 		}
@@ -50,12 +50,21 @@ func (c *comparison) runShuffles(t *tester, res *Result) error {
 	if err != nil {
 		return err
 	}
-	res.Tests = append(res.Tests, within)
+	c.addRow(res, within, zones)
 	res.Zones = &ZonesInfo{Zones: count, Sizes: weights.ZoneSizes(zones)}
 	if mixedStrata(zones, c.lab) == 0 {
 		res.Warnings = append(res.Warnings, "No automatic zone holds areas of more than one group, so the within-zone shuffle cannot move a label: its p-value is 1 by construction.")
 	}
 	return nil
+}
+
+// addRow appends a label-shuffle row to the result and notes its scheme
+// (strata per tested area, nil for the free shuffle) for the
+// false-positive check.
+func (c *comparison) addRow(res *Result, r shuffle.Result, strata []int32) {
+	c.checks = append(c.checks, CheckScheme{Name: r.Scheme, Strata: strata})
+	c.checkRows = append(c.checkRows, len(res.Tests))
+	res.Tests = append(res.Tests, TestRow{Result: r})
 }
 
 // mixedStrata counts strata that hold more than one group.

@@ -15,7 +15,8 @@ const SpectralScheme = "spectral surrogates"
 // spectral adds the spatially constrained scheme (Moran spectral
 // randomisation of the outcome, Wagner & Dray 2015) and measures the free
 // shuffle's false-positive rate on surrogates with the outcome's spatial
-// structure and no link to the grouping.
+// structure and no link to the grouping, and that of every other
+// label-shuffle row on the same surrogates.
 func (c *comparison) spectral(res *Result) error {
 	in, opt := c.in, c.opt
 	// Every tested area enters; the basis sets islands apart (their values
@@ -43,14 +44,17 @@ func (c *comparison) spectral(res *Result) error {
 		}
 	}
 	if opt.FalsePositives > 0 {
-		fpr, err := FalsePositives(o, c.stat, c.lab, c.k(), FPROptions{
+		rates, err := FalsePositivesOf(o, c.stat, c.lab, c.k(), c.checks, FPROptions{
 			Surrogates: opt.FalsePositives, Permutations: opt.FalsePositiveShuffles, Alpha: opt.Alpha,
 			Alternative: c.alt, Seed: opt.Seed, Purpose: streamFalsePositives, Workers: opt.Workers,
 			Progress: opt.progress("false-positive check")})
 		if err != nil {
 			return err
 		}
-		res.FalsePositiveRate = &fpr
+		for j, row := range c.checkRows {
+			res.Tests[row].FalsePositives = &rates[j]
+		}
+		res.FalsePositiveRate = &rates[0]
 	}
 	return nil
 }
@@ -72,6 +76,6 @@ func (c *comparison) surrogateTest(o *surrogate.Outcome, res *Result) error {
 	if err != nil {
 		return err
 	}
-	res.Tests = append(res.Tests, sp)
+	res.Tests = append(res.Tests, TestRow{Result: sp})
 	return nil
 }
