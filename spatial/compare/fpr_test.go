@@ -94,3 +94,55 @@ func aboveMedian(x []float64) []int32 {
 	}
 	return lab
 }
+
+// The check of several schemes at once: the first scheme's rate is the one
+// the free shuffle alone gets (same surrogates, same streams); a shuffle
+// within strata of one area each cannot move a label, so its p-value is 1
+// and it never rejects; a shuffle within two halves gets its own rate; and
+// none of it depends on the number of workers.
+func TestFalsePositivesOfSeveralSchemes(t *testing.T) {
+	g := weights.Lattice(12, 12, weights.Rook).RowStandardised()
+	b, err := surrogate.NewBasis(g, surrogate.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(3, 0))
+	y := autoregressive(t, g, 0.8, rng)
+	lab := aboveMedian(autoregressive(t, g, 0.8, rng))
+	o, err := b.Prepare(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	singles, halves := make([]int32, g.Len()), make([]int32, g.Len())
+	for i := range singles {
+		singles[i], halves[i] = int32(i), int32(i%12/6)
+	}
+	schemes := []CheckScheme{{Name: "free"}, {Name: "singles", Strata: singles}, {Name: "halves", Strata: halves}}
+	opt := FPROptions{Surrogates: 60, Permutations: 39, Seed: 9, Purpose: 5}
+	all, err := FalsePositivesOf(o, groups.DiffMedians, lab, 2, schemes, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("%+v", all)
+	free, err := FalsePositives(o, groups.DiffMedians, lab, 2, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(all[0], free) {
+		t.Errorf("free with others %+v, alone %+v", all[0], free)
+	}
+	if all[1].Rejected != 0 || all[1].Scheme != "singles" {
+		t.Errorf("strata of one area rejected: %+v", all[1])
+	}
+	one := opt
+	one.Workers = 1
+	if again, err := FalsePositivesOf(o, groups.DiffMedians, lab, 2, schemes, one); err != nil || !reflect.DeepEqual(again, all) {
+		t.Errorf("one worker %+v (%v), all %+v", again, err, all)
+	}
+	if _, err := FalsePositivesOf(o, groups.DiffMedians, lab, 2, []CheckScheme{{Name: "short", Strata: halves[:3]}}, opt); err == nil {
+		t.Error("short strata accepted")
+	}
+	if _, err := FalsePositivesOf(o, groups.DiffMedians, lab, 2, nil, opt); err == nil {
+		t.Error("no scheme accepted")
+	}
+}
