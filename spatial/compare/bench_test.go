@@ -31,10 +31,40 @@ func BenchmarkFalsePositives3000x500x199(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
+	benchCheck(b, o, lab, []CheckScheme{{Name: "free"}})
+}
+
+// Target (issue 11): the check of the free shuffle and the shuffle within
+// automatic zones together, on the same 500 surrogates, within 2× the
+// free shuffle's alone (BenchmarkFalsePositives3000x500x199).
+func BenchmarkFalsePositivesFreeAndZones3000(b *testing.B) {
+	g := weights.Lattice(50, 60, weights.Queen)
+	basis, err := surrogate.NewBasis(g.RowStandardised(), surrogate.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	zones, err := weights.Zones(g, 0)
+	if err != nil {
+		b.Fatal(err)
+	}
+	y := make([]float64, g.Len())
+	lab := make([]int32, g.Len())
+	for i := range y {
+		y[i] = math.Sin(float64(i)/150) + math.Cos(float64(i)*12.9898)
+		lab[i] = int32((i / 300) % 2)
+	}
+	o, err := basis.Prepare(y)
+	if err != nil {
+		b.Fatal(err)
+	}
+	benchCheck(b, o, lab, []CheckScheme{{Name: "free"}, {Name: "zones", Strata: zones}})
+}
+
+func benchCheck(b *testing.B, o *surrogate.Outcome, lab []int32, schemes []CheckScheme) {
 	b.ReportAllocs()
 	b.ResetTimer()
 	for range b.N {
-		r, err := FalsePositives(o, groups.DiffMedians, lab, 2, FPROptions{Seed: 1, Purpose: 4})
+		r, err := FalsePositivesOf(o, groups.DiffMedians, lab, 2, schemes, FPROptions{Seed: 1, Purpose: 4})
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -2,6 +2,7 @@ package compare
 
 import (
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
@@ -22,6 +23,26 @@ type rowTally struct {
 	// counts the replicates whose rate was sound (interval not above α).
 	RateSum         float64
 	Measured, Sound int
+}
+
+// The SAR fields of the zones benchmark, by fixed-point iteration, against
+// testkit's dense LU solve of (I − ρW)y = ε with the same ε.
+func TestSARFieldByIteration(t *testing.T) {
+	w := weights.Lattice(9, 11, weights.Queen).RowStandardised()
+	for _, rho := range []float64{0.5, 0.95} {
+		y := sarField(w, rho, rand.New(rand.NewPCG(1, 2)))
+		rng := rand.New(rand.NewPCG(1, 2))
+		eps := make([]float64, w.Len())
+		for i := range eps {
+			eps[i] = rng.NormFloat64()
+		}
+		want := testkit.NewSAR(testkit.Dense(w.Offsets, w.Neighbours, w.Weights), rho).Field(t, eps)
+		for i := range y {
+			if math.Abs(y[i]-want[i]) > 1e-9*(1+math.Abs(want[i])) {
+				t.Fatalf("ρ %v, area %d: %v, LU %v", rho, i, y[i], want[i])
+			}
+		}
+	}
 }
 
 // simTally is the tally of all rows over Reps replicates, and how often
@@ -82,6 +103,21 @@ func (st *simTally) tally(tb testing.TB, res *Result) {
 		tb.Fatalf("rows %d, earlier %d", len(res.Tests), len(st.Rows)-1)
 	}
 	st.Reps++
+	warnings := strings.Join(res.Warnings, " ")
+	for _, t := range res.Tests {
+		if !t.Unsound() {
+			continue
+		}
+		if res.Recommended.Scheme == t.Scheme {
+			tb.Errorf("the unsound row %s was recommended", t.Scheme)
+		}
+		if !strings.Contains(warnings, rowName(t.Scheme)+" rejected "+rateText(t.FalsePositives)) {
+			tb.Errorf("no warning names the unsound row %s: %q", t.Scheme, warnings)
+		}
+		if strings.HasSuffix(t.Scheme, "automatic zones") && !strings.Contains(warnings, "strata of your own") {
+			tb.Errorf("unsound zones without the advice to give strata: %q", warnings)
+		}
+	}
 	for k, t := range res.Tests {
 		row := &st.Rows[k]
 		if t.PValue <= 0.05 {
