@@ -16,21 +16,7 @@ import (
 // The whole budget of issue 6 is BenchmarkCompareAllSchemes3000 in
 // cmd/areatest.
 func BenchmarkFalsePositives3000x500x199(b *testing.B) {
-	g := weights.Lattice(50, 60, weights.Queen).RowStandardised()
-	basis, err := surrogate.NewBasis(g, surrogate.Options{})
-	if err != nil {
-		b.Fatal(err)
-	}
-	y := make([]float64, g.Len())
-	lab := make([]int32, g.Len())
-	for i := range y {
-		y[i] = math.Sin(float64(i)/150) + math.Cos(float64(i)*12.9898)
-		lab[i] = int32((i / 300) % 2)
-	}
-	o, err := basis.Prepare(y)
-	if err != nil {
-		b.Fatal(err)
-	}
+	_, o, lab := checkLayer3000(b)
 	benchCheck(b, o, lab, []CheckScheme{{Name: "free"}})
 }
 
@@ -38,12 +24,19 @@ func BenchmarkFalsePositives3000x500x199(b *testing.B) {
 // automatic zones together, on the same 500 surrogates, within 2× the
 // free shuffle's alone (BenchmarkFalsePositives3000x500x199).
 func BenchmarkFalsePositivesFreeAndZones3000(b *testing.B) {
-	g := weights.Lattice(50, 60, weights.Queen)
-	basis, err := surrogate.NewBasis(g.RowStandardised(), surrogate.Options{})
+	g, o, lab := checkLayer3000(b)
+	zones, err := weights.Zones(g, 0)
 	if err != nil {
 		b.Fatal(err)
 	}
-	zones, err := weights.Zones(g, 0)
+	benchCheck(b, o, lab, []CheckScheme{{Name: "free"}, {Name: "zones", Strata: zones}})
+}
+
+// checkLayer3000 is the layer of the check's benchmarks, with the outcome
+// prepared for surrogates and the grouping.
+func checkLayer3000(b *testing.B) (*weights.Graph, *surrogate.Outcome, []int32) {
+	g := weights.Lattice(50, 60, weights.Queen)
+	basis, err := surrogate.NewBasis(g.RowStandardised(), surrogate.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -57,7 +50,7 @@ func BenchmarkFalsePositivesFreeAndZones3000(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	benchCheck(b, o, lab, []CheckScheme{{Name: "free"}, {Name: "zones", Strata: zones}})
+	return g, o, lab
 }
 
 func benchCheck(b *testing.B, o *surrogate.Outcome, lab []int32, schemes []CheckScheme) {
