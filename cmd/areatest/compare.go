@@ -37,7 +37,7 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none; at most "+numtext.Count(compare.MaxSurrogates)+")")
 	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often each label shuffle (free, --strata, --zones) cries wolf (0: none; at most "+numtext.Count(compare.MaxFalsePositiveChecks)+")")
 	fs.IntVar(&c.fpShuffles, "check-shuffles", 199, "shuffles per surrogate and scheme in the false-positive check (Monte Carlo, never exact; 19 or more one-sided, 39 two-sided at --alpha 0.05; at most "+numtext.Count(compare.MaxCheckShuffles)+")")
-	fs.StringVar(&c.zones, "zones", "auto", "without --strata, on 300 or more areas: also shuffle within automatic contiguous zones (auto), or not (none)")
+	fs.StringVar(&c.zones, "zones", "none", "auto: without --strata, on 300 or more areas, also shuffle within automatic contiguous zones (off by default: measured to overstate significance when outcome and grouping cluster)")
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
