@@ -31,6 +31,18 @@ func (p *Weights) LogDet(rho float64) (value, se float64) {
 	return p.quad.logDet(rho)
 }
 
+// logDetSlope returns the first derivative of ln|I − ρW| in ρ.
+func (p *Weights) logDetSlope(rho float64) float64 {
+	if p.method == Eigenvalues {
+		var d float64
+		for _, l := range p.values {
+			d -= l / (1 - rho*l)
+		}
+		return d
+	}
+	return p.quad.slope(rho)
+}
+
 // logDetCurvature returns the second derivative of ln|I − ρW| in ρ.
 func (p *Weights) logDetCurvature(rho float64) float64 {
 	if p.method == Eigenvalues {
@@ -138,6 +150,18 @@ func (q *quadrature) logDet(rho float64) (value, se float64) {
 	}
 	exact := q.ncomp*math.Log1p(-rho) + q.ncomp*rho - rho*rho*q.t2/2
 	return exact + mean, se
+}
+
+func (q *quadrature) slope(rho float64) float64 {
+	var sum float64
+	for k := range q.count {
+		at := k * q.steps
+		for j := at; j < at+q.count[k]; j++ {
+			t := q.nodes[j]
+			sum += q.weights[j] * (t + rho*t*t - t/(1-rho*t))
+		}
+	}
+	return -q.ncomp/(1-rho) + q.ncomp - rho*q.t2 + sum/float64(len(q.count))
 }
 
 func (q *quadrature) curvature(rho float64) float64 {
