@@ -197,8 +197,9 @@ func newLanczos(p *Weights, steps int) *lanczos {
 	return l
 }
 
-// run draws a Rademacher probe z, deflates it, and runs Lanczos with full
-// reorthogonalisation from z/‖z‖. It writes the Gauss nodes (the Ritz
+// run draws a Rademacher probe z, deflates it, and runs Lanczos from z/‖z‖,
+// each new vector reorthogonalised once against all the earlier ones (and
+// deflated again, against rounding). It writes the Gauss nodes (the Ritz
 // values) and weights ‖z‖²·(first entry of each Ritz vector)² and returns
 // how many there are (fewer than steps when the Krylov space closes early).
 func (l *lanczos) run(rng *shuffle.Stream, nodes, weights []float64) int {
@@ -218,13 +219,11 @@ func (l *lanczos) run(rng *shuffle.Stream, nodes, weights []float64) int {
 		q = l.basis[k*n : (k+1)*n]
 		p.applyS(q, l.w)
 		l.alpha[k] = dot(q, l.w)
-		for pass := 0; pass < 2; pass++ {
-			for j := 0; j <= k; j++ {
-				qj := l.basis[j*n : (j+1)*n]
-				axpy(-dot(qj, l.w), qj, l.w)
-			}
-			p.deflate(l.w, l.tmp)
+		for j := 0; j <= k; j++ {
+			qj := l.basis[j*n : (j+1)*n]
+			axpy(-dot(qj, l.w), qj, l.w)
 		}
+		p.deflate(l.w, l.tmp)
 		b := math.Sqrt(dot(l.w, l.w))
 		l.beta[k] = b
 		k++

@@ -46,13 +46,11 @@ func (m *Model) Solve(b, out []float64, s *Scratch) (int, error) {
 	limit := 10 * (p.n + 100)
 	it := 0
 	for ; rr > stop && it < limit; it++ {
-		m.operator(s.d, s.q)
-		step := rr / dot(s.d, s.q)
-		axpy(step, s.d, s.u)
-		axpy(-step, s.q, s.r)
-		next := dot(s.r, s.r)
-		for i := range s.d {
-			s.d[i] = s.r[i] + next/rr*s.d[i]
+		step := rr / m.operatorDot(s.d, s.q)
+		next := update(step, s.d, s.q, s.u, s.r)
+		beta := next / rr
+		for i, v := range s.r {
+			s.d[i] = v + beta*s.d[i]
 		}
 		rr = next
 	}
@@ -75,6 +73,35 @@ func (m *Model) operator(x, dst []float64) {
 		}
 		dst[i] = x[i] - m.Rho*t
 	}
+}
+
+// operatorDot sets dst = (I − ρS)x and returns xᵀdst, in one pass.
+func (m *Model) operatorDot(x, dst []float64) float64 {
+	p := m.w
+	var xd float64
+	for i := 0; i < p.n; i++ {
+		var t float64
+		for k := p.off[i]; k < p.off[i+1]; k++ {
+			t += p.s[k] * x[p.nb[k]]
+		}
+		v := x[i] - m.Rho*t
+		dst[i] = v
+		xd += x[i] * v
+	}
+	return xd
+}
+
+// update takes the conjugate-gradient step u += step·d, r −= step·q and
+// returns the new rᵀr, in one pass.
+func update(step float64, d, q, u, r []float64) float64 {
+	var rr float64
+	for i, v := range d {
+		u[i] += step * v
+		ri := r[i] - step*q[i]
+		r[i] = ri
+		rr += ri * ri
+	}
+	return rr
 }
 
 // residual sets r = b − (I − ρS)u.
