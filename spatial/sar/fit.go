@@ -142,12 +142,11 @@ func (p *Weights) golden(m moments, a, b float64) float64 {
 	return (a + b) / 2
 }
 
-// newton refines ρ by up to 8 Newton steps on the score ℓ'(ρ) = n(b −
-// ρc)/RSS(ρ) + d ln|I − ρW|/dρ, keeping it inside [a, b].
+// newton refines ρ by up to 8 Newton steps on the score, keeping it
+// inside [a, b].
 func (p *Weights) newton(m moments, rho, a, b float64) float64 {
 	for range 8 {
-		d1 := m.n*(m.b-rho*m.c)/m.rss(rho) + p.logDetSlope(rho)
-		d2 := p.curvature(m, rho)
+		d1, d2 := p.derivatives(m, rho)
 		if !(d2 < 0) {
 			break
 		}
@@ -164,20 +163,21 @@ func (p *Weights) newton(m moments, rho, a, b float64) float64 {
 	return rho
 }
 
-// curvature is ℓ”(ρ) for the concentrated log-likelihood ℓ: with s =
-// RSS/n, ℓ” = −n/2 (s”/s − (s'/s)²) + d²ln|I − ρW|/dρ².
-func (p *Weights) curvature(m moments, rho float64) float64 {
+// derivatives returns the first and second derivatives in ρ of the
+// concentrated log-likelihood: with s = RSS/n and L = ln|I − ρW|, they are
+// −n/2 s'/s + L₁ and −n/2 (2c/(ns) − (s'/s)²) + L₂, where s'' = 2c/n and L₁,
+// L₂ are the first and second derivatives of L.
+func (p *Weights) derivatives(m moments, rho float64) (d1, d2 float64) {
 	s := m.rss(rho)
 	ds := -2*m.b + 2*rho*m.c
-	return -m.n/2*(2*m.c/s-(ds/s)*(ds/s)) + p.logDetCurvature(rho)
+	l1, l2 := p.logDetDerivatives(rho)
+	return -m.n/2*ds/s + l1, -m.n/2*(2*m.c/s-(ds/s)*(ds/s)) + l2
 }
 
-// rhoSE is 1/√(−ℓ”(ρ)) for the concentrated log-likelihood ℓ: with s =
-// RSS/n, ℓ” = −n/2 (s”/s − (s'/s)²) + d²ln|I − ρW|/dρ².
+// rhoSE is one over the square root of minus the second derivative: the
+// profile-likelihood standard error.
 func (p *Weights) rhoSE(m moments, rho float64) float64 {
-	s := m.rss(rho)
-	ds := -2*m.b + 2*rho*m.c
-	d2 := -m.n/2*(2*m.c/s-(ds/s)*(ds/s)) + p.logDetCurvature(rho)
+	_, d2 := p.derivatives(m, rho)
 	if !(d2 < 0) {
 		return math.NaN()
 	}

@@ -6,6 +6,7 @@ import (
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/lapack"
 	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
@@ -31,29 +32,18 @@ func (p *Weights) LogDet(rho float64) (value, se float64) {
 	return p.quad.logDet(rho)
 }
 
-// logDetSlope returns the first derivative of ln|I − ρW| in ρ.
-func (p *Weights) logDetSlope(rho float64) float64 {
-	if p.method == Eigenvalues {
-		var d float64
-		for _, l := range p.values {
-			d -= l / (1 - rho*l)
-		}
-		return d
+// logDetDerivatives returns the first and second derivatives of
+// ln|I − ρW| in ρ.
+func (p *Weights) logDetDerivatives(rho float64) (d1, d2 float64) {
+	if p.method == Quadrature {
+		return p.quad.derivatives(rho)
 	}
-	return p.quad.slope(rho)
-}
-
-// logDetCurvature returns the second derivative of ln|I − ρW| in ρ.
-func (p *Weights) logDetCurvature(rho float64) float64 {
-	if p.method == Eigenvalues {
-		var d float64
-		for _, l := range p.values {
-			t := l / (1 - rho*l)
-			d -= t * t
-		}
-		return d
+	for _, l := range p.values {
+		t := l / (1 - rho*l)
+		d1 -= t
+		d2 -= t * t
 	}
-	return p.quad.curvature(rho)
+	return d1, d2
 }
 
 // exact finds every eigenvalue of S with a dense symmetric solver: W is
@@ -152,29 +142,22 @@ func (q *quadrature) logDet(rho float64) (value, se float64) {
 	return exact + mean, se
 }
 
-func (q *quadrature) slope(rho float64) float64 {
-	var sum float64
-	for k := range q.count {
-		at := k * q.steps
-		for j := at; j < at+q.count[k]; j++ {
-			t := q.nodes[j]
-			sum += q.weights[j] * (t + rho*t*t - t/(1-rho*t))
-		}
-	}
-	return -q.ncomp/(1-rho) + q.ncomp - rho*q.t2 + sum/float64(len(q.count))
-}
-
-func (q *quadrature) curvature(rho float64) float64 {
-	var sum float64
+// derivatives differentiates the quadrature's log-determinant in ρ, with
+// dr/dρ = θ + ρθ² − θ/(1 − ρθ) and d²r/dρ² = θ² − θ²/(1 − ρθ)².
+func (q *quadrature) derivatives(rho float64) (d1, d2 float64) {
 	for k := range q.count {
 		at := k * q.steps
 		for j := at; j < at+q.count[k]; j++ {
 			t := q.nodes[j]
 			u := t / (1 - rho*t)
-			sum += q.weights[j] * (t*t - u*u)
+			d1 += q.weights[j] * (t + rho*t*t - u)
+			d2 += q.weights[j] * (t*t - u*u)
 		}
 	}
-	return -q.ncomp/((1-rho)*(1-rho)) - q.t2 + sum/float64(len(q.count))
+	probes := float64(len(q.count))
+	d1 = -q.ncomp/(1-rho) + q.ncomp - rho*q.t2 + d1/probes
+	d2 = -q.ncomp/((1-rho)*(1-rho)) - q.t2 + d2/probes
+	return d1, d2
 }
 
 // lanczos is one worker's scratch for Lanczos runs on the deflated S.
@@ -212,19 +195,19 @@ func (l *lanczos) run(rng *shuffle.Stream, nodes, weights []float64) int {
 		}
 	}
 	p.deflate(q, l.tmp)
-	norm2 := dot(q, q)
-	scale(q, 1/math.Sqrt(norm2))
+	norm2 := floats.Dot(q, q)
+	floats.Scale(1/math.Sqrt(norm2), q)
 	k := 0
 	for k < len(l.alpha) {
 		q = l.basis[k*n : (k+1)*n]
 		p.applyS(q, l.w)
-		l.alpha[k] = dot(q, l.w)
+		l.alpha[k] = floats.Dot(q, l.w)
 		for j := 0; j <= k; j++ {
 			qj := l.basis[j*n : (j+1)*n]
-			axpy(-dot(qj, l.w), qj, l.w)
+			floats.AddScaled(l.w, -floats.Dot(qj, l.w), qj)
 		}
 		p.deflate(l.w, l.tmp)
-		b := math.Sqrt(dot(l.w, l.w))
+		b := floats.Norm(l.w, 2)
 		l.beta[k] = b
 		k++
 		if b <= 1e-10 || k == len(l.alpha) {
@@ -232,7 +215,7 @@ func (l *lanczos) run(rng *shuffle.Stream, nodes, weights []float64) int {
 		}
 		next := l.basis[k*n : (k+1)*n]
 		copy(next, l.w)
-		scale(next, 1/b)
+		floats.Scale(1/b, next)
 	}
 	return l.gauss(k, norm2, nodes, weights)
 }
@@ -257,24 +240,4 @@ func (l *lanczos) gauss(k int, norm2 float64, nodes, weights []float64) int {
 		weights[j] = norm2 * v * v
 	}
 	return k
-}
-
-func dot(a, b []float64) float64 {
-	var s float64
-	for i, v := range a {
-		s += v * b[i]
-	}
-	return s
-}
-
-func axpy(a float64, x, y []float64) {
-	for i, v := range x {
-		y[i] += a * v
-	}
-}
-
-func scale(x []float64, a float64) {
-	for i := range x {
-		x[i] *= a
-	}
 }

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
+
 	"github.com/areatest/areatest/internal/parallel"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
@@ -41,8 +43,8 @@ func (m *Model) Solve(b, out []float64, s *Scratch) (int, error) {
 	copy(s.u, s.rhs)
 	m.residual(s.u, s.rhs, s.r)
 	copy(s.d, s.r)
-	rr := dot(s.r, s.r)
-	stop := Tolerance * Tolerance * dot(s.rhs, s.rhs)
+	rr := floats.Dot(s.r, s.r)
+	stop := Tolerance * Tolerance * floats.Dot(s.rhs, s.rhs)
 	limit := 10 * (p.n + 100)
 	it := 0
 	for ; rr > stop && it < limit; it++ {
@@ -61,18 +63,6 @@ func (m *Model) Solve(b, out []float64, s *Scratch) (int, error) {
 		return it, fmt.Errorf("sar: the solve did not converge in %d steps (ρ = %v)", it, m.Rho)
 	}
 	return it, nil
-}
-
-// operator sets dst = (I − ρS)x.
-func (m *Model) operator(x, dst []float64) {
-	p := m.w
-	for i := 0; i < p.n; i++ {
-		var t float64
-		for k := p.off[i]; k < p.off[i+1]; k++ {
-			t += p.s[k] * x[p.nb[k]]
-		}
-		dst[i] = x[i] - m.Rho*t
-	}
 }
 
 // operatorDot sets dst = (I − ρS)x and returns xᵀdst, in one pass.
@@ -106,7 +96,7 @@ func update(step float64, d, q, u, r []float64) float64 {
 
 // residual sets r = b − (I − ρS)u.
 func (m *Model) residual(u, b, r []float64) {
-	m.operator(u, r)
+	m.operatorDot(u, r)
 	for i := range r {
 		r[i] = b[i] - r[i]
 	}
