@@ -165,8 +165,8 @@ func (p *Weights) newton(m moments, rho, a, b float64) float64 {
 
 // derivatives returns the first and second derivatives in ρ of the
 // concentrated log-likelihood: with s = RSS/n and L = ln|I − ρW|, they are
-// −n/2 s'/s + L₁ and −n/2 (2c/(ns) − (s'/s)²) + L₂, where s'' = 2c/n and L₁,
-// L₂ are the first and second derivatives of L.
+// −n/2 s'/s + L₁ and −n/2 (2c/(ns) − (s'/s)²) + L₂, with 2c/n the second
+// derivative of s, and L₁, L₂ the first and second derivatives of L.
 func (p *Weights) derivatives(m moments, rho float64) (d1, d2 float64) {
 	s := m.rss(rho)
 	ds := -2*m.b + 2*rho*m.c
