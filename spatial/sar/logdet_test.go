@@ -134,3 +134,17 @@ func TestQuadratureAgainstExact(t *testing.T) {
 		}
 	}
 }
+
+// The quadrature depends on the seed only, not on the number of workers.
+func TestQuadratureIndependentOfWorkers(t *testing.T) {
+	g := regionGraph(t, 300)
+	one := prepare(t, g, Options{ExactLimit: -1, Seed: 4, Workers: 1})
+	two := prepare(t, g, Options{ExactLimit: -1, Seed: 4, Workers: 2})
+	other := prepare(t, g, Options{ExactLimit: -1, Seed: 5, Workers: 2})
+	a, _ := one.LogDet(0.9)
+	b, _ := two.LogDet(0.9)
+	c, _ := other.LogDet(0.9)
+	if a != b || a == c {
+		t.Errorf("seed 4: %v with 1 worker, %v with 2; seed 5: %v", a, b, c)
+	}
+}
