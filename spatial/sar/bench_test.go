@@ -11,7 +11,10 @@ import (
 func benchFit(b *testing.B, n int) {
 	g := regionGraph(b, n)
 	p := prepare(b, g, Options{})
-	truth := &Model{Rho: 0.8, Intercept: 1, Sigma2: 1, w: p}
+	truth, err := p.Model(0.8, 1, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
 	y := make([]float64, n)
 	var rng = newBenchStream()
 	if err := truth.Simulate(&rng, y, truth.NewScratch()); err != nil {
@@ -34,7 +37,10 @@ func benchFit(b *testing.B, n int) {
 // benchDraws times 1,000 draws at ρ = 0.95 on all cores.
 func benchDraws(b *testing.B, n int) {
 	g := regionGraph(b, n)
-	m := &Model{Rho: 0.95, Intercept: 1, Sigma2: 1, w: prepare(b, g, Options{})}
+	m, err := prepare(b, g, Options{}).Model(0.95, 1, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
 	b.ResetTimer()
 	for b.Loop() {
 		if err := m.ForDraws(1000, 1, 2, func(int, []float64) {}); err != nil {
@@ -59,7 +65,10 @@ func BenchmarkQuadratureAccuracy3000(b *testing.B) {
 	g := regionGraph(b, 3000)
 	exact := prepare(b, g, Options{ExactLimit: g.Len()})
 	quad := prepare(b, g, Options{ExactLimit: -1})
-	truth := &Model{Rho: 0.9, Intercept: 1, Sigma2: 1, w: exact}
+	truth, err := exact.Model(0.9, 1, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
 	y := make([]float64, g.Len())
 	rng := newBenchStream()
 	if err := truth.Simulate(&rng, y, truth.NewScratch()); err != nil {

@@ -31,6 +31,20 @@ type Model struct {
 // Weights returns the prepared weights the model was fitted on.
 func (m *Model) Weights() *Weights { return m.w }
 
+// Model returns the model with the given ρ, intercept μ and σ² on p,
+// for drawing fields at chosen parameters (simulation studies) rather than
+// fitted ones; the likelihood fields of the result are left zero. ρ must
+// lie inside Interval and σ² be positive.
+func (p *Weights) Model(rho, mu, sigma2 float64) (*Model, error) {
+	if !(rho > p.lo && rho < p.hi) {
+		return nil, fmt.Errorf("sar: ρ = %v outside the interval (%v, %v)", rho, p.lo, p.hi)
+	}
+	if !(sigma2 > 0) || math.IsInf(sigma2, 0) || math.IsNaN(mu) || math.IsInf(mu, 0) {
+		return nil, fmt.Errorf("sar: need a finite μ and a positive, finite σ²; have %v and %v", mu, sigma2)
+	}
+	return &Model{Rho: rho, Intercept: mu, Sigma2: sigma2, w: p}, nil
+}
+
 // Fit prepares g with the default Options and fits the model to y.
 func Fit(y []float64, g *weights.Graph) (*Model, error) {
 	p, err := Prepare(g, Options{})

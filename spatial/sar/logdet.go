@@ -64,7 +64,9 @@ func (p *Weights) exact() error {
 	}
 	p.values = es.Values(nil)
 	p.method = Eigenvalues
-	p.lo, p.hi = 1/p.values[0], 1/p.values[p.n-1]
+	// λ_max is 1 exactly (W1 = 1 on every linked component); the solver's
+	// value differs from it by rounding.
+	p.lo, p.hi = 1/p.values[0], 1
 	return nil
 }
 

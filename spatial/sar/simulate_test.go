@@ -12,13 +12,22 @@ import (
 	"github.com/areatest/areatest/weights"
 )
 
-// model builds a Model with the given parameters on g, as Fit would.
+// model builds a Model with the given parameters on g.
 func model(t testing.TB, g *weights.Graph, rho, mu, sigma2 float64) *Model {
-	p, err := Prepare(g, Options{Workers: 2})
+	m, err := prepare(t, g, Options{Workers: 2}).Model(rho, mu, sigma2)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return &Model{Rho: rho, Intercept: mu, Sigma2: sigma2, w: p}
+	return m
+}
+
+func TestModelRejects(t *testing.T) {
+	p := prepare(t, weights.Lattice(4, 4, weights.Rook), Options{})
+	for _, c := range [][3]float64{{1, 0, 1}, {-1.5, 0, 1}, {0.5, 0, 0}, {0.5, math.NaN(), 1}, {math.NaN(), 0, 1}} {
+		if _, err := p.Model(c[0], c[1], c[2]); err == nil {
+			t.Errorf("%v: no error", c)
+		}
+	}
 }
 
 // Solve agrees with testkit's dense LU solve of (I − ρW)y = b, near both
