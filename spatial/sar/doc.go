@@ -72,6 +72,9 @@
 // gradients on the symmetrised system (Hestenes & Stiefel 1952) to a
 // relative residual of Tolerance: about 60 steps at ρ = 0.95 on a
 // contiguity graph, allocation-free given a Scratch. ForDraws draws many
-// on all cores, draw k from the stream (seed, purpose, k), so the fields
-// are the same for any number of workers.
+// on all cores, four fields per pass over the links, draw k from the stream
+// (seed, purpose, k) and equal to what Simulate draws from it, so the
+// fields are the same for any number of workers. Weights.Model sets up
+// draws at chosen parameters, for simulation studies on layers too large
+// for a dense generator.
 package sar

@@ -4,9 +4,6 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/floats"
-
-	"github.com/areatest/areatest/internal/parallel"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -43,8 +40,8 @@ func (m *Model) Solve(b, out []float64, s *Scratch) (int, error) {
 	copy(s.u, s.rhs)
 	m.residual(s.u, s.rhs, s.r)
 	copy(s.d, s.r)
-	rr := floats.Dot(s.r, s.r)
-	stop := Tolerance * Tolerance * floats.Dot(s.rhs, s.rhs)
+	rr := sumSquares(s.r)
+	stop := Tolerance * Tolerance * sumSquares(s.rhs)
 	limit := 10 * (p.n + 100)
 	it := 0
 	for ; rr > stop && it < limit; it++ {
@@ -116,32 +113,6 @@ func (m *Model) Simulate(rng *shuffle.Stream, out []float64, s *Scratch) error {
 	return err
 }
 
-// ForDraws simulates count fields, field k from the stream (seed, purpose,
-// k), so that each is the same for any number of workers, and hands each to
-// f(k, y) on the worker that drew it. f runs concurrently on up to
-// Options.Workers goroutines and must not keep y, which is reused. The
-// first error stops nothing but is returned.
-func (m *Model) ForDraws(count int, seed, purpose uint64, f func(k int, y []float64)) error {
-	errs := make([]error, count)
-	parallel.ForBlocks(count, m.w.workers, func() func(int) {
-		s := m.NewScratch()
-		y := make([]float64, m.w.n)
-		var rng shuffle.Stream
-		return func(k int) {
-			rng.Reset(seed, purpose, k)
-			if errs[k] = m.Simulate(&rng, y, s); errs[k] == nil {
-				f(k, y)
-			}
-		}
-	})
-	for _, err := range errs {
-		if err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
 // normals fills dst with standard normal draws by Marsaglia's polar method
 // (Marsaglia & Bray 1964, SIAM Rev. 6:260–264): a point uniform in the unit
 // disc, rejected outside it, gives two independent normals.
@@ -159,4 +130,14 @@ func normals(rng *shuffle.Stream, dst []float64) {
 		}
 		i += 2
 	}
+}
+
+// sumSquares returns xᵀx, summed in order (as the block solves sum each
+// column, so that ForDraws and Simulate agree).
+func sumSquares(x []float64) float64 {
+	var s float64
+	for _, v := range x {
+		s += v * v
+	}
+	return s
 }

@@ -180,3 +180,25 @@ func TestDrawsReproducibleAndAllocationFree(t *testing.T) {
 		t.Errorf("%v allocations per draw", n)
 	}
 }
+
+// ForDraws solves four fields at a time, yet field k is what Simulate
+// draws from the stream (seed, purpose, k), to rounding; a count that is
+// not a multiple of four leaves a partly empty last block.
+func TestForDrawsMatchesSimulate(t *testing.T) {
+	g := regionGraph(t, 300)
+	m := model(t, g, 0.95, 1, 2)
+	blocked := simulated(t, m, 7, 8)
+	s := m.NewScratch()
+	y := make([]float64, g.Len())
+	for k, want := range blocked {
+		rng := shuffle.NewStream(8, 1, k)
+		if err := m.Simulate(&rng, y, s); err != nil {
+			t.Fatal(err)
+		}
+		for i := range y {
+			if math.Abs(y[i]-want[i]) > 1e-12*(1+math.Abs(want[i])) {
+				t.Fatalf("field %d area %d: Simulate %v, ForDraws %v", k, i, y[i], want[i])
+			}
+		}
+	}
+}
