@@ -15,6 +15,8 @@
 //     states_test.go (Moran's I against gonum);
 //   - spatial/local: local_states_test.go;
 //   - spatial/surrogate: surrogate_states_test.go;
+//   - spatial/sar: sar_states_test.go (the maximum-likelihood fit against
+//     scipy);
 //   - spatial/effective: effective_refs_test.go (modified t-test);
 //   - spatial/shuffle: autocorr_multitest_test.go (p-value adjustments),
 //     effective_refs_test.go (Freedman–Lane's partial F and t) and
