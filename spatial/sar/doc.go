@@ -77,4 +77,11 @@
 // fields are the same for any number of workers. Weights.Model sets up
 // draws at chosen parameters, for simulation studies on layers too large
 // for a dense generator.
+//
+// Checks: the tests here compare the exact log-determinant with gonum's
+// dense LU, the quadrature with the exact form, the fit's recovery of a
+// known ρ on simulated lattices, and the draws' means and covariances with
+// the dense formula; tests/sar_states_test.go compares the fit on US
+// Census state boundaries with numpy/scipy (tests/testdata/scipy,
+// make_sar_refs.py).
 package sar
