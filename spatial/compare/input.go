@@ -75,6 +75,13 @@ type Options struct {
 	// shuffles each (0: DefaultCheckShuffles; at most MaxCheckShuffles),
 	// enough for a p-value at or below Alpha (see CheckShufflesError).
 	FalsePositives, FalsePositiveShuffles int
+	// SARChecks and SARCheckSurrogates are the number of outcomes
+	// simulated from the fitted SAR model on which the spectral
+	// surrogates' false-positive rate is measured, and the surrogates of
+	// each one's test (0: DefaultSARChecks and DefaultSARCheckSurrogates).
+	// The check runs when the spectral surrogates and the false-positive
+	// check both do.
+	SARChecks, SARCheckSurrogates int
 	// Basis tunes the eigenbasis of the surrogates.
 	Basis surrogate.Options
 	// Progress, when set, gives the progress callback for a named stage of

@@ -42,6 +42,8 @@ func (o Options) checkCounts() error {
 		{"spectral surrogates", o.Surrogates, MaxSurrogates},
 		{"false-positive surrogates", o.FalsePositives, MaxFalsePositiveChecks},
 		{"shuffles per false-positive check", o.FalsePositiveShuffles, MaxCheckShuffles},
+		{"SAR-simulated outcomes", o.SARChecks, MaxFalsePositiveChecks},
+		{"surrogates per SAR-simulated outcome", o.SARCheckSurrogates, MaxCheckShuffles},
 	} {
 		if err := shuffle.CheckCount(c.what, c.count, c.max); err != nil {
 			return err

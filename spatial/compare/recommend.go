@@ -94,10 +94,15 @@ func recommendMeasured(res *Result) {
 	zonesBad := false
 	for _, t := range res.Tests {
 		if t.Unsound() {
-			bad = append(bad, rowName(t.Scheme)+" rejected "+rateText(t.FalsePositives))
+			entry := rowName(t.Scheme) + " rejected " + rateText(t.FalsePositives)
+			if t.Scheme == SpectralScheme {
+				entry += " of " + simulatedOn(res)
+			}
+			bad = append(bad, entry)
 			zonesBad = zonesBad || strings.HasSuffix(t.Scheme, "automatic zones")
 		}
 	}
+	calibrationWarning(res)
 	on := fmt.Sprintf("on %s outcomes with the outcome's spatial pattern and no link to the grouping", numtext.Count(fpr.Surrogates))
 	rejected := strings.Join(bad, " and ") + " at the " + fmt.Sprint(fpr.Alpha) + " level"
 	if len(bad) > 0 {
@@ -105,7 +110,11 @@ func recommendMeasured(res *Result) {
 	}
 	for _, t := range res.Tests {
 		if f := t.FalsePositives; f != nil && !t.Unsound() {
-			reason := fmt.Sprintf("%s rejected %s of %s at the %g level, consistent with a sound test's %g%%", capitalise(rowName(t.Scheme)), rateText(f), on[3:], f.Alpha, 100*f.Alpha)
+			of := on[3:]
+			if t.Scheme == SpectralScheme {
+				of = simulatedOn(res)
+			}
+			reason := fmt.Sprintf("%s rejected %s of %s at the %g level, consistent with a sound test's %g%%", capitalise(rowName(t.Scheme)), rateText(f), of, f.Alpha, 100*f.Alpha)
 			if len(bad) > 0 {
 				reason += "; " + rejected
 			}
@@ -114,7 +123,7 @@ func recommendMeasured(res *Result) {
 		}
 	}
 	lead := capitalise(on) + ", " + rejected
-	if k := findRow(res, SpectralScheme); k >= 0 {
+	if k := findRow(res, SpectralScheme); k >= 0 && res.Tests[k].FalsePositives == nil {
 		res.Recommended = Recommendation{Scheme: SpectralScheme, PValue: res.Tests[k].PValue,
 			Reason: lead + ", so read the spectral surrogates, which keep that pattern and break only its link to the grouping; their own false-positive rate is not measured here."}
 	} else if e := res.EffectiveSampleSize; e != nil {
@@ -145,11 +154,14 @@ func unsoundWarning(res *Result, on, rejected string, zonesBad bool) string {
 	return b.String()
 }
 
-// rowName names a label-shuffle row in a sentence: "the free shuffle",
-// "the shuffle within province".
+// rowName names a row in a sentence: "the free shuffle", "the shuffle
+// within province", "the spectral surrogates".
 func rowName(scheme string) string {
-	if scheme == "free" {
+	switch scheme {
+	case "free":
 		return "the free shuffle"
+	case SpectralScheme:
+		return "the " + SpectralScheme
 	}
 	return "the shuffle " + scheme
 }
@@ -165,4 +177,28 @@ func recommendFree(res *Result) {
 		reason = fmt.Sprintf("The spatial check could not run (%s), so nothing here shows whether the outcome and the grouping cluster in space. The free shuffle treats every area as separate evidence; its p-value holds only if neighbouring areas are not alike. Neighbours defined another way (nearest areas or a distance band) would let the check run.", why)
 	}
 	res.Recommended = Recommendation{Scheme: res.Tests[0].Scheme, PValue: res.Tests[0].PValue, Reason: reason}
+}
+
+// simulatedOn describes the SAR check's null outcomes: "200 outcomes
+// simulated from the SAR model fitted to the outcome (ρ 0.83), with no
+// link to the grouping".
+func simulatedOn(res *Result) string {
+	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to the outcome (ρ %.2f), with no link to the grouping",
+		numtext.Count(res.SARCheck.Simulations), res.SARCheck.Rho)
+}
+
+// calibrationWarning warns when the spectral surrogates rejected more
+// than alpha of the SAR check's simulated nulls, giving their p-value
+// calibrated to that generator.
+func calibrationWarning(res *Result) {
+	k := findRow(res, SpectralScheme)
+	if k < 0 || res.Tests[k].FalsePositives == nil || res.Tests[k].Calibrated == nil {
+		return
+	}
+	f, c := res.Tests[k].FalsePositives, res.Tests[k].Calibrated
+	if f.Rate <= f.Alpha {
+		return
+	}
+	res.Warnings = append(res.Warnings, fmt.Sprintf("The spectral surrogates rejected %s of %s at the %g level, more than %g%%. Calibrated to that generator their p-value is %.3g (calibrated), in place of %.3g: they reject at most %g%% of those simulated nulls at p ≤ %.3g.",
+		rateText(f), simulatedOn(res), f.Alpha, 100*f.Alpha, c.PValue, res.Tests[k].PValue, 100*c.Alpha, c.Level))
 }

@@ -38,6 +38,9 @@ type Result struct {
 	// shuffle rejects on surrogates with the outcome's spatial pattern:
 	// Tests[0].FalsePositives, kept here for readers of earlier versions.
 	FalsePositiveRate *FalsePositiveRate `json:"false_positive_rate,omitempty"`
+	// SARCheck describes the SAR model behind the spectral row's measured
+	// false-positive rate, when the check ran or was skipped.
+	SARCheck *SARCheckInfo `json:"sar_check,omitempty"`
 	// Recommended names the p-value to read and why.
 	Recommended Recommendation `json:"recommended"`
 }
@@ -47,9 +50,15 @@ type Result struct {
 // that very shuffle rejected true nulls on the check's surrogates.
 type TestRow struct {
 	shuffle.Result
-	// FalsePositives is nil for the spectral surrogates (whose rate is
-	// not measured here) and when the check did not run.
+	// FalsePositives is nil when the check did not run. For the
+	// spectral surrogates it is measured on outcomes simulated from the
+	// SAR model fitted to the outcome (Result.SARCheck), not on
+	// surrogates, which would be circular: Surrogates counts the
+	// simulated outcomes and Permutations the surrogates of each test.
 	FalsePositives *FalsePositiveRate `json:"false_positive_rate,omitempty"`
+	// Calibrated is the spectral row's p-value calibrated to the SAR
+	// null generator, set with its measured rate.
+	Calibrated *Calibration `json:"calibrated,omitempty"`
 }
 
 // Unsound reports whether the row's measured false-positive rate lies

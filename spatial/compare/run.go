@@ -22,6 +22,7 @@ const (
 	streamZones          uint64 = 3 // the shuffle within automatic zones
 	streamSurrogates     uint64 = 4 // the spectral surrogates
 	streamFalsePositives uint64 = 5 // the false-positive check
+	streamSARCheck       uint64 = 6 // the SAR check of the spectral surrogates
 	streamMoranOutcome   uint64 = 10
 	streamMoranGroup     uint64 = 11 // plus the index of the group indicator
 )

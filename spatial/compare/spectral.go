@@ -55,6 +55,9 @@ func (c *comparison) spectral(res *Result) error {
 			res.Tests[row].FalsePositives = &rates[j]
 		}
 		res.FalsePositiveRate = &rates[0]
+		if opt.Surrogates > 0 {
+			return c.sarCheck(r.Graph, basis, res)
+		}
 	}
 	return nil
 }
