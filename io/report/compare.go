@@ -117,7 +117,28 @@ func testTableWithRates(b *strings.Builder, r *compare.Result) {
 			}
 			b.WriteString(Wrap(mark, width, "    ! ", "      "))
 		}
+		if c := t.Calibrated; c != nil && t.FalsePositives.Rate > t.FalsePositives.Alpha {
+			b.WriteString(Wrap(fmt.Sprintf("calibrated to the SAR null: p = %s (rejects %g%% of its nulls at p ≤ %s)", PValue(c.PValue), 100*c.Alpha, PValue(c.Level)), width, "    ~ ", "      "))
+		}
 	}
+}
+
+// sarCheckText says how the spectral surrogates' own rate was measured,
+// or why it was not.
+func sarCheckText(r *compare.Result) string {
+	s := r.SARCheck
+	switch {
+	case s == nil:
+		return "The spectral surrogates' own rate is not measured here."
+	case s.Skipped != "":
+		return "The spectral surrogates' own rate is not measured here: the SAR model could not be fitted (" + s.Skipped + ")."
+	}
+	bound := ""
+	if s.AtBound {
+		bound = ", at the end of its range"
+	}
+	return fmt.Sprintf("The spectral surrogates' rate is measured on %s outcomes simulated from the simultaneous autoregressive model fitted to %s (ρ = %.3f ± %.3f%s, maximum likelihood, log-determinant by %s), each tested against %s surrogates of its own; surrogates of the data would be circular.",
+		numtext.Count(s.Simulations), r.Input.Outcome, s.Rho, s.RhoSE, bound, s.LogDet, numtext.Count(s.Surrogates))
 }
 
 // percent writes a share as a percentage, with a decimal below 10%.
@@ -132,8 +153,8 @@ func percent(x float64) string {
 // and the spatial check.
 func compareChecks(b *strings.Builder, r *compare.Result) {
 	if f := r.FalsePositiveRate; f != nil {
-		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. The spectral surrogates' own rate is not measured here.",
-			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha), width, "  ", "  "))
+		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. %s",
+			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha, sarCheckText(r)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	if e := r.EffectiveSampleSize; e != nil {

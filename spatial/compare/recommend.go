@@ -180,10 +180,10 @@ func recommendFree(res *Result) {
 }
 
 // simulatedOn describes the SAR check's null outcomes: "200 outcomes
-// simulated from the SAR model fitted to the outcome (ρ 0.83), with no
-// link to the grouping".
+// simulated from the SAR model fitted to the outcome (ρ 0.83; no
+// link to the grouping)".
 func simulatedOn(res *Result) string {
-	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to the outcome (ρ %.2f), with no link to the grouping",
+	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to the outcome (ρ %.2f; no link to the grouping)",
 		numtext.Count(res.SARCheck.Simulations), res.SARCheck.Rho)
 }
 

@@ -200,7 +200,7 @@ func TestRowsReportTheirFalsePositives(t *testing.T) {
 	// 39 check shuffles: two-sided, p ≤ 0.05 is exactly 5% of a null
 	// p-value's values, as with the default 199 (99 would give 4%).
 	opt := Options{Permutations: 99, Alpha: 0.05, Zones: true, Surrogates: 99, FalsePositives: 60, FalsePositiveShuffles: 39,
-		SARChecks: 60, SARCheckSurrogates: 39}
+		SARChecks: 40, SARCheckSurrogates: 39}
 	for _, rho := range []float64{0, 0.5, 0.8, 0.95} {
 		st := simulateRows(t, g, rho, 25, opt, 7)
 		t.Logf("\n%s", st.table(rho))
