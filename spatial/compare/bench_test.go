@@ -5,6 +5,8 @@ import (
 	"testing"
 
 	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/sar"
+	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
 	"github.com/areatest/areatest/weights"
 )
@@ -63,6 +65,52 @@ func benchCheck(b *testing.B, o *surrogate.Outcome, lab []int32, schemes []Check
 		}
 		if b.N == 1 {
 			b.Logf("%+v", r)
+		}
+	}
+}
+
+// Target (issue 11): the SAR check of the spectral surrogates on 3,000
+// areas — the fit, then DefaultSARChecks outcomes simulated from it, each
+// with DefaultSARCheckSurrogates surrogates — within about the cost of
+// BenchmarkFalsePositives3000x500x199 (the basis built beforehand, as
+// there).
+func BenchmarkSARCheck3000(b *testing.B) {
+	g, _, lab := checkLayer3000(b)
+	basis, err := surrogate.NewBasis(g.RowStandardised(), surrogate.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	w, err := sar.Prepare(g.RowStandardised(), sar.Options{Seed: 1})
+	if err != nil {
+		b.Fatal(err)
+	}
+	// The outcome: one SAR(0.9) field, as a strongly clustered outcome.
+	gen, err := w.Model(0.9, 0, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
+	y := make([]float64, g.Len())
+	rng := shuffle.NewStream(3, 0, 0)
+	if err := gen.Simulate(&rng, y, gen.NewScratch()); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		w, err := sar.Prepare(g.RowStandardised(), sar.Options{Seed: 1})
+		if err != nil {
+			b.Fatal(err)
+		}
+		m, err := w.Fit(y)
+		if err != nil {
+			b.Fatal(err)
+		}
+		p, err := SARNullPValues(m, basis, groups.DiffMedians, lab, 2, SAROptions{Seed: 1, Purpose: 6})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if b.N == 1 {
+			b.Logf("ρ %.3f, %+v", m.Rho, SARRate(p, 0.05, DefaultSARCheckSurrogates))
 		}
 	}
 }

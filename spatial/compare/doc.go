@@ -20,14 +20,31 @@
 //     (GroupTest, with the adapter GroupStatistic), and the false-positive
 //     check of every label-shuffle row on such surrogates (fpr.go): one
 //     surrogate draw shared by the rows, each sorted once, each row with
-//     its own shuffle streams; every row of Result.Tests carries its rate.
+//     its own shuffle streams; every label-shuffle row of Result.Tests
+//     carries its rate.
+//   - sarcheck.go: the spectral row's own rate, which its own surrogates
+//     cannot measure (that would be circular): a simultaneous
+//     autoregressive model (spatial/sar) is fitted to the outcome on the
+//     surrogates' graph, DefaultSARChecks outcomes are simulated from it
+//     (independent of the grouping by construction) and each is run
+//     through the spectral surrogate test with DefaultSARCheckSurrogates
+//     surrogates of its own. The row's rate is the share rejected at
+//     Alpha. Its p-value calibrated to that generator is (1 + #{p_s ≤
+//     p})/(1 + S) over the simulated nulls' p-values p_s — the adjusted
+//     p-value of the double bootstrap, Pr*(P* ≤ p) (Davison & Hinkley
+//     1997, §4.5), counted as a Monte Carlo p-value — and α′, the level
+//     at which the surrogate test rejects Alpha of the simulated nulls, is
+//     the largest p_s with no more than Alpha·S of them at or below it.
+//     Weights the model cannot take (asymmetric ones, such as k nearest
+//     neighbours) skip this check with a warning.
 //   - effective.go: the modified t-test, how many independent areas the
 //     data are worth.
 //   - spatialcheck.go: Moran's I of the outcome and of each group
 //     indicator.
 //   - recommend.go: which p-value to read, and why: the most powerful row
 //     whose measured false-positive rate is sound (free, within strata or
-//     zones, spectral surrogates, modified t-test).
+//     zones, spectral surrogates, modified t-test); a row whose rate's
+//     95% interval lies above Alpha is never recommended.
 //
 // Everything lands in one Result (result.go), which every report renders.
 // Problems with the data are an *Error, or, where they concern one of the
@@ -36,7 +53,7 @@
 // Notice the caller may word through Options.Word.
 //
 // Counts are bounded (limits.go): MaxSurrogates, MaxFalsePositiveChecks
-// and MaxCheckShuffles here, shuffle.MaxPermutations for the shuffles; Run
+// and MaxCheckShuffles here (the last two also for the SAR check), shuffle.MaxPermutations for the shuffles; Run
 // refuses more, and a false-positive check too short to reject at Alpha,
 // before any work.
 //
@@ -51,5 +68,7 @@
 // the free shuffle's measured false-positive rate is high exactly when both
 // outcome and grouping cluster (fpr_test.go), and that each row's reported
 // rate agrees with its actual rejections on simulated SAR layers, the
-// recommended p-value holding 5% (rows_test.go).
+// recommended p-value holding 5% (rows_test.go, the spectral row measured
+// by the SAR check), and the calibration against counts by hand
+// (sarcheck_test.go).
 package compare

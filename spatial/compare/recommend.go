@@ -15,8 +15,8 @@ import (
 // measured rate, and the p-value read is that of the most powerful row
 // whose rate is sound (its 95% interval not above alpha), in the order
 // free, within strata or zones, spectral surrogates, modified t-test; the
-// spectral surrogates have no measured rate of their own and count as
-// sound. Without the check the free shuffle is suspect when the spatial
+// spectral surrogates' rate is the SAR check's, and when that check could
+// not run they have no measured rate and count as sound. Without the check the free shuffle is suspect when the spatial
 // check finds both the outcome and the grouping clustered; then a
 // spatially constrained p-value is preferred. Otherwise the free shuffle's
 // p-value is read — on the grounds that nothing clusters only when the
