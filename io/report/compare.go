@@ -131,7 +131,7 @@ func sarCheckText(r *compare.Result) string {
 	case s == nil:
 		return "The spectral surrogates' own rate is not measured here."
 	case s.Skipped != "":
-		return "The spectral surrogates' own rate is not measured here: the SAR model could not be fitted (" + s.Skipped + ")."
+		return "The spectral surrogates' own rate is not measured here: the SAR check could not run (" + s.Skipped + ")."
 	}
 	bound := ""
 	if s.AtBound {

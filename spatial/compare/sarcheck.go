@@ -235,7 +235,8 @@ func Calibrate(observed float64, p []float64, alpha float64) Calibration {
 // sarCheck fits the SAR model to the outcome on g (the restricted graph of
 // the surrogates' basis), measures the spectral row's false-positive rate
 // on outcomes simulated from it, and calibrates the row's p-value. Weights
-// the model cannot take (asymmetric ones) skip the check with a warning.
+// the model cannot take (asymmetric ones), an outcome it cannot fit and
+// simulations that fail skip the check with a warning, not an error.
 func (c *comparison) sarCheck(g *weights.Graph, basis *surrogate.Basis, res *Result) error {
 	row := findRow(res, SpectralScheme)
 	if row < 0 {
@@ -244,7 +245,7 @@ func (c *comparison) sarCheck(g *weights.Graph, basis *surrogate.Basis, res *Res
 	opt := c.opt
 	skip := func(err error) error {
 		res.SARCheck = &SARCheckInfo{Skipped: err.Error()}
-		res.Warnings = append(res.Warnings, fmt.Sprintf("The spectral surrogates' false-positive rate was not measured: the SAR model could not be fitted (%v).", err))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("The spectral surrogates' false-positive rate was not measured: the SAR check could not run (%v).", err))
 		return nil
 	}
 	w, err := sar.Prepare(g, sar.Options{Seed: opt.Seed, Workers: opt.Workers})
@@ -264,7 +265,9 @@ func (c *comparison) sarCheck(g *weights.Graph, basis *surrogate.Basis, res *Res
 	p, err := SARNullPValues(m, basis, c.stat, c.lab, c.k(), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
 		Alternative: c.alt, Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
 	if err != nil {
-		return err
+		// A simulation that does not converge (ρ at the edge of its
+		// range) says the model does not suit these data: skip, as above.
+		return skip(err)
 	}
 	rate := SARRate(p, alpha, B)
 	cal := Calibrate(res.Tests[row].PValue, p, alpha)
