@@ -6,7 +6,6 @@ import (
 
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/sar"
-	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
 	"github.com/areatest/areatest/weights"
 )
@@ -80,20 +79,8 @@ func BenchmarkSARCheck3000(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	w, err := sar.Prepare(g.RowStandardised(), sar.Options{Seed: 1})
-	if err != nil {
-		b.Fatal(err)
-	}
 	// The outcome: one SAR(0.9) field, as a strongly clustered outcome.
-	gen, err := w.Model(0.9, 0, 1)
-	if err != nil {
-		b.Fatal(err)
-	}
-	y := make([]float64, g.Len())
-	rng := shuffle.NewStream(3, 0, 0)
-	if err := gen.Simulate(&rng, y, gen.NewScratch()); err != nil {
-		b.Fatal(err)
-	}
+	_, y := sarOutcome(b, g.RowStandardised(), 0.9, 3)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for range b.N {

@@ -45,19 +45,7 @@ func TestCalibrate(t *testing.T) {
 // and a grouping of two blocks.
 func sarCheckLayer(t *testing.T) (*sar.Model, *surrogate.Basis, []int32) {
 	g := weights.Lattice(12, 12, weights.Queen).RowStandardised()
-	w, err := sar.Prepare(g, sar.Options{Seed: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	gen, err := w.Model(0.8, 1, 2)
-	if err != nil {
-		t.Fatal(err)
-	}
-	y := make([]float64, g.Len())
-	rng := shuffle.NewStream(9, 0, 0)
-	if err := gen.Simulate(&rng, y, gen.NewScratch()); err != nil {
-		t.Fatal(err)
-	}
+	w, y := sarOutcome(t, g, 0.8, 9)
 	m, err := w.Fit(y)
 	if err != nil {
 		t.Fatal(err)
@@ -170,4 +158,23 @@ func TestSARCheckInRunIndependentOfWorkers(t *testing.T) {
 				workers, b, *res.Tests[k].Calibrated, *res.SARCheck)
 		}
 	}
+}
+
+// sarOutcome prepares g for SAR models and draws one SAR(ρ) field on it
+// (μ 1, σ² 2) from the stream of seed.
+func sarOutcome(tb testing.TB, g *weights.Graph, rho float64, seed uint64) (*sar.Weights, []float64) {
+	w, err := sar.Prepare(g, sar.Options{Seed: 1})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	gen, err := w.Model(rho, 1, 2)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	y := make([]float64, g.Len())
+	rng := shuffle.NewStream(seed, 0, 0)
+	if err := gen.Simulate(&rng, y, gen.NewScratch()); err != nil {
+		tb.Fatal(err)
+	}
+	return w, y
 }
