@@ -12,6 +12,5 @@
 //
 // The path "-" (or "") means standard output.
 //
-// Start with Plan (plan.go) and Commit (commit.go); Write is a plan of one
-// file.
+// Start with NewPlan and Plan.Add (plan.go), then Plan.Commit (commit.go).
 package output

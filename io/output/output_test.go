@@ -9,7 +9,7 @@ import (
 	"testing"
 )
 
-func TestWrite(t *testing.T) {
+func TestOneFilePlan(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "layer.geojson")
 	if err := os.WriteFile(in, []byte("input"), 0o644); err != nil {
@@ -37,7 +37,7 @@ func TestWrite(t *testing.T) {
 		{"render fails", filepath.Join(dir, "failed.txt"), func(io.Writer) error { return errors.New("boom") }, "boom"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			err := Write(c.path, &stdout, []string{"-", in}, c.render)
+			err := writeOne(c.path, &stdout, []string{"-", in}, c.render)
 			if (err == nil) != (c.wantErr == "") || (err != nil && !strings.Contains(err.Error(), c.wantErr)) {
 				t.Fatalf("error %v, want %q", err, c.wantErr)
 			}
@@ -58,4 +58,15 @@ func TestWrite(t *testing.T) {
 	if left, _ := filepath.Glob(filepath.Join(dir, ".*.tmp-*")); len(left) > 0 {
 		t.Errorf("temporary files left: %v", left)
 	}
+}
+
+// writeOne is a plan of one file, added, rendered and committed.
+func writeOne(path string, stdout io.Writer, inputs []string, render func(io.Writer) error) error {
+	p := NewPlan(inputs...)
+	f, err := p.Add(path)
+	if err != nil {
+		return err
+	}
+	f.SetRender(render)
+	return p.Commit(stdout)
 }

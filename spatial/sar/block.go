@@ -73,7 +73,7 @@ func (m *Model) blockColumn(bl *block, c int, used bool, rng *shuffle.Stream) {
 		}
 		return
 	}
-	normals(rng, bl.eps)
+	rng.Normals(bl.eps)
 	sd := math.Sqrt(m.Sigma2)
 	for i, e := range bl.eps {
 		bl.rhs[i*width+c] = m.w.sq[i] * (m.Intercept + sd*e)

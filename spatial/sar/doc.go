@@ -67,8 +67,8 @@
 //
 // # Draws
 //
-// Model.Simulate draws ε from a stream of spatial/shuffle (normals by
-// Marsaglia's polar method) and solves (I − ρW)y = μ1 + ε by conjugate
+// Model.Simulate draws ε from a stream of spatial/shuffle (Stream.Normals,
+// the tool's one normal generator) and solves (I − ρW)y = μ1 + ε by conjugate
 // gradients on the symmetrised system (Hestenes & Stiefel 1952) to a
 // relative residual of Tolerance: about 60 steps at ρ = 0.95 on a
 // contiguity graph, allocation-free given a Scratch. ForDraws draws many

@@ -102,7 +102,7 @@ func (m *Model) residual(u, b, r []float64) {
 // Simulate draws one field y = (I − ρW)⁻¹(μ1 + ε), ε ~ N(0, σ²I), into
 // out, every normal from rng. It does not allocate.
 func (m *Model) Simulate(rng *shuffle.Stream, out []float64, s *Scratch) error {
-	normals(rng, s.q)
+	rng.Normals(s.q)
 	sd := math.Sqrt(m.Sigma2)
 	b := s.q
 	for i := range b {
@@ -111,25 +111,6 @@ func (m *Model) Simulate(rng *shuffle.Stream, out []float64, s *Scratch) error {
 	// Solve reads b before it first writes s.q.
 	_, err := m.Solve(b, out, s)
 	return err
-}
-
-// normals fills dst with standard normal draws by Marsaglia's polar method
-// (Marsaglia & Bray 1964, SIAM Rev. 6:260–264): a point uniform in the unit
-// disc, rejected outside it, gives two independent normals.
-func normals(rng *shuffle.Stream, dst []float64) {
-	for i := 0; i < len(dst); {
-		u, v := 2*rng.Float64()-1, 2*rng.Float64()-1
-		r2 := u*u + v*v
-		if r2 >= 1 || r2 == 0 {
-			continue
-		}
-		f := math.Sqrt(-2 * math.Log(r2) / r2)
-		dst[i] = u * f
-		if i+1 < len(dst) {
-			dst[i+1] = v * f
-		}
-		i += 2
-	}
 }
 
 // sumSquares returns xᵀx, summed in order (as the block solves sum each

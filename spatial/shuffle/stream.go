@@ -1,6 +1,7 @@
 package shuffle
 
 import (
+	"math"
 	"math/bits"
 	"math/rand/v2"
 )
@@ -84,4 +85,23 @@ func (s *Stream) IntN(n int) int {
 // Float64 returns a uniform value in [0, 1).
 func (s *Stream) Float64() float64 {
 	return float64(s.pcg.Uint64()>>11) / (1 << 53)
+}
+
+// Normals fills dst with independent standard normal draws by the
+// Box–Muller transform (Box & Muller 1958, Ann. Math. Stat. 29:610–611),
+// two per pair of uniforms, so that every value comes from this stream and
+// nothing else. The one normal generator of the tool: the spectral
+// surrogates and the simulated autoregressive fields both draw with it.
+func (s *Stream) Normals(dst []float64) {
+	n := len(dst)
+	for i := 0; i < n; i += 2 {
+		u := 1 - s.Float64() // in (0, 1], so the logarithm is finite
+		v := s.Float64()
+		r := math.Sqrt(-2 * math.Log(u))
+		sn, c := math.Sincos(2 * math.Pi * v)
+		dst[i] = r * c
+		if i+1 < n {
+			dst[i+1] = r * sn
+		}
+	}
 }

@@ -56,7 +56,7 @@ func newSAR(g *weights.Graph, rho float64) *sarField {
 
 func (s *sarField) draw(tb testing.TB, rng *shuffle.Stream) []float64 {
 	e := make([]float64, s.n)
-	normals(rng, e)
+	rng.Normals(e)
 	return s.sar.Field(tb, e)
 }
 

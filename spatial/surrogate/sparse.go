@@ -115,7 +115,7 @@ func filteredSubspace(op *symOp, want, guard int, sign, lo, hi, tol float64, max
 	L := op.n
 	p := want + guard
 	x = make([]float64, L*p)
-	normals(rng, x)
+	rng.Normals(x)
 	centreColumns(x, L, p)
 	orthonormalise(x, L, p)
 	theta, res := rayleighRitz(op, x, L, p, sign)
@@ -262,7 +262,7 @@ func spectrumBounds(op *symOp, seed uint64) (lo, hi float64) {
 	steps := min(n-1, 40)
 	rng := shuffle.NewStream(seed, basisPurpose, 2)
 	q := make([]float64, n)
-	normals(&rng, q)
+	rng.Normals(q)
 	centre(q)
 	scaleTo(q, 1)
 	basis := make([]float64, 0, n*steps)

@@ -212,7 +212,7 @@ func (o *Outcome) randomCoefficients(rng *shuffle.Stream, dst []float64) {
 		// A uniformly random direction in the group's span (normalised
 		// Gaussian), with the group's share of the variance.
 		seg := dst[a:e]
-		normals(rng, seg)
+		rng.Normals(seg)
 		want := math.Sqrt(dot(o.coef[a:e], o.coef[a:e]))
 		scaleTo(seg, want)
 	}
@@ -233,7 +233,7 @@ func (o *Outcome) residual(rng *shuffle.Stream, s *Scratch) float64 {
 	L := len(b.linked)
 	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
 	g, h := s.g, s.h
-	normals(rng, g)
+	rng.Normals(g)
 	centre(g)
 	blas64.Gemv(blas.Trans, 1, V, vec(g), 0, vec(s.proj))
 	blas64.Gemv(blas.NoTrans, -1, V, vec(s.proj), 1, vec(g))
