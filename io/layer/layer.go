@@ -103,6 +103,53 @@ type Layer struct {
 	// IDColumn is the attribute the ids came from; "" when they came from the
 	// feature ids, "#" when they are feature positions.
 	IDColumn string
+	// CRS says what the coordinates are; the zero value is longitude and
+	// latitude in degrees, as GeoJSON has them.
+	CRS CRS
+}
+
+// CRS describes a layer's coordinate system as far as the statistics need
+// it: geographic (longitude/latitude in degrees, distances measured on the
+// sphere) or projected (planar coordinates in a linear unit, distances
+// measured in the plane). Nothing is ever reprojected.
+type CRS struct {
+	// Projected is true for planar coordinates, false for degrees.
+	Projected bool `json:"projected"`
+	// Unit names the linear unit of projected coordinates ("metre",
+	// "US survey foot"); "" when the input does not say (then distances
+	// are in "layer units").
+	Unit string `json:"unit,omitempty"`
+	// MetresPerUnit converts projected coordinates to metres; 0 when the
+	// unit is unknown.
+	MetresPerUnit float64 `json:"metres_per_unit,omitempty"`
+	// Name is the system as the input names it ("NAD83 / Conus Albers",
+	// "EPSG:5070"); "" when it names none.
+	Name string `json:"name,omitempty"`
+	// EPSG is the system's EPSG code when the input gives one, else 0.
+	EPSG int `json:"epsg,omitempty"`
+}
+
+// DistanceUnit names the unit distances are measured in on this layer:
+// "km" on geographic layers, the projected unit's short name ("m", "ft",
+// "US ft") or "layer units" when the unit is unknown.
+func (c CRS) DistanceUnit() string {
+	if !c.Projected {
+		return "km"
+	}
+	switch c.MetresPerUnit {
+	case 1:
+		return "m"
+	case 1000:
+		return "km"
+	case 0.3048:
+		return "ft"
+	case 1200.0 / 3937:
+		return "US ft"
+	}
+	if c.Unit != "" {
+		return c.Unit
+	}
+	return "layer units"
 }
 
 // Len returns the number of areas.
