@@ -251,8 +251,8 @@ func (fs *featureState) addRow(id string, mp orb.MultiPolygon, cells []cell) {
 		}
 	}
 	for _, b := range fs.cols {
-		if len(b.missing) == row {
-			b.addMissing()
+		if b.Len() == row {
+			b.AddMissing()
 		}
 	}
 }
@@ -336,8 +336,9 @@ func (fs *featureState) column(key []byte, row int) *colBuilder {
 	if i, ok := fs.colIdx[string(key)]; ok {
 		return fs.cols[i]
 	}
-	b := newColBuilder(string(key), row)
-	fs.colIdx[b.name] = len(fs.cols)
+	name := string(key)
+	b := newColBuilder(name, row)
+	fs.colIdx[name] = len(fs.cols)
 	fs.cols = append(fs.cols, b)
 	return b
 }
@@ -444,7 +445,7 @@ func (rd *reader) finish() (*layer.Layer, error) {
 	}
 	cols := make([]*layer.Column, len(fs.cols))
 	for i, b := range fs.cols {
-		cols[i] = b.column()
+		cols[i] = b.Column()
 	}
 	return &layer.Layer{
 		Source:   rd.source,

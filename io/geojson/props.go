@@ -158,69 +158,6 @@ func unquote(raw []byte) string {
 	return s
 }
 
-// isMissingWord reports the spellings that mark a missing value in text
-// files and spreadsheets.
-func isMissingWord(t []byte) bool {
-	switch len(t) {
-	case 2:
-		return bytes.EqualFold(t, []byte("na"))
-	case 3:
-		return bytes.EqualFold(t, []byte("n/a")) || bytes.EqualFold(t, []byte("nan"))
-	case 4:
-		return bytes.EqualFold(t, []byte("null"))
-	}
-	return false
-}
-
-// isDecimal accepts a plain decimal number, optionally signed, with
-// optional fraction and exponent. strconv.ParseFloat alone would also take
-// "Inf", hexadecimal and underscores, which in a property are words, not
-// numbers.
-func isDecimal(t []byte) bool {
-	i := 0
-	if i < len(t) && (t[i] == '+' || t[i] == '-') {
-		i++
-	}
-	digits := 0
-	for i < len(t) && t[i] >= '0' && t[i] <= '9' {
-		i++
-		digits++
-	}
-	if i < len(t) && t[i] == '.' {
-		i++
-		for i < len(t) && t[i] >= '0' && t[i] <= '9' {
-			i++
-			digits++
-		}
-	}
-	if digits == 0 {
-		return false
-	}
-	if i < len(t) && (t[i] == 'e' || t[i] == 'E') {
-		i++
-		if i < len(t) && (t[i] == '+' || t[i] == '-') {
-			i++
-		}
-		start := i
-		for i < len(t) && t[i] >= '0' && t[i] <= '9' {
-			i++
-		}
-		if i == start {
-			return false
-		}
-	}
-	return i == len(t)
-}
-
-// hasLeadingZero spots codes such as "01001" (a county FIPS code), which
-// read as numbers would lose their zeros and their meaning.
-func hasLeadingZero(t []byte) bool {
-	if len(t) > 0 && (t[0] == '+' || t[0] == '-') {
-		t = t[1:]
-	}
-	return len(t) > 1 && t[0] == '0' && t[1] >= '0' && t[1] <= '9'
-}
-
 // isPlainInt reports an integer literal: optional minus, digits only.
 func isPlainInt(raw []byte) bool {
 	if len(raw) > 0 && raw[0] == '-' {
@@ -237,30 +174,6 @@ func isPlainInt(raw []byte) bool {
 	return true
 }
 
-// appendNumber writes v in its shortest exact form, in plain notation
-// between 1e-6 and 1e21 and in exponent notation outside, the rule of
-// encoding/json (and of JavaScript), so that a number reads as JSON writers
-// print it: 1234567, not 1.234567e+06. -0 is written 0.
-func appendNumber(dst []byte, v float64) []byte {
-	if v == 0 {
-		return append(dst, '0')
-	}
-	if a := math.Abs(v); a >= 1e-6 && a < 1e21 {
-		return strconv.AppendFloat(dst, v, 'f', -1, 64)
-	}
-	dst = strconv.AppendFloat(dst, v, 'e', -1, 64)
-	if n := len(dst); n >= 4 && dst[n-4] == 'e' && dst[n-3] == '-' && dst[n-2] == '0' {
-		dst[n-2] = dst[n-1] // e-07 → e-7
-		dst = dst[:n-1]
-	}
-	return dst
-}
-
-func formatNumber(v float64) string {
-	var buf [32]byte
-	return string(appendNumber(buf[:0], v))
-}
-
 // numberText renders a JSON number literal as text: integer literals keep
 // their digits (they may not fit a float64 exactly), others take their
 // shortest form. ok is false for literals beyond the float64 range.
@@ -275,7 +188,7 @@ func numberText(raw []byte) (s string, v float64, ok bool) {
 		}
 		return string(raw), v, true
 	}
-	return formatNumber(v), v, true
+	return layer.FormatNumber(v), v, true
 }
 
 // isWhole reports whether a number literal is an integer value.
@@ -283,165 +196,54 @@ func isWhole(raw []byte, v float64) bool {
 	return isPlainInt(raw) || v == math.Trunc(v)
 }
 
-// colBuilder gathers one property across the features. While every value
-// seen is numeric it keeps floats, and text only for values whose written
-// form differs from the float's shortest form; at the first non-numeric
-// value it turns into a text column for good, and from then on notNum
-// marks the values that are not numbers (layer.Column.NotNumber).
+// colBuilder gathers one property across the features, by the rules all
+// readers share (layer.Builder).
 type colBuilder struct {
-	name    string
-	numeric bool
-	num     []float64
-	str     []string // nil while no numeric value needs its written form kept
-	notNum  []bool   // nil while numeric
-	missing []bool
+	*layer.Builder
 	// last is the position, among the current feature's properties, of the
 	// last cell with this key (featureState.addRow).
 	last int
 }
 
 func newColBuilder(name string, rows int) *colBuilder {
-	b := &colBuilder{name: name, numeric: true}
-	for range rows {
-		b.addMissing()
-	}
-	return b
+	return &colBuilder{Builder: layer.NewBuilder(name, rows)}
 }
 
-// set stores the value of the next row.
+// set stores the value of the next row, a raw JSON value.
 func (b *colBuilder) set(raw []byte) {
 	if len(raw) == 0 {
-		b.addMissing()
+		b.AddMissing()
 		return
 	}
 	switch raw[0] {
 	case 'n':
-		b.addMissing()
+		b.AddMissing()
 	case 't':
-		b.addText("true")
+		b.AddWord("true")
 	case 'f':
-		b.addText("false")
+		b.AddWord("false")
 	case '"':
-		b.addString(raw)
+		b.AddText(unquote(raw))
 	case '{', '[':
 		var buf bytes.Buffer
 		if json.Compact(&buf, raw) != nil {
-			b.addText(string(raw))
+			b.AddWord(string(raw))
 			return
 		}
-		b.addText(buf.String())
+		b.AddWord(buf.String())
 	default:
 		v, err := strconv.ParseFloat(string(raw), 64)
 		if err != nil || math.IsInf(v, 0) {
-			b.addText(string(raw)) // beyond float64: keep the digits as text
+			b.AddWord(string(raw)) // beyond float64: keep the digits as text
 			return
 		}
 		var text string
 		if isPlainInt(raw) && len(raw) > 15 {
 			var buf [32]byte
-			if !bytes.Equal(appendNumber(buf[:0], v), raw) {
+			if !bytes.Equal(layer.AppendNumber(buf[:0], v), raw) {
 				text = string(raw) // too many digits for a float64
 			}
 		}
-		b.addNumber(v, text)
+		b.AddNumber(v, text)
 	}
-}
-
-// addString stores a JSON string value: missing, a number, or text. A
-// string holding a number is a number in a text column too, so that the
-// column keeps count of its numbers.
-func (b *colBuilder) addString(raw []byte) {
-	inner := raw[1 : len(raw)-1]
-	if bytes.IndexByte(inner, '\\') >= 0 {
-		inner = []byte(unquote(raw))
-	}
-	t := bytes.TrimSpace(inner)
-	if len(t) == 0 || isMissingWord(t) {
-		b.addMissing()
-		return
-	}
-	if isDecimal(t) && !hasLeadingZero(t) {
-		if v, err := strconv.ParseFloat(string(t), 64); err == nil && !math.IsInf(v, 0) {
-			var buf [32]byte
-			var text string
-			if !bytes.Equal(appendNumber(buf[:0], v), inner) {
-				text = string(inner) // as written, should the column turn to text
-			}
-			b.addNumber(v, text)
-			return
-		}
-	}
-	if utf8.Valid(inner) {
-		b.addText(string(inner))
-	} else {
-		b.addText(strings.ToValidUTF8(string(inner), "\uFFFD"))
-	}
-}
-
-// addNumber stores a number; text, if not empty, is how it was written.
-func (b *colBuilder) addNumber(v float64, text string) {
-	if !b.numeric {
-		if text == "" {
-			text = formatNumber(v)
-		}
-		b.str = append(b.str, text)
-		b.notNum = append(b.notNum, false)
-		b.missing = append(b.missing, false)
-		return
-	}
-	if text != "" && b.str == nil {
-		b.str = make([]string, len(b.num), cap(b.num))
-	}
-	b.num = append(b.num, v)
-	if b.str != nil {
-		b.str = append(b.str, text)
-	}
-	b.missing = append(b.missing, false)
-}
-
-// addText stores a value that is not a number.
-func (b *colBuilder) addText(s string) {
-	if b.numeric {
-		b.toText()
-	}
-	b.str = append(b.str, s)
-	b.notNum = append(b.notNum, true)
-	b.missing = append(b.missing, false)
-}
-
-func (b *colBuilder) addMissing() {
-	if b.numeric {
-		b.num = append(b.num, math.NaN())
-	} else {
-		b.notNum = append(b.notNum, false)
-	}
-	if !b.numeric || b.str != nil {
-		b.str = append(b.str, "")
-	}
-	b.missing = append(b.missing, true)
-}
-
-// toText renders the numbers stored so far and drops the floats; every
-// row so far was a number or missing.
-func (b *colBuilder) toText() {
-	if b.str == nil {
-		b.str = make([]string, len(b.num), cap(b.num))
-	}
-	for i, v := range b.num {
-		if !b.missing[i] && b.str[i] == "" {
-			b.str[i] = formatNumber(v)
-		}
-	}
-	b.notNum = make([]bool, len(b.num), cap(b.num))
-	b.num = nil
-	b.numeric = false
-}
-
-// column hands the gathered values over as a layer column. A property that
-// is missing in every feature comes out as a Number column.
-func (b *colBuilder) column() *layer.Column {
-	if b.numeric {
-		return &layer.Column{Name: b.name, Kind: layer.Number, Num: b.num, Missing: b.missing}
-	}
-	return &layer.Column{Name: b.name, Kind: layer.Text, Str: b.str, Missing: b.missing, NotNumber: b.notNum}
 }

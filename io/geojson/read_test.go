@@ -1,8 +1,6 @@
 package geojson
 
 import (
-	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -605,40 +603,12 @@ func TestReadFile(t *testing.T) {
 	}
 }
 
-// formatNumber follows encoding/json's rule for floats; json.Marshal is the
-// reference.
-func TestFormatNumberMatchesJSON(t *testing.T) {
-	for _, v := range []float64{0, 1, -1, 48201, 1234567, 1.5, 0.1, 1e-4, 1e-6, 9.99e-7, 1e-7, 1e20, 1e21, 123456789012, 1.0 / 3, -2.5e-7, 1e-300, math.MaxFloat64, math.SmallestNonzeroFloat64} {
-		want, err := json.Marshal(v)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if got := formatNumber(v); got != string(want) {
-			t.Errorf("%v: formatNumber %q, json.Marshal %q", v, got, want)
-		}
-	}
-}
-
 func TestHelpers(t *testing.T) {
-	for s, want := range map[string]bool{"1": true, "-1.5": true, "+2": true, ".5": true, "5.": true, "1e5": true, "1E-5": true,
-		"": false, "-": false, ".": false, "1e": false, "inf": false, "0x10": false, "1_000": false, "1,5": false, "1 2": false} {
-		if got := isDecimal([]byte(s)); got != want {
-			t.Errorf("isDecimal(%q) = %v", s, got)
-		}
-	}
-	for s, want := range map[string]bool{"01": true, "-01": true, "00": true, "0": false, "0.5": false, "10": false} {
-		if got := hasLeadingZero([]byte(s)); got != want {
-			t.Errorf("hasLeadingZero(%q) = %v", s, got)
-		}
-	}
 	if _, err := scanObject([]byte(`{"a":`), nil); err == nil {
 		t.Errorf("scanObject accepted a cut object")
 	}
 	cells, err := scanObject([]byte(` { "a\"b" : [1, "]", {"c": "}"}] , "d":"x\\" } `), nil)
 	if err != nil || len(cells) != 2 || string(cells[0].key) != `a"b` || string(cells[0].raw) != `[1, "]", {"c": "}"}]` || string(cells[1].raw) != `"x\\"` {
 		t.Errorf("scanObject: %v %q", err, cells)
-	}
-	if !bytes.Equal(appendNumber(nil, 48201), []byte("48201")) {
-		t.Errorf("appendNumber")
 	}
 }

@@ -79,13 +79,29 @@ func (c *Column) Label(i int) string {
 	return FormatNumber(c.Num[i])
 }
 
-// FormatNumber writes v as JSON would: plain notation for magnitudes from
-// 1e-6 to 1e21 (so 1234567 stays 1234567), exponent notation outside.
+// FormatNumber writes v in its shortest exact form, in plain notation
+// between 1e-6 and 1e21 and in exponent notation outside, the rule of
+// encoding/json (and of JavaScript), so that a number reads as JSON writers
+// print it: 1234567, not 1.234567e+06; 1e-7, not 1e-07. -0 is written 0.
 func FormatNumber(v float64) string {
-	if a := math.Abs(v); a == 0 || (a >= 1e-6 && a < 1e21) {
-		return strconv.FormatFloat(v, 'f', -1, 64)
+	var buf [32]byte
+	return string(AppendNumber(buf[:0], v))
+}
+
+// AppendNumber appends FormatNumber(v) to dst.
+func AppendNumber(dst []byte, v float64) []byte {
+	if v == 0 {
+		return append(dst, '0')
 	}
-	return strconv.FormatFloat(v, 'g', -1, 64)
+	if a := math.Abs(v); a >= 1e-6 && a < 1e21 {
+		return strconv.AppendFloat(dst, v, 'f', -1, 64)
+	}
+	dst = strconv.AppendFloat(dst, v, 'e', -1, 64)
+	if n := len(dst); n >= 4 && dst[n-4] == 'e' && dst[n-3] == '-' && dst[n-2] == '0' {
+		dst[n-2] = dst[n-1] // e-07 → e-7
+		dst = dst[:n-1]
+	}
+	return dst
 }
 
 // Layer is a table of areas. IDs are unique. Geoms[i] is the geometry of area

@@ -1,0 +1,73 @@
+package layer
+
+import (
+	"encoding/json"
+	"math"
+	"testing"
+)
+
+// FormatNumber follows encoding/json's rule for floats; json.Marshal is the
+// reference.
+func TestFormatNumberMatchesJSON(t *testing.T) {
+	for _, v := range []float64{0, 1, -1, 48201, 1234567, 1.5, 0.1, 1e-4, 1e-6, 9.99e-7, 1e-7, 1e20, 1e21, 123456789012, 1.0 / 3, -2.5e-7, 1e-300, math.MaxFloat64, math.SmallestNonzeroFloat64} {
+		want, err := json.Marshal(v)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := FormatNumber(v); got != string(want) {
+			t.Errorf("%v: FormatNumber %q, json.Marshal %q", v, got, want)
+		}
+	}
+}
+
+func TestNumberWords(t *testing.T) {
+	for s, want := range map[string]bool{"1": true, "-1.5": true, "+2": true, ".5": true, "5.": true, "1e5": true, "1E-5": true,
+		"": false, "-": false, ".": false, "1e": false, "inf": false, "0x10": false, "1_000": false, "1,5": false, "1 2": false} {
+		if got := IsDecimal(s); got != want {
+			t.Errorf("IsDecimal(%q) = %v", s, got)
+		}
+	}
+	for s, want := range map[string]bool{"01": true, "-01": true, "00": true, "0": false, "0.5": false, "10": false} {
+		if got := HasLeadingZero(s); got != want {
+			t.Errorf("HasLeadingZero(%q) = %v", s, got)
+		}
+	}
+}
+
+// TestBuilderRules: the shared column rules, value by value.
+func TestBuilderRules(t *testing.T) {
+	type add func(*Builder)
+	text := func(s string) add { return func(b *Builder) { b.AddText(s) } }
+	for _, tc := range []struct {
+		name    string
+		adds    []add
+		kind    Kind
+		labels  []string
+		missing []bool
+	}{
+		{"numbers", []add{text("1.5"), text(" 2 "), text("NA"), text("")}, Number, []string{"1.5", "2", "", ""}, []bool{false, false, true, true}},
+		{"a code turns text", []add{text("1001"), text("01003")}, Text, []string{"1001", "01003"}, []bool{false, false}},
+		{"a word turns text", []add{text("7"), text("n/a"), text("seven")}, Text, []string{"7", "", "seven"}, []bool{false, true, false}},
+		{"typed numbers", []add{func(b *Builder) { b.AddNumber(3, "") }, func(b *Builder) { b.AddMissing() }}, Number, []string{"3", ""}, []bool{false, true}},
+		{"written form kept", []add{text("1.50"), func(b *Builder) { b.AddWord("true") }}, Text, []string{"1.50", "true"}, []bool{false, false}},
+		{"inf is a word", []add{text("Inf")}, Text, []string{"Inf"}, []bool{false}},
+	} {
+		b := NewBuilder("c", 0)
+		for _, a := range tc.adds {
+			a(b)
+		}
+		c := b.Column()
+		if c.Kind != tc.kind || b.Len() != len(tc.labels) {
+			t.Errorf("%s: kind %v, %d values", tc.name, c.Kind, b.Len())
+			continue
+		}
+		for i, want := range tc.labels {
+			if c.Label(i) != want || c.Missing[i] != tc.missing[i] {
+				t.Errorf("%s: value %d is %q (missing %v), want %q", tc.name, i, c.Label(i), c.Missing[i], want)
+			}
+		}
+	}
+	if c := NewBuilder("late", 2).Column(); c.Kind != Number || c.MissingCount() != 2 {
+		t.Errorf("a late column: %+v", c)
+	}
+}
