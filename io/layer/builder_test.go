@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"math"
 	"testing"
+
+	"github.com/paulmach/orb"
 )
 
 // FormatNumber follows encoding/json's rule for floats; json.Marshal is the
@@ -69,5 +71,28 @@ func TestBuilderRules(t *testing.T) {
 	}
 	if c := NewBuilder("late", 2).Column(); c.Kind != Number || c.MissingCount() != 2 {
 		t.Errorf("a late column: %+v", c)
+	}
+}
+
+func TestCheckPolygons(t *testing.T) {
+	open := orb.MultiPolygon{{{{0, 0}, {1, 0}, {1, 1}}}, {}}
+	closed, empty, err := CheckPolygons(&open)
+	if err != nil || closed != 1 || empty || len(open) != 1 || len(open[0][0]) != 4 {
+		t.Errorf("closing: %d %v %v %v", closed, empty, err, open)
+	}
+	short := orb.MultiPolygon{{{{0, 0}, {1, 0}, {0, 0}}}}
+	if _, _, err := CheckPolygons(&short); err == nil || err.Error() != "ring 1 has 3 positions; a ring needs at least 4, the last repeating the first" {
+		t.Errorf("short ring: %v", err)
+	}
+	bad := orb.MultiPolygon{{{{0, 0}, {1, 0}, {1, 1}, {0, 0}}}, {{{0, 0}, {math.NaN(), 0}, {1, 1}, {0, 0}}}}
+	if _, _, err := CheckPolygons(&bad); err == nil || err.Error() != "ring 1 of part 2 holds the coordinate [NaN, 0], which is not a finite number" {
+		t.Errorf("NaN: %v", err)
+	}
+	none := orb.MultiPolygon{{}}
+	if _, empty, err := CheckPolygons(&none); !empty || err != nil {
+		t.Errorf("empty: %v %v", empty, err)
+	}
+	if p, ok := OutsideLonLat(orb.MultiPolygon{{{{10, 10}, {500000, 4e6}}}}); !ok || p != (orb.Point{500000, 4e6}) {
+		t.Errorf("OutsideLonLat: %v %v", p, ok)
 	}
 }
