@@ -49,7 +49,7 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 // check checks the flag values and turns them into the library's options.
 func (c *compareFlags) check() error {
 	c.opt = compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
-		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles, Word: wordNotice}
+		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles}
 	if c.statistic != "" {
 		s, err := groups.ParseStatistic(c.statistic)
 		if err != nil {
@@ -222,12 +222,4 @@ func flagAdvice(err error) error {
 			se.Shuffles, se.Alpha, se.Shuffles, se.Smallest, se.Need)
 	}
 	return err
-}
-
-// wordNotice words the comparison's notices in terms of the flags.
-func wordNotice(n compare.Notice) string {
-	if n == compare.SurrogatesWithCovariates {
-		return "Spectral surrogates and the false-positive check are not run with --covariates: the adjusted statistic would need surrogates of the residuals, which this version does not make."
-	}
-	return n.String()
 }

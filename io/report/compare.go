@@ -118,7 +118,11 @@ func testTableWithRates(b *strings.Builder, r *compare.Result) {
 			b.WriteString(Wrap(mark, width, "    ! ", "      "))
 		}
 		if c := t.Calibrated; c != nil && t.FalsePositives.Rate > t.FalsePositives.Alpha {
-			b.WriteString(Wrap(fmt.Sprintf("calibrated to the SAR null: p = %s (rejects %g%% of its nulls at p ≤ %s)", PValue(c.PValue), 100*c.Alpha, PValue(c.Level)), width, "    ~ ", "      "))
+			level := fmt.Sprintf("rejects %g%% of its nulls at p ≤ %s", 100*c.Alpha, PValue(c.Level))
+			if c.Level == 0 {
+				level = fmt.Sprintf("no threshold rejects as few as %g%% of its nulls", 100*c.Alpha)
+			}
+			b.WriteString(Wrap(fmt.Sprintf("calibrated to the SAR null: p = %s (%s)", PValue(c.PValue), level), width, "    ~ ", "      "))
 		}
 	}
 }
@@ -138,7 +142,7 @@ func sarCheckText(r *compare.Result) string {
 		bound = ", at the end of its range"
 	}
 	return fmt.Sprintf("The spectral surrogates' rate is measured on %s outcomes simulated from the simultaneous autoregressive model fitted to %s (ρ = %.3f ± %.3f%s, maximum likelihood, log-determinant by %s), each tested against %s surrogates of its own; surrogates of the data would be circular.",
-		numtext.Count(s.Simulations), r.Input.Outcome, s.Rho, s.RhoSE, bound, s.LogDet, numtext.Count(s.Surrogates))
+		numtext.Count(s.Simulations), r.NullPattern(), s.Rho, s.RhoSE, bound, s.LogDet, numtext.Count(s.Surrogates))
 }
 
 // percent writes a share as a percentage, with a decimal below 10%.
@@ -154,7 +158,7 @@ func percent(x float64) string {
 func compareChecks(b *strings.Builder, r *compare.Result) {
 	if f := r.FalsePositiveRate; f != nil {
 		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. %s",
-			numtext.Count(f.Surrogates), r.Input.Outcome, r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha, sarCheckText(r)), width, "  ", "  "))
+			numtext.Count(f.Surrogates), r.NullPattern(), r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha, sarCheckText(r)), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	if e := r.EffectiveSampleSize; e != nil {

@@ -21,11 +21,17 @@
 //     check of every label-shuffle row on such surrogates (fpr.go): one
 //     surrogate draw shared by the rows, each sorted once, each row with
 //     its own shuffle streams; every label-shuffle row of Result.Tests
-//     carries its rate.
+//     carries its rate. With covariates the surrogates are those of the
+//     outcome's residuals from the covariates-only model, the part of it
+//     the Freedman–Lane rows permute: the spectral row tests the adjusted
+//     statistic on them, and each label-shuffle row's check refits the
+//     covariates to each surrogate and runs that row's Freedman–Lane test
+//     (nulltest.go holds the one interface both kinds of test present to
+//     the checks).
 //   - sarcheck.go: the spectral row's own rate, which its own surrogates
 //     cannot measure (that would be circular): a simultaneous
-//     autoregressive model (spatial/sar) is fitted to the outcome on the
-//     surrogates' graph, DefaultSARChecks outcomes are simulated from it
+//     autoregressive model (spatial/sar) is fitted to the outcome (with
+//     covariates, to its residuals from them) on the surrogates' graph, DefaultSARChecks outcomes are simulated from it
 //     (independent of the grouping by construction) and each is run
 //     through the spectral surrogate test with DefaultSARCheckSurrogates
 //     surrogates of its own. The row's rate is the share rejected at
@@ -49,8 +55,7 @@
 // Everything lands in one Result (result.go), which every report renders.
 // Problems with the data are an *Error, or, where they concern one of the
 // caller's settings, a typed error whose Facts a command can word in terms
-// of its flags (errors.go); warnings about the caller's settings come as a
-// Notice the caller may word through Options.Word.
+// of its flags (errors.go).
 //
 // Counts are bounded (limits.go): MaxSurrogates, MaxFalsePositiveChecks
 // and MaxCheckShuffles here (the last two also for the SAR check), shuffle.MaxPermutations for the shuffles; Run

@@ -79,26 +79,6 @@ func (e *TwoGroupError) Facts() string {
 		e.Statistic, e.Column, len(e.Levels), strings.Join(quoteAll(e.Levels), ", "))
 }
 
-// Notice is a warning about one of the caller's settings. String states it
-// in the library's terms; a caller that names its settings otherwise words
-// it through Options.Word, and the result's Warnings carry that text.
-type Notice int
-
-const (
-	// SurrogatesWithCovariates: the spectral surrogates and the
-	// false-positive check were asked for but not run, because the test
-	// adjusts for covariates.
-	SurrogatesWithCovariates Notice = iota + 1
-)
-
-func (n Notice) String() string {
-	switch n {
-	case SurrogatesWithCovariates:
-		return "Spectral surrogates and the false-positive check are not run with covariates: the adjusted statistic would need surrogates of the residuals, which this version does not make."
-	}
-	return fmt.Sprintf("notice %d", int(n))
-}
-
 func quoteAll(s []string) []string {
 	out := make([]string, len(s))
 	for i, v := range s {

@@ -108,11 +108,22 @@ func FalsePositives(o *surrogate.Outcome, stat groups.Statistic, labels []int32,
 // *CheckShufflesError. Only the counts of rejections are kept, so memory
 // does not grow with the number of surrogates.
 func FalsePositivesOf(o *surrogate.Outcome, stat groups.Statistic, labels []int32, k int, schemes []CheckScheme, opt FPROptions) ([]FalsePositiveRate, error) {
-	n := o.Len()
-	S, B, alpha, alt, err := checkSettings(n, stat, labels, k, schemes, opt)
+	S, B, alpha, alt, err := checkSettings(o.Len(), stat, labels, k, schemes, opt)
 	if err != nil {
 		return nil, err
 	}
+	gs, err := NewGroupStatistic(stat, labels, k)
+	if err != nil {
+		return nil, err
+	}
+	return falsePositives(o, func() (nullTest, error) { return newGroupNull(gs, alt), nil }, schemes, S, B, alpha, opt)
+}
+
+// falsePositives is FalsePositivesOf for any test (nullTest), with the
+// counts and alpha already checked: S surrogates of o, each loaded into
+// every worker's own test and tested under each scheme with B shuffles.
+func falsePositives(o *surrogate.Outcome, newTest func() (nullTest, error), schemes []CheckScheme, S, B int, alpha float64, opt FPROptions) ([]FalsePositiveRate, error) {
+	n := o.Len()
 	blocks := (S + FPRBlock - 1) / FPRBlock
 	rejected := make([]atomic.Int64, len(schemes))
 	var done atomic.Int64
@@ -120,27 +131,23 @@ func FalsePositivesOf(o *surrogate.Outcome, stat groups.Statistic, labels []int3
 	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
 		draw := o.NewDraw()
 		y := make([]float64, n)
-		// One groups.Data per worker, re-sorted for each surrogate; the
-		// labels were checked above, so Prepare cannot fail here.
-		data, _ := groups.Prepare(y, labels, k)
-		sorted := make([][]int32, len(schemes))
-		for j, sc := range schemes {
-			if sc.Strata != nil {
-				sorted[j] = make([]int32, n)
-			}
-		}
+		test, terr := newTest()
 		var rng shuffle.Stream
 		return func(b int) {
+			if terr != nil {
+				failed.set(b, terr)
+				return
+			}
 			rng.Reset(opt.Seed, opt.Purpose, b)
 			lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
 			for d := lo; d < hi; d++ {
 				draw(&rng, y)
-				if err := data.Reprepare(y); err != nil {
+				if _, err := test.load(y); err != nil {
 					failed.set(b, err)
-					break
+					return
 				}
 				for j, sc := range schemes {
-					p, err := shuffleSorted(data, sc.Strata, sorted[j], stat, alt, B, opt.Seed, schemePurpose(opt.Purpose, d, j))
+					p, err := test.shuffled(sc.Strata, B, opt.Seed, schemePurpose(opt.Purpose, d, j))
 					if err != nil {
 						failed.set(b, err)
 						return

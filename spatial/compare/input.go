@@ -87,17 +87,6 @@ type Options struct {
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)
-	// Word, when set, words a notice about the caller's settings for the
-	// result's warnings (a command names its flags); otherwise the
-	// notice's String is used.
-	Word func(Notice) string
-}
-
-func (o Options) word(n Notice) string {
-	if o.Word == nil {
-		return n.String()
-	}
-	return o.Word(n)
 }
 
 // checkShuffles is FalsePositiveShuffles with its default.

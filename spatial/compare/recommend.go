@@ -103,7 +103,11 @@ func recommendMeasured(res *Result) {
 		}
 	}
 	calibrationWarning(res)
-	on := fmt.Sprintf("on %s outcomes with the outcome's spatial pattern and no link to the grouping", numtext.Count(fpr.Surrogates))
+	pattern := "the outcome's spatial pattern"
+	if res.Adjusted != nil {
+		pattern = "the spatial pattern of " + res.NullPattern()
+	}
+	on := fmt.Sprintf("on %s outcomes with %s and no link to the grouping", numtext.Count(fpr.Surrogates), pattern)
 	rejected := strings.Join(bad, " and ") + " at the " + fmt.Sprint(fpr.Alpha) + " level"
 	if len(bad) > 0 {
 		defer func() { res.Warnings = append(res.Warnings, unsoundWarning(res, on, rejected, zonesBad)) }()
@@ -126,7 +130,9 @@ func recommendMeasured(res *Result) {
 	if k := findRow(res, SpectralScheme); k >= 0 && res.Tests[k].FalsePositives == nil {
 		res.Recommended = Recommendation{Scheme: SpectralScheme, PValue: res.Tests[k].PValue,
 			Reason: lead + ", so read the spectral surrogates, which keep that pattern and break only its link to the grouping; their own false-positive rate is not measured here."}
-	} else if e := res.EffectiveSampleSize; e != nil {
+	} else if e := res.EffectiveSampleSize; e != nil && res.Adjusted == nil {
+		// The modified t-test does not adjust for covariates, so it is
+		// no answer to an adjusted question.
 		res.Recommended = Recommendation{Scheme: "modified t-test", PValue: e.PValue,
 			Reason: lead + ", so read the modified t-test, which counts the areas by their effective number and tests the difference in means; its false-positive rate is not measured here."}
 	}
@@ -157,10 +163,12 @@ func unsoundWarning(res *Result, on, rejected string, zonesBad bool) string {
 // rowName names a row in a sentence: "the free shuffle", "the shuffle
 // within province", "the spectral surrogates".
 func rowName(scheme string) string {
-	switch scheme {
-	case "free":
+	switch {
+	case scheme == "free":
 		return "the free shuffle"
-	case SpectralScheme:
+	case strings.HasPrefix(scheme, "free, "):
+		return "the free shuffle" + scheme[len("free"):]
+	case scheme == SpectralScheme:
 		return "the " + SpectralScheme
 	}
 	return "the shuffle " + scheme
@@ -183,8 +191,12 @@ func recommendFree(res *Result) {
 // simulated from the SAR model fitted to the outcome (ρ 0.83; no
 // link to the grouping)".
 func simulatedOn(res *Result) string {
-	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to the outcome (ρ %.2f; no link to the grouping)",
-		numtext.Count(res.SARCheck.Simulations), res.SARCheck.Rho)
+	fitted := "the outcome"
+	if res.Adjusted != nil {
+		fitted = res.NullPattern()
+	}
+	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to %s (ρ %.2f; no link to the grouping)",
+		numtext.Count(res.SARCheck.Simulations), fitted, res.SARCheck.Rho)
 }
 
 // calibrationWarning warns when the spectral surrogates rejected more
@@ -199,6 +211,10 @@ func calibrationWarning(res *Result) {
 	if f.Rate <= f.Alpha {
 		return
 	}
-	res.Warnings = append(res.Warnings, fmt.Sprintf("The spectral surrogates rejected %s of %s at the %g level, more than %g%%. Calibrated to that generator their p-value is %.3g (calibrated), in place of %.3g: they reject at most %g%% of those simulated nulls at p ≤ %.3g.",
-		rateText(f), simulatedOn(res), f.Alpha, 100*f.Alpha, c.PValue, res.Tests[k].PValue, 100*c.Alpha, c.Level))
+	level := fmt.Sprintf("they reject at most %g%% of those simulated nulls at p ≤ %.3g", 100*c.Alpha, c.Level)
+	if c.Level == 0 {
+		level = fmt.Sprintf("no threshold on their p-value rejects as few as %g%% of those simulated nulls (too many reach the smallest p-value their surrogates can give)", 100*c.Alpha)
+	}
+	res.Warnings = append(res.Warnings, fmt.Sprintf("The spectral surrogates rejected %s of %s at the %g level, more than %g%%. Calibrated to that generator their p-value is %.3g (calibrated), in place of %.3g: %s.",
+		rateText(f), simulatedOn(res), f.Alpha, 100*f.Alpha, c.PValue, res.Tests[k].PValue, level))
 }

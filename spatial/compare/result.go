@@ -1,6 +1,8 @@
 package compare
 
 import (
+	"strings"
+
 	"github.com/areatest/areatest/spatial/effective"
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -65,6 +67,16 @@ type TestRow struct {
 // above its level: the whole 95% interval above Alpha.
 func (t TestRow) Unsound() bool {
 	return t.FalsePositives != nil && t.FalsePositives.Interval[0] > t.FalsePositives.Alpha
+}
+
+// NullPattern names what the surrogates and the SAR model keep the spatial
+// pattern of: the outcome, or, with covariates, its residuals from them
+// ("the residuals of rate from income").
+func (r *Result) NullPattern() string {
+	if r.Adjusted != nil {
+		return "the residuals of " + r.Input.Outcome + " from " + strings.Join(r.Adjusted.Covariates, ", ")
+	}
+	return r.Input.Outcome
 }
 
 // SpectralInfo describes the eigenbasis of the spectral surrogates and how

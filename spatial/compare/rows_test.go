@@ -1,9 +1,11 @@
 package compare
 
 import (
+	"flag"
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -11,6 +13,8 @@ import (
 	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
 )
+
+var adjustedRows = flag.Bool("adjusted-rows", false, "BenchmarkRowsSize: give the outcome a covariate")
 
 // rowTally is what the replicates found for one row of the p-value table:
 // how often its p-value rejected at 5% (every rejection a false positive,
@@ -54,8 +58,11 @@ type simTally struct {
 
 // simulateRows runs compare on reps pairs of independent SAR(ρ) fields on
 // g, the outcome one field and the grouping the other split at its median,
-// so that every rejection is a false positive.
-func simulateRows(tb testing.TB, g *weights.Graph, rho float64, reps int, opt Options, seed uint64) simTally {
+// so that every rejection is a false positive. With adjusted, the outcome
+// is 0.8·z plus the field, z a third independent SAR(ρ) field given as a
+// covariate, so that the rows test the Freedman–Lane adjusted statistic;
+// the group effect is still nil.
+func simulateRows(tb testing.TB, g *weights.Graph, rho float64, reps int, opt Options, seed uint64, adjusted bool) simTally {
 	n := g.Len()
 	w := g.RowStandardised()
 	sar := testkit.NewSAR(testkit.Dense(w.Offsets, w.Neighbours, w.Weights), rho)
@@ -80,6 +87,13 @@ func simulateRows(tb testing.TB, g *weights.Graph, rho float64, reps int, opt Op
 		}
 		in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n),
 			GroupName: "g", Group: group, GroupMissing: make([]bool, n), Graph: g}
+		if adjusted {
+			z := field()
+			for i := range y {
+				y[i] += 0.8 * z[i]
+			}
+			in.Covariates = []Covariate{{Name: "z", Values: z, Missing: make([]bool, n)}}
+		}
 		o := opt
 		o.Seed = seed + uint64(r)
 		res, err := Run(in, o)
@@ -185,6 +199,31 @@ func (st simTally) check(t *testing.T, rho float64) {
 	}
 }
 
+// With covariates: the same check of every row's reported rate, each row
+// now the Freedman–Lane test adjusted for a spatially structured covariate
+// and the spectral row the surrogates of the residuals, at ρ 0.5 and 0.95.
+func TestAdjustedRowsReportTheirFalsePositives(t *testing.T) {
+	if testing.Short() {
+		t.Skip("a size simulation")
+	}
+	g := weights.Lattice(18, 18, weights.Rook)
+	opt := Options{Permutations: 99, Alpha: 0.05, Zones: true, Surrogates: 99, FalsePositives: 60, FalsePositiveShuffles: 39,
+		SARChecks: 40, SARCheckSurrogates: 39}
+	for _, rho := range []float64{0.5, 0.95} {
+		st := simulateRows(t, g, rho, 25, opt, 9, true)
+		t.Logf("\n%s", st.table(rho))
+		st.check(t, rho)
+		for _, row := range st.Rows[:len(st.Rows)-1] {
+			if !strings.Contains(row.Scheme, "adjusted for z") && row.Scheme != SpectralScheme {
+				t.Errorf("row %q does not test the adjusted statistic", row.Scheme)
+			}
+			if row.Measured != st.Reps {
+				t.Errorf("row %q measured in %d of %d replicates", row.Scheme, row.Measured, st.Reps)
+			}
+		}
+	}
+}
+
 // Each row's reported false-positive rate against its actual rejection
 // rate: on an 18×18 rook lattice (324 areas, so automatic zones are added)
 // with independent SAR(ρ) outcome and grouping, every rejection of a row's
@@ -202,7 +241,7 @@ func TestRowsReportTheirFalsePositives(t *testing.T) {
 	opt := Options{Permutations: 99, Alpha: 0.05, Zones: true, Surrogates: 99, FalsePositives: 60, FalsePositiveShuffles: 39,
 		SARChecks: 40, SARCheckSurrogates: 39}
 	for _, rho := range []float64{0, 0.5, 0.8, 0.95} {
-		st := simulateRows(t, g, rho, 25, opt, 7)
+		st := simulateRows(t, g, rho, 25, opt, 7, false)
 		t.Logf("\n%s", st.table(rho))
 		st.check(t, rho)
 	}
@@ -213,13 +252,48 @@ func TestRowsReportTheirFalsePositives(t *testing.T) {
 // and surrogates, 200 surrogates × 199 shuffles for the check. Run with
 //
 //	go test ./spatial/compare -run '^$' -bench RowsSize -benchtime 1x -v
+//
+// With -adjusted-rows the outcome carries a covariate and every row tests
+// the adjusted statistic (simulateRows).
 func BenchmarkRowsSize(b *testing.B) {
 	g := weights.Lattice(20, 20, weights.Rook)
 	opt := Options{Permutations: 199, Alpha: 0.05, Zones: true, Surrogates: 199, FalsePositives: 200, FalsePositiveShuffles: 199}
 	for range b.N {
 		for _, rho := range []float64{0, 0.5, 0.8, 0.95} {
-			st := simulateRows(b, g, rho, 100, opt, 11)
+			st := simulateRows(b, g, rho, 100, opt, 11, *adjustedRows)
 			b.Logf("\n%s", st.table(rho))
 		}
+	}
+}
+
+// With covariates the whole comparison — Freedman–Lane rows, surrogates of
+// the residuals, both checks — is the same for one worker and for three.
+func TestAdjustedRunIdenticalAcrossWorkers(t *testing.T) {
+	g := weights.Lattice(12, 12, weights.Rook)
+	n := g.Len()
+	rng := rand.New(rand.NewPCG(3, 4))
+	w := g.RowStandardised()
+	y, z := autoregressive(t, w, 0.7, rng), autoregressive(t, w, 0.7, rng)
+	lab := aboveMedian(autoregressive(t, w, 0.7, rng))
+	ids, group := make([]string, n), make([]string, n)
+	for i := range ids {
+		ids[i], group[i] = fmt.Sprint(i), []string{"A", "B"}[lab[i]]
+	}
+	in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n), GroupName: "g", Group: group,
+		GroupMissing: make([]bool, n), Graph: g, Covariates: []Covariate{{Name: "z", Values: z, Missing: make([]bool, n)}}}
+	run := func(workers int) *Result {
+		res, err := Run(in, Options{Permutations: 99, Alpha: 0.05, Surrogates: 99, FalsePositives: 30, FalsePositiveShuffles: 39,
+			SARChecks: 12, SARCheckSurrogates: 39, Seed: 8, Workers: workers})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res
+	}
+	one, three := run(1), run(3)
+	if !reflect.DeepEqual(one, three) {
+		t.Fatalf("one worker and three differ:\n%+v\n%+v", one.Tests, three.Tests)
+	}
+	if one.SARCheck == nil || one.SARCheck.Skipped != "" || one.Tests[0].FalsePositives == nil || findRow(one, SpectralScheme) < 0 {
+		t.Fatalf("checks missing: %+v", one)
 	}
 }

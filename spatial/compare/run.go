@@ -75,15 +75,15 @@ func Run(in Input, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	if opt.FalsePositives > 0 && len(in.Covariates) == 0 {
-		// Before any work: a check that cannot reject is a setting to fix.
-		if err := checkShuffles(opt.checkShuffles(), opt.Alpha, c.alt); err != nil {
-			return nil, err
-		}
-	}
 	t := &tester{opt: opt, data: c.data, stat: c.stat, alt: c.alt}
 	if len(in.Covariates) > 0 {
 		if err := t.adjustFor(c, res); err != nil {
+			return nil, err
+		}
+	}
+	if opt.FalsePositives > 0 {
+		// Before any work: a check that cannot reject is a setting to fix.
+		if err := checkShuffles(opt.checkShuffles(), opt.Alpha, t.testAlt()); err != nil {
 			return nil, err
 		}
 	}
@@ -91,9 +91,7 @@ func Run(in Input, opt Options) (*Result, error) {
 		return nil, err
 	}
 	if opt.Surrogates > 0 || opt.FalsePositives > 0 {
-		if t.fl != nil {
-			res.Warnings = append(res.Warnings, opt.word(SurrogatesWithCovariates))
-		} else if err := c.spectral(res); err != nil {
+		if err := c.spectral(t, res); err != nil {
 			return nil, err
 		}
 	}

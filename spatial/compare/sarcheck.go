@@ -93,13 +93,24 @@ type SAROptions struct {
 // (groups.Data.Observed) and the surrogates' tie scale the range of the
 // simulated outcome, as for the observed outcome.
 func SARNullPValues(m *sar.Model, basis *surrogate.Basis, stat groups.Statistic, labels []int32, k int, opt SAROptions) ([]float64, error) {
-	n := basis.Len()
-	if m.Weights().Len() != n || len(labels) != n {
-		return nil, fmt.Errorf("compare: a model of %d areas, a basis of %d and %d labels", m.Weights().Len(), n, len(labels))
+	if len(labels) != basis.Len() {
+		return nil, fmt.Errorf("compare: a basis of %d areas and %d labels", basis.Len(), len(labels))
 	}
 	gs, err := NewGroupStatistic(stat, labels, k)
 	if err != nil {
 		return nil, err
+	}
+	return sarNullPValues(m, basis, func() (nullTest, error) { return newGroupNull(gs, opt.Alternative), nil }, opt)
+}
+
+// sarNullPValues is SARNullPValues for any test (nullTest): each simulated
+// outcome is loaded into the worker's own test, and the surrogates are
+// drawn of the vector the test names (the outcome, or its residuals from
+// the covariates).
+func sarNullPValues(m *sar.Model, basis *surrogate.Basis, newTest func() (nullTest, error), opt SAROptions) ([]float64, error) {
+	n := basis.Len()
+	if m.Weights().Len() != n {
+		return nil, fmt.Errorf("compare: a model of %d areas and a basis of %d", m.Weights().Len(), n)
 	}
 	S, B := cmp.Or(opt.Simulations, DefaultSARChecks), cmp.Or(opt.Surrogates, DefaultSARCheckSurrogates)
 	if S < 1 || B < 1 {
@@ -109,9 +120,14 @@ func SARNullPValues(m *sar.Model, basis *surrogate.Basis, stat groups.Statistic,
 	var done atomic.Int64
 	var failed firstError
 	parallel.ForBlocks((S+SARBlock-1)/SARBlock, opt.Workers, func() func(int) {
-		w := newSARWorker(m, basis, gs, stat, labels, k)
+		test, terr := newTest()
+		w := newSARWorker(m, basis, test)
 		var rng shuffle.Stream
 		return func(b int) {
+			if terr != nil {
+				failed.set(b, terr)
+				return
+			}
 			rng.Reset(opt.Seed, opt.Purpose, b)
 			lo, hi := b*SARBlock, min((b+1)*SARBlock, S)
 			for d := lo; d < hi; d++ {
@@ -138,21 +154,20 @@ func SARNullPValues(m *sar.Model, basis *surrogate.Basis, stat groups.Statistic,
 type sarWorker struct {
 	m     *sar.Model
 	basis *surrogate.Basis
-	stat  groups.Statistic
+	t     nullTest
 	sim   *sar.Scratch
 	sur   *surrogate.Scratch
 	y     []float64
-	data  *groups.Data
 	eval  shuffle.OutcomeEvaluator
 	o     *surrogate.Outcome
 	draw  shuffle.OutcomeDraw
 }
 
-func newSARWorker(m *sar.Model, basis *surrogate.Basis, gs *GroupStatistic, stat groups.Statistic, labels []int32, k int) *sarWorker {
-	w := &sarWorker{m: m, basis: basis, stat: stat, sim: m.NewScratch(), sur: basis.NewScratch(),
-		y: make([]float64, basis.Len()), eval: gs.Factory()()}
-	// The labels were checked by NewGroupStatistic, so Prepare cannot fail.
-	w.data, _ = groups.Prepare(w.y, labels, k)
+func newSARWorker(m *sar.Model, basis *surrogate.Basis, t nullTest) *sarWorker {
+	w := &sarWorker{m: m, basis: basis, t: t, sim: m.NewScratch(), sur: basis.NewScratch(), y: make([]float64, basis.Len())}
+	if t != nil {
+		w.eval = t.onSurrogates()
+	}
 	w.draw = func(rng *shuffle.Stream, out []float64) { w.o.Draw(rng, out, w.sur) }
 	return w
 }
@@ -163,15 +178,13 @@ func (w *sarWorker) test(rng *shuffle.Stream, p shuffle.SurrogatePlan) (float64,
 	if err := w.m.Simulate(rng, w.y, w.sim); err != nil {
 		return 0, fmt.Errorf("compare: SAR check: %w", err)
 	}
-	if err := w.data.Reprepare(w.y); err != nil {
+	target, err := w.t.load(w.y)
+	if err != nil {
 		return 0, fmt.Errorf("compare: SAR check: %w", err)
 	}
-	observed := w.data.Observed(w.stat)
-	p.Scale = 1
-	if w.stat.InOutcomeUnits() {
-		p.Scale = w.data.Y[len(w.data.Y)-1] - w.data.Y[0]
-	}
-	o, err := w.basis.Prepare(w.y)
+	observed := w.t.observed()
+	p.Scale = w.t.scale()
+	o, err := w.basis.Prepare(target)
 	if err != nil {
 		return 0, fmt.Errorf("compare: SAR check: %w", err)
 	}
@@ -232,12 +245,13 @@ func Calibrate(observed float64, p []float64, alpha float64) Calibration {
 	return c
 }
 
-// sarCheck fits the SAR model to the outcome on g (the restricted graph of
+// sarCheck fits the SAR model to target (the outcome, or with covariates
+// its residuals from them) on g (the restricted graph of
 // the surrogates' basis), measures the spectral row's false-positive rate
 // on outcomes simulated from it, and calibrates the row's p-value. Weights
 // the model cannot take (asymmetric ones), an outcome it cannot fit and
 // simulations that fail skip the check with a warning, not an error.
-func (c *comparison) sarCheck(g *weights.Graph, basis *surrogate.Basis, res *Result) error {
+func (c *comparison) sarCheck(t *tester, g *weights.Graph, basis *surrogate.Basis, target []float64, res *Result) error {
 	row := findRow(res, SpectralScheme)
 	if row < 0 {
 		return nil
@@ -252,18 +266,18 @@ func (c *comparison) sarCheck(g *weights.Graph, basis *surrogate.Basis, res *Res
 	if err != nil {
 		return skip(err)
 	}
-	m, err := w.Fit(c.y)
+	m, err := w.Fit(target)
 	if err != nil {
 		return skip(err)
 	}
 	alpha := cmp.Or(opt.Alpha, 0.05)
 	B := cmp.Or(opt.SARCheckSurrogates, DefaultSARCheckSurrogates)
 	var cs *CheckShufflesError
-	if err := checkShuffles(B, alpha, c.alt); errors.As(err, &cs) {
+	if err := checkShuffles(B, alpha, t.testAlt()); errors.As(err, &cs) {
 		B = cs.Need
 	}
-	p, err := SARNullPValues(m, basis, c.stat, c.lab, c.k(), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
-		Alternative: c.alt, Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
+	p, err := sarNullPValues(m, basis, t.null(c), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
+		Alternative: t.testAlt(), Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
 	if err != nil {
 		// A simulation that does not converge (ρ at the edge of its
 		// range) says the model does not suit these data: skip, as above.

@@ -122,6 +122,41 @@ func (t *tester) run(scheme string, strata []int32, purpose uint64, stage string
 	return shuffle.Run(plan, t.data.Factory(t.stat))
 }
 
+// testAlt is the alternative of the test the rows report: the group
+// statistic's, or, with covariates, that of the adjusted t or F.
+func (t *tester) testAlt() shuffle.Alternative {
+	if t.fl != nil {
+		return t.flAlt
+	}
+	return t.alt
+}
+
+// null returns the factory of one goroutine's copy of the test the rows
+// report, for the false-positive and SAR checks.
+func (t *tester) null(c *comparison) func() (nullTest, error) {
+	if t.fl != nil {
+		two := c.k() == 2
+		return func() (nullTest, error) { return newAdjustedNull(t.fl, two, t.flAlt) }
+	}
+	gs, err := NewGroupStatistic(c.stat, c.lab, c.k())
+	return func() (nullTest, error) {
+		if err != nil {
+			return nil, err
+		}
+		return newGroupNull(gs, c.alt), nil
+	}
+}
+
+// target is the vector whose spectral surrogates stand for the null: the
+// outcome, or, with covariates, its residuals from the covariates-only
+// model (the part of it the test permutes).
+func (t *tester) target(c *comparison) []float64 {
+	if t.fl != nil {
+		return t.fl.Residuals()
+	}
+	return c.y
+}
+
 // adjustFor switches the tester to the Freedman–Lane test of the group
 // effect adjusted for the covariates: the t of the group coefficient for
 // two groups, the partial F for more.

@@ -1,6 +1,7 @@
 package compare
 
 import (
+	"cmp"
 	"fmt"
 	"slices"
 
@@ -13,11 +14,12 @@ import (
 const SpectralScheme = "spectral surrogates"
 
 // spectral adds the spatially constrained scheme (Moran spectral
-// randomisation of the outcome, Wagner & Dray 2015) and measures the free
-// shuffle's false-positive rate on surrogates with the outcome's spatial
-// structure and no link to the grouping, and that of every other
-// label-shuffle row on the same surrogates.
-func (c *comparison) spectral(res *Result) error {
+// randomisation of the outcome, Wagner & Dray 2015; with covariates, of
+// its residuals from the covariates-only model) and measures every
+// label-shuffle row's false-positive rate on surrogates with that spatial
+// structure and no link to the grouping, then the spectral row's own on
+// outcomes simulated from a SAR model (sarCheck).
+func (c *comparison) spectral(t *tester, res *Result) error {
 	in, opt := c.in, c.opt
 	// Every tested area enters; the basis sets islands apart (their values
 	// are permuted among themselves) unless they are kept.
@@ -33,21 +35,21 @@ func (c *comparison) spectral(res *Result) error {
 		return nil
 	}
 	info := basis.Info()
-	o, err := basis.Prepare(c.y)
+	target := t.target(c)
+	o, err := basis.Prepare(target)
 	if err != nil {
 		return err
 	}
 	res.Spectral = &SpectralInfo{Info: info, ResidualShare: o.ResidualShare(), MoranTolerance: o.MoranTolerance()}
 	if opt.Surrogates > 0 {
-		if err := c.surrogateTest(o, res); err != nil {
+		if err := c.surrogateTest(t, o, res); err != nil {
 			return err
 		}
 	}
 	if opt.FalsePositives > 0 {
-		rates, err := FalsePositivesOf(o, c.stat, c.lab, c.k(), c.checks, FPROptions{
-			Surrogates: opt.FalsePositives, Permutations: opt.FalsePositiveShuffles, Alpha: opt.Alpha,
-			Alternative: c.alt, Seed: opt.Seed, Purpose: streamFalsePositives, Workers: opt.Workers,
-			Progress: opt.progress("false-positive check")})
+		alpha := cmp.Or(opt.Alpha, 0.05)
+		rates, err := falsePositives(o, t.null(c), c.checks, opt.FalsePositives, opt.checkShuffles(), alpha, FPROptions{
+			Seed: opt.Seed, Purpose: streamFalsePositives, Workers: opt.Workers, Progress: opt.progress("false-positive check")})
 		if err != nil {
 			return err
 		}
@@ -56,26 +58,33 @@ func (c *comparison) spectral(res *Result) error {
 		}
 		res.FalsePositiveRate = &rates[0]
 		if opt.Surrogates > 0 {
-			return c.sarCheck(r.Graph, basis, res)
+			return c.sarCheck(t, r.Graph, basis, target, res)
 		}
 	}
 	return nil
 }
 
-// surrogateTest adds the spectral surrogate test of the group statistic.
-func (c *comparison) surrogateTest(o *surrogate.Outcome, res *Result) error {
-	scale := 1.0
-	if c.stat.InOutcomeUnits() {
-		scale = slices.Max(c.y) - slices.Min(c.y)
-	}
-	gs, err := NewGroupStatistic(c.stat, c.lab, c.k())
-	if err != nil {
-		return err
-	}
+// surrogateTest adds the spectral surrogate test of the reported
+// statistic: the group statistic of the outcome's surrogates, or, with
+// covariates, the adjusted statistic of its residuals' surrogates.
+func (c *comparison) surrogateTest(t *tester, o *surrogate.Outcome, res *Result) error {
 	opt := c.opt
-	sp, err := GroupTest(o, gs, res.Statistic.Observed, shuffle.SurrogatePlan{
-		Scheme: SpectralScheme, Draws: opt.Surrogates, Seed: opt.Seed, Purpose: streamSurrogates,
-		Workers: opt.Workers, Alternative: c.alt, Scale: scale, Progress: opt.progress("spectral surrogates")})
+	plan := shuffle.SurrogatePlan{Scheme: SpectralScheme, Draws: opt.Surrogates, Seed: opt.Seed, Purpose: streamSurrogates,
+		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, Progress: opt.progress("spectral surrogates")}
+	var sp shuffle.Result
+	var err error
+	if t.fl != nil {
+		sp, err = shuffle.RunSurrogates(plan, res.Adjusted.Observed, o.NewDraw, t.fl.OnOutcomes(c.k() == 2), o.Len())
+	} else {
+		if c.stat.InOutcomeUnits() {
+			plan.Scale = slices.Max(c.y) - slices.Min(c.y)
+		}
+		var gs *GroupStatistic
+		if gs, err = NewGroupStatistic(c.stat, c.lab, c.k()); err != nil {
+			return err
+		}
+		sp, err = GroupTest(o, gs, res.Statistic.Observed, plan)
+	}
 	if err != nil {
 		return err
 	}

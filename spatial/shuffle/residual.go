@@ -381,3 +381,101 @@ func (f *FreedmanLane) ClassicalT(alt Alternative) (t, p float64, err error) {
 	}
 	return t, p, nil
 }
+
+// Residuals returns ê = M_Z y, the residuals of the covariates-only model
+// that the test permutes (a copy).
+func (f *FreedmanLane) Residuals() []float64 { return append([]float64(nil), f.resid...) }
+
+// ResidualsView returns ê itself, valid until the next Refit, for loops
+// that must not allocate.
+func (f *FreedmanLane) ResidualsView() []float64 { return f.resid }
+
+// Clone returns a test of the same design (covariates and grouping) that
+// shares its basis and can be Refit to other outcomes without disturbing
+// f: one per goroutine.
+func (f *FreedmanLane) Clone() *FreedmanLane {
+	g := *f
+	g.resid = append([]float64(nil), f.resid...)
+	g.fitted = append([]float64(nil), f.fitted...)
+	return &g
+}
+
+// Refit makes y (length n) the outcome under test, with the design kept:
+// the residuals and fitted values of the covariates-only model are
+// recomputed from the stored basis (the first p columns of Q span the
+// intercept and the covariates), twice as in the first fit. It allocates
+// nothing, so that a check can test many outcomes on one design.
+func (f *FreedmanLane) Refit(y []float64) {
+	n, w := f.n, f.p-1+f.q
+	copy(f.resid, y)
+	for range 2 {
+		var mean float64
+		for _, v := range f.resid {
+			mean += v
+		}
+		mean /= float64(n)
+		for i := range f.resid {
+			f.resid[i] -= mean
+		}
+		for j := 0; j < f.p-1; j++ {
+			var c float64
+			for i := 0; i < n; i++ {
+				c += f.basis[i*w+j] * f.resid[i]
+			}
+			for i := 0; i < n; i++ {
+				f.resid[i] -= c * f.basis[i*w+j]
+			}
+		}
+	}
+	f.ss = 0
+	for i, v := range y {
+		f.fitted[i] = v - f.resid[i]
+		f.ss += f.resid[i] * f.resid[i]
+	}
+}
+
+// OnOutcomes returns evaluators of the test's statistic — the t of the
+// group coefficient when t is set (two groups), else the partial F — for
+// the grouping and covariates of f and any outcome v given whole, for the
+// spectral surrogates of the residuals: the statistic of v is that of the
+// full model fitted to v, which depends on v only through M_Z v, so a
+// surrogate of ê is tested as the outcome fitted values + surrogate
+// would be. An evaluation allocates nothing.
+func (f *FreedmanLane) OnOutcomes(t bool) func() OutcomeEvaluator {
+	return func() OutcomeEvaluator {
+		w := f.p - 1 + f.q
+		c := make([]float64, w)
+		return func(v []float64) float64 {
+			var mean float64
+			for _, x := range v {
+				mean += x
+			}
+			mean /= float64(len(v))
+			var ss float64
+			for j := range c {
+				c[j] = 0
+			}
+			for i, x := range v {
+				d := x - mean
+				ss += d * d
+				row := f.basis[i*w : i*w+w]
+				for j, b := range row {
+					c[j] += b * d
+				}
+			}
+			reduced := ss
+			for _, cj := range c[:f.p-1] {
+				reduced -= cj * cj
+			}
+			var between float64
+			for _, cj := range c[f.p-1:] {
+				between += cj * cj
+			}
+			rss := reduced - between
+			if t {
+				return f.sign * c[w-1] / math.Sqrt(rss/float64(f.df))
+			}
+			return (between / float64(f.q)) / (rss / float64(f.df))
+		}
+	}
+}

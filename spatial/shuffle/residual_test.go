@@ -416,3 +416,50 @@ func TestFreedmanLaneErrors(t *testing.T) {
 		t.Error("t of a coefficient for three groups: no error")
 	}
 }
+
+// Refit of a clone to another outcome gives the test that NewFreedmanLane
+// of that outcome gives, and OnOutcomes' statistic of an outcome equals
+// the partial F (or t) of both models fitted to it with gonum's QR — the
+// route the spectral surrogates of the residuals take.
+func TestFreedmanLaneRefitAndOnOutcomes(t *testing.T) {
+	for _, k := range []int{2, 3} {
+		y, cov, lab := flData(40, k, 0.3, uint64(10+k))
+		fl, err := shuffle.NewFreedmanLane(y, cov, lab, k)
+		if err != nil {
+			t.Fatal(err)
+		}
+		other, _, _ := flData(40, k, 1.0, uint64(20+k))
+		fresh, err := shuffle.NewFreedmanLane(other, cov, lab, k)
+		if err != nil {
+			t.Fatal(err)
+		}
+		clone := fl.Clone()
+		clone.Refit(other)
+		want, _ := fresh.PartialF()
+		got, _ := clone.PartialF()
+		if math.Abs(got-want) > 1e-9*want {
+			t.Errorf("k=%d: refitted F %v, fresh %v", k, got, want)
+		}
+		if orig, _ := fl.PartialF(); math.Abs(orig-want) < 1e-6 {
+			t.Errorf("k=%d: the original test changed with its clone", k)
+		}
+		full, reduced := design(cov, lab, k)
+		rssR, rssF := lstsqRSS(t, reduced, other), lstsqRSS(t, full, other)
+		df := len(other) - 1 - len(cov) - (k - 1)
+		brute := ((rssR - rssF) / float64(k-1)) / (rssF / float64(df))
+		if v := fl.OnOutcomes(false)()(other); math.Abs(v-brute) > 1e-9*brute {
+			t.Errorf("k=%d: OnOutcomes F %v, refit by QR %v", k, v, brute)
+		}
+		if k == 2 {
+			tv := fl.OnOutcomes(true)()(other)
+			tf, _ := fresh.TFactory()
+			if w := tf()(fresh.Labels()); math.Abs(tv-w) > 1e-9*math.Abs(w) {
+				t.Errorf("OnOutcomes t %v, fresh test's t %v", tv, w)
+			}
+		}
+		res := fl.Residuals()
+		if v, w := fl.OnOutcomes(false)()(res), fl.OnOutcomes(false)()(y); math.Abs(v-w) > 1e-9*w {
+			t.Errorf("k=%d: the statistic of the residuals %v differs from the outcome's %v", k, v, w)
+		}
+	}
+}
