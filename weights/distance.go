@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -231,11 +232,24 @@ type NoNeighboursError struct {
 	Metric    Metric
 	Closest   float64
 	Widest    float64
+	// Unit names the unit of planar distances when the caller knows it
+	// ("m"); "" says "layer units".
+	Unit string
 }
 
 func (e *NoNeighboursError) Error() string {
+	length := func(v float64) string {
+		if e.Metric == Planar && e.Unit != "" {
+			return formatNumber(v) + " " + e.Unit
+		}
+		return formatLength(v, e.Metric)
+	}
+	kind := e.Kind
+	if e.Metric == Planar && e.Unit != "" {
+		kind = strings.ReplaceAll(kind, " (layer units)", " "+e.Unit)
+	}
 	return fmt.Sprintf("weights: %s gives no area a neighbour: the closest two areas are %s apart, and every area has a neighbour within %s",
-		e.Kind, formatLength(roundSignificant(e.Closest, false), e.Metric), formatLength(roundSignificant(e.Widest, true), e.Metric))
+		kind, length(roundSignificant(e.Closest, false)), length(roundSignificant(e.Widest, true)))
 }
 
 // noNeighbours builds the error for a threshold that linked nothing.

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -36,6 +37,12 @@ type Spec struct {
 	// layer.
 	Points PointMode
 	Planar bool
+	// Projected says the layer's coordinate system is projected: distances
+	// are planar, in Unit, the short name of the coordinates' unit ("m",
+	// "US ft"; "" names them "layer units"), even where every coordinate
+	// happens to fall in the range of longitude and latitude.
+	Projected bool
+	Unit      string
 	// Order > 1 replaces the graph by its neighbours of that order (all
 	// orders up to it when Cumulative).
 	Order      int
@@ -81,8 +88,13 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []GeometryP
 			g, err = DistanceBand(pts, s.Band, metric)
 		}
 		if err != nil {
+			var none *NoNeighboursError
+			if u := s.planarUnit(); errors.As(err, &none) && metric == Planar && u != "layer units" {
+				none.Unit = u
+			}
 			return nil, nil, err
 		}
+		g.Kind = s.named(g.Kind)
 	}
 	if g, err = s.orders(g); err != nil {
 		return nil, problems, err
@@ -118,10 +130,28 @@ func (s Spec) Locate(geoms []orb.MultiPolygon) ([]orb.Point, Metric, error) {
 		return nil, 0, err
 	}
 	metric := DetectMetric(geoms)
-	if s.Planar {
+	if s.Planar || s.Projected {
 		metric = Planar
 	}
 	return pts, metric, nil
+}
+
+// planarUnit names the unit of planar distances: the layer's, or "layer
+// units" when it is unknown or the plane is forced on a lon/lat layer.
+func (s Spec) planarUnit() string {
+	if s.Projected && s.Unit != "" {
+		return s.Unit
+	}
+	return "layer units"
+}
+
+// named puts the layer's unit in place of "(layer units)" in a graph's
+// description, when the unit is known.
+func (s Spec) named(kind string) string {
+	if u := s.planarUnit(); u != "layer units" {
+		return strings.ReplaceAll(kind, " (layer units)", " "+u)
+	}
+	return kind
 }
 
 // DistanceClasses cuts the distances between the areas' representative
@@ -133,16 +163,20 @@ func (s Spec) DistanceClasses(geoms []orb.MultiPolygon, width float64, k int) ([
 	if err != nil {
 		return nil, err
 	}
-	return DistanceClasses(pts, width, k, metric)
+	gs, err := DistanceClasses(pts, width, k, metric)
+	for _, g := range gs {
+		g.Kind = s.named(g.Kind)
+	}
+	return gs, err
 }
 
 // Units names the distance units of the spec's rule for a layer: kilometres
-// on a lon/lat layer, the layer's own units otherwise.
+// on a lon/lat layer, the layer's unit (Unit, or "layer units") otherwise.
 func (s Spec) Units(geoms []orb.MultiPolygon) string {
-	if !s.Planar && DetectMetric(geoms) == Geographic {
+	if !s.Planar && !s.Projected && DetectMetric(geoms) == Geographic {
 		return "km"
 	}
-	return "layer units"
+	return s.planarUnit()
 }
 
 // Describe says in words how the spec's rule measures contact or distance
@@ -151,8 +185,8 @@ func (s Spec) Units(geoms []orb.MultiPolygon) string {
 func (s Spec) Describe(geoms []orb.MultiPolygon) string {
 	if s.PointBased() {
 		metric := "great-circle distances in km"
-		if s.Units(geoms) != "km" {
-			metric = "planar distances in layer units"
+		if u := s.Units(geoms); u != "km" {
+			metric = "planar distances in " + u
 		}
 		return metric + " between " + s.Points.String() + " points of the areas"
 	}
@@ -160,8 +194,8 @@ func (s Spec) Describe(geoms []orb.MultiPolygon) string {
 	if snap == 0 {
 		snap, note = DefaultSnap(geoms), ", the default for these coordinates"
 	}
-	units := "layer units"
-	if DetectMetric(geoms) == Geographic {
+	units := s.planarUnit()
+	if !s.Projected && DetectMetric(geoms) == Geographic {
 		units = "degrees"
 	}
 	return fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, units, note)

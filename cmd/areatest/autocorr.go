@@ -18,13 +18,14 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	var against, events, population string
 	var lags int
 	var lagWidth float64
+	var lagWidthUnits *distanceFlag
 	fs := newFlags("autocorr", stderr)
 	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
 	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
 	fs.StringVar(&events, "events", "", "column of event counts: test the rate events/population")
 	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
 	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
-	fs.Float64Var(&lagWidth, "lag-width", 0, "with --lags: distance classes of this width (km on lon/lat layers) instead of neighbour orders")
+	lagWidthUnits = distanceVar(fs, &lagWidth, "lag-width", "with --lags: distance classes of this width instead of neighbour orders"+distanceHelp)
 	c.register(fs, "text", "json")
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -44,6 +45,9 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	}
 	in, opt := c.clustering()
 	if err := autocorrColumns(&in, c.lay, variables, against, events, population); err != nil {
+		return err
+	}
+	if err := lagWidthUnits.resolve(c.lay.CRS, &lagWidth); err != nil {
 		return err
 	}
 	var err error

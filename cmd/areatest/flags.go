@@ -167,7 +167,10 @@ func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
 	var warnings []string
 	c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
 	warn(stderr, warnings...)
-	return err
+	if err != nil {
+		return err
+	}
+	return c.weights.resolve(&c.spec, c.lay.CRS)
 }
 
 // build makes (or reads) the neighbour graph of the layer.

@@ -26,17 +26,20 @@ type weightFlags struct {
 	problems []weights.GeometryProblem
 	// listAdvice says where the full list of problems is, after the summary.
 	listAdvice string
+	// The distance flags, converted to the layer's units by resolve.
+	snap, band, bandwidth *distanceFlag
 }
 
 func (w *weightFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&w.contiguity, "contiguity", "queen", "neighbours share a corner (queen) or an edge (rook)")
-	fs.Float64Var(&w.s.Snap, "snap", 0, "boundary points closer than this (layer units) count as shared (default: a tiny value suited to the coordinates)")
+	w.snap = distanceVar(fs, &w.s.Snap, "snap", "boundary points closer than this count as shared (default: a tiny value suited to the coordinates); a bare number is in the coordinates' units (degrees on lon/lat layers)")
+	w.snap.degrees = true
 	fs.IntVar(&w.s.KNN, "knn", 0, "instead of contiguity: each area's K nearest areas")
 	fs.BoolVar(&w.s.Symmetrise, "symmetrise", false, "with --knn: link two areas when either is among the other's nearest")
-	fs.Float64Var(&w.s.Band, "band", 0, "instead of contiguity: areas within this distance (km on lon/lat layers); with --idw, its cut-off")
+	w.band = distanceVar(fs, &w.s.Band, "band", "instead of contiguity: areas within this distance; with --idw, its cut-off"+distanceHelp)
 	fs.Float64Var(&w.s.IDWPower, "idw", 0, "inverse-distance weights 1/d^POWER (optionally within --band)")
 	fs.StringVar(&w.s.Kernel, "kernel", "", "kernel weights: triangular, bisquare or gaussian, with --bandwidth or --adaptive")
-	fs.Float64Var(&w.s.Bandwidth, "bandwidth", 0, "fixed kernel bandwidth (km on lon/lat layers)")
+	w.bandwidth = distanceVar(fs, &w.s.Bandwidth, "bandwidth", "fixed kernel bandwidth"+distanceHelp)
 	fs.IntVar(&w.s.AdaptiveK, "adaptive", 0, "adaptive kernel bandwidth: the distance to each area's K-th nearest area")
 	fs.StringVar(&w.points, "points", "centroid", "point of each area for distances: centroid, or inside (a point surely inside the polygon)")
 	fs.BoolVar(&w.s.Planar, "planar", false, "measure distances in the plane of the coordinates even on a lon/lat layer")
@@ -139,6 +142,25 @@ func (w *weightFlags) check(s weights.Spec) error {
 	}
 	if _, err := weights.ParseKernelKind(s.Kernel); s.Kernel != "" && err != nil {
 		return usagef("--kernel: %v", err)
+	}
+	return nil
+}
+
+// resolve fits the spec to the layer's coordinate system: projected
+// layers measure distances in the plane, in their unit, and distances
+// given with a unit are converted to the layer's.
+func (w *weightFlags) resolve(s *weights.Spec, crs layer.CRS) error {
+	s.Projected = crs.Projected
+	if crs.Projected && crs.MetresPerUnit > 0 {
+		s.Unit = crs.DistanceUnit()
+	}
+	for _, d := range []struct {
+		f    *distanceFlag
+		into *float64
+	}{{w.snap, &s.Snap}, {w.band, &s.Band}, {w.bandwidth, &s.Bandwidth}} {
+		if err := d.f.resolve(crs, d.into); err != nil {
+			return err
+		}
 	}
 	return nil
 }

@@ -96,3 +96,39 @@ func TestCheckPolygons(t *testing.T) {
 		t.Errorf("OutsideLonLat: %v %v", p, ok)
 	}
 }
+
+func TestDistances(t *testing.T) {
+	usFoot := CRS{Projected: true, Unit: "US survey foot", MetresPerUnit: 1200.0 / 3937}
+	for _, tc := range []struct {
+		in   string
+		crs  CRS
+		want float64
+	}{
+		{"25km", CRS{}, 25},
+		{"25", CRS{}, 25},
+		{"4000 m", CRS{}, 4},
+		{"15mi", CRS{}, 15 * 1.609344},
+		{"25KM", CRS{Projected: true, MetresPerUnit: 1}, 25000},
+		{"25", CRS{Projected: true, MetresPerUnit: 1}, 25},
+		{"1mi", usFoot, 1609.344 / (1200.0 / 3937)}, // 5279.99 US survey feet
+		{"7", CRS{Projected: true}, 7},
+	} {
+		v, unit, err := ParseDistance(tc.in)
+		if err != nil {
+			t.Errorf("%q: %v", tc.in, err)
+			continue
+		}
+		got, err := tc.crs.InLayerUnits(v, unit)
+		if err != nil || math.Abs(got-tc.want) > 1e-9*tc.want {
+			t.Errorf("%q on %+v: %v, %v; want %v", tc.in, tc.crs, got, err, tc.want)
+		}
+	}
+	for _, bad := range []string{"", "km", "25 furlongs", "1e", "0x10", "12,5km"} {
+		if _, _, err := ParseDistance(bad); err == nil {
+			t.Errorf("ParseDistance(%q) accepted", bad)
+		}
+	}
+	if _, err := (CRS{Projected: true}).InLayerUnits(5, "km"); err == nil {
+		t.Error("a unit on a layer of unknown unit was converted")
+	}
+}

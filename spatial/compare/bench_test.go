@@ -6,6 +6,7 @@ import (
 
 	"github.com/areatest/areatest/spatial/groups"
 	"github.com/areatest/areatest/spatial/sar"
+	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
 	"github.com/areatest/areatest/weights"
 )
@@ -98,6 +99,35 @@ func BenchmarkSARCheck3000(b *testing.B) {
 		}
 		if b.N == 1 {
 			b.Logf("ρ %.3f, %+v", m.Rho, SARRate(p, 0.05, DefaultSARCheckSurrogates))
+		}
+	}
+}
+
+// The check of the free shuffle adjusted for one covariate (Freedman–Lane:
+// each surrogate refitted, then 199 shuffles of the residuals), on the
+// layer and counts of BenchmarkFalsePositives3000x500x199, to compare with
+// the unadjusted check's cost.
+func BenchmarkFalsePositivesAdjusted3000x500x199(b *testing.B) {
+	g, o, lab := checkLayer3000(b)
+	z := make([]float64, g.Len())
+	for i := range z {
+		z[i] = math.Cos(float64(i) / 70)
+	}
+	fl, err := shuffle.NewFreedmanLane(make([]float64, g.Len()), [][]float64{z}, lab, 2)
+	if err != nil {
+		b.Fatal(err)
+	}
+	newTest := func() (nullTest, error) { return newAdjustedNull(fl, true, shuffle.TwoSided) }
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		r, err := falsePositives(o, newTest, []CheckScheme{{Name: "free"}}, DefaultFalsePositiveChecks, DefaultCheckShuffles, 0.05,
+			FPROptions{Seed: 1, Purpose: 5})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if b.N == 1 {
+			b.Logf("%+v", r[0])
 		}
 	}
 }

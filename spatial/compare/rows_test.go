@@ -52,8 +52,11 @@ func TestSARFieldByIteration(t *testing.T) {
 // simTally is the tally of all rows over Reps replicates, and how often
 // the recommended p-value rejected.
 type simTally struct {
-	Reps, Recommended int
-	Rows              []rowTally
+	// None counts the replicates on which no row was recommended (with
+	// covariates, when even the spectral row is unsound: the modified
+	// t-test, which does not adjust, is not offered).
+	Reps, Recommended, None int
+	Rows                    []rowTally
 }
 
 // simulateRows runs compare on reps pairs of independent SAR(ρ) fields on
@@ -148,7 +151,10 @@ func (st *simTally) tally(tb testing.TB, res *Result) {
 	if e := res.EffectiveSampleSize; e != nil && e.PValue <= 0.05 {
 		st.Rows[len(res.Tests)].Rejected++
 	}
-	if res.Recommended.PValue <= 0.05 {
+	switch {
+	case res.Recommended.Scheme == "":
+		st.None++
+	case res.Recommended.PValue <= 0.05:
 		st.Recommended++
 	}
 }
@@ -166,8 +172,8 @@ func (st simTally) table(rho float64) string {
 			rho, truncateName(row.Scheme), row.Rejected, st.Reps, 100*float64(row.Rejected)/float64(st.Reps), 100*lo, 100*hi, measured)
 	}
 	lo, hi := shuffle.ClopperPearson(st.Recommended, st.Reps, 0.95)
-	fmt.Fprintf(&b, "ρ %.2f  %-28s rejected %3d of %d (%4.1f%%, 95%% %4.1f–%4.1f%%)\n", rho, "recommended", st.Recommended, st.Reps,
-		100*float64(st.Recommended)/float64(st.Reps), 100*lo, 100*hi)
+	fmt.Fprintf(&b, "ρ %.2f  %-28s rejected %3d of %d (%4.1f%%, 95%% %4.1f–%4.1f%%); none recommended on %d\n", rho, "recommended", st.Recommended, st.Reps,
+		100*float64(st.Recommended)/float64(st.Reps), 100*lo, 100*hi, st.None)
 	return b.String()
 }
 
