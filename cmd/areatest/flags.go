@@ -10,7 +10,7 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
-	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/input"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/output"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -165,7 +165,7 @@ func (c *sharedFlags) planOutputs() (err error) {
 // open reads the layer named by --input, with its warnings on stderr.
 func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
 	var warnings []string
-	c.lay, warnings, err = readLayer(c.input, stdin, geojson.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	c.lay, warnings, err = readLayer(c.input, stdin, input.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
 	warn(stderr, warnings...)
 	if err != nil {
 		return err
@@ -181,15 +181,12 @@ func (c *sharedFlags) build(stderr io.Writer) (err error) {
 	return err
 }
 
-// readLayer reads a GeoJSON layer from a path, or from stdin for "-". A
-// feature that could be left out gets the flag that does so named.
-func readLayer(path string, stdin io.Reader, opt geojson.Options) (lay *layer.Layer, warnings []string, err error) {
-	if path == "-" {
-		lay, warnings, err = geojson.Read(stdin, "stdin", opt)
-	} else {
-		lay, warnings, err = geojson.ReadFile(path, opt)
-	}
-	if fe := (*geojson.Error)(nil); errors.As(err, &fe) && fe.Skippable {
+// readLayer reads the layer at path (any format io/input reads), or from
+// stdin for "-". A feature that could be left out gets the flag that does
+// so named.
+func readLayer(path string, stdin io.Reader, opt input.Options) (lay *layer.Layer, warnings []string, err error) {
+	lay, warnings, err = input.Read(path, stdin, opt)
+	if input.Skippable(err) {
 		err = fmt.Errorf("%w (use --skip-bad-geometry to leave such features out)", err)
 	}
 	return lay, warnings, err
