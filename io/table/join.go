@@ -74,7 +74,7 @@ func Join(l *layer.Layer, t *Table, opt JoinOptions) (*layer.Layer, *JoinReport,
 	rows := idx.match(layerKeys, rep)
 	if rep.Matched == 0 {
 		return nil, nil, nil, errorf(t.Source, 0, rep.TableKey, "no key matches %s (layer keys: %s; table keys: %s)",
-			describeKey(layerKeyName), listFirst(distinctFirst(layerKeys, 3), 3), listFirst(distinctFirst(idx.keys, 3), 3))
+			describeKey(layerKeyName), listFirst(distinct(layerKeys), 3), listFirst(distinct(idx.keys), 3))
 	}
 	var warns []string
 	warn := func(format string, args ...any) {
@@ -311,17 +311,14 @@ func (idx *rowIndex) report(rep *JoinReport, keys []string, rows []int) {
 	}
 }
 
-// distinctFirst returns the first n different non-empty keys.
-func distinctFirst(keys []string, n int) []string {
+// distinct returns the different non-empty keys in their first order.
+func distinct(keys []string) []string {
 	var out []string
-	seen := make(map[string]bool, n)
+	seen := make(map[string]bool)
 	for _, k := range keys {
 		if k != "" && !seen[k] {
 			seen[k] = true
 			out = append(out, k)
-			if len(out) == n {
-				break
-			}
 		}
 	}
 	return out
