@@ -49,17 +49,15 @@ func ReadFile(path string) (*Table, []string, error) {
 	if path == "-" {
 		return nil, nil, errorf("stdin", 0, "", "a table cannot be read from standard input, which holds the layer; give the table as a file")
 	}
-	f, err := os.Open(path)
+	data, err := os.ReadFile(path)
 	if err != nil {
-		msg := err.Error()
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			msg = pe.Err.Error()
+		reason := err // the path is the message's source already
+		if inner := errors.Unwrap(err); inner != nil {
+			reason = inner
 		}
-		return nil, nil, &Error{Source: path, Msg: "cannot be opened: " + msg, Err: err}
+		return nil, nil, &Error{Source: path, Msg: "cannot be read: " + reason.Error(), Err: err}
 	}
-	defer f.Close()
-	return Read(f, path)
+	return parse(data, path)
 }
 
 // Read reads a delimited text table from r; source names it in the table
@@ -74,7 +72,12 @@ func Read(r io.Reader, source string) (*Table, []string, error) {
 	if err != nil {
 		return nil, nil, &Error{Source: source, Msg: "cannot be read: " + err.Error(), Err: err}
 	}
-	data, err = checkText(data, source)
+	return parse(data, source)
+}
+
+// parse reads the table held in data.
+func parse(data []byte, source string) (*Table, []string, error) {
+	data, err := checkText(data, source)
 	if err != nil {
 		return nil, nil, err
 	}

@@ -201,12 +201,12 @@ func TestReadFile(t *testing.T) {
 	checkError(t, "bad file", err, []string{bad + ": line 3: "})
 	missing := filepath.Join(dir, "none.csv")
 	_, _, err = ReadFile(missing)
-	checkError(t, "missing", err, []string{missing + ": cannot be opened"})
+	checkError(t, "missing", err, []string{missing + ": cannot be read: no such file"})
 	if !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("missing: %v does not wrap os.ErrNotExist", err)
 	}
 	_, _, err = ReadFile(dir)
-	checkError(t, "directory", err, []string{dir + ": cannot be read"})
+	checkError(t, "directory", err, []string{dir + ": cannot be read: is a directory"})
 	_, _, err = ReadFile("-")
 	checkError(t, "stdin", err, []string{"stdin: ", "standard input"})
 	if entries, _ := os.ReadDir(dir); len(entries) != 1 {
