@@ -25,17 +25,28 @@
 //     with one warning for the whole file. A ring with fewer than 4 positions
 //     after closing is an error. Positions may carry a third value
 //     (altitude), which is dropped.
-//   - Coordinates outside [-180, 180] × [-90, 90] are an error that calls the
-//     file projected; if the file carries a legacy "crs" member naming a
-//     system other than WGS84 lon/lat, the message quotes it. Such a member
-//     with in-range coordinates gives a warning, and coordinates are read as
-//     lon/lat anyway, as RFC 7946 requires.
+//   - Coordinates: RFC 7946 has them in longitude/latitude, but GDAL and
+//     older tools write projected coordinates with a legacy (2008 GeoJSON)
+//     "crs" member, which may come before or after "features"; the reader
+//     records the first position outside [-180, 180] × [-90, 90] and
+//     decides at the end. A "crs" member that io/crs places as a projected
+//     system ("urn:ogc:def:crs:EPSG::5070") sets Layer.CRS, with one
+//     warning naming the system, and no range is checked. Otherwise
+//     coordinates all in range are lon/lat (a member naming another
+//     system then gives a warning, as RFC 7946 has lon/lat WGS84 always);
+//     with a coordinate out of range, a member naming a geographic system
+//     (CRS84, EPSG:4326) is an error — the file contradicts itself —, while
+//     no member, or one naming a system io/crs does not know, makes the
+//     layer projected with unknown unit (CRS{Projected: true}, the name
+//     kept), with a warning quoting the first such position and its
+//     feature. Both messages add that the positions may be written
+//     [latitude, longitude] when every position would fit that order.
 //   - With Options.SkipBadGeometry, features whose geometry is missing, null,
 //     empty, or of a type other than Polygon/MultiPolygon are left out with
 //     warnings; without it, the error for such a feature is marked
 //     Error.Skippable, so that a caller can say how to get past it. Broken
-//     geometry (short rings, bad nesting, projected or non-finite
-//     coordinates) is always an error.
+//     geometry (short rings, bad nesting, non-finite coordinates) is always
+//     an error.
 //   - Property values that are absent, null, empty, or one of NA, N/A, NaN,
 //     null (any case, spaces trimmed) are missing. A column is Number when all
 //     its other values are JSON numbers or strings holding a finite number,
@@ -60,7 +71,8 @@
 // array through readFeature (feature.go), which checks each feature in a
 // fixed order and hands its geometry to geomParser (geometry.go) and its
 // properties to the column builders (props.go); finish turns what was
-// gathered into the layer. errors.go builds the messages. Write and
+// gathered into the layer, with the coordinate system decided by
+// coordinateSystem (crs.go). errors.go builds the messages. Write and
 // AppendGeometry (write.go) go the other way, a layer and result columns
 // out as GeoJSON.
 package geojson

@@ -36,9 +36,12 @@ type featureState struct {
 	nUnclosed     int
 	firstUnclosed string
 
-	// projected is set when reading stopped on coordinates that are not
-	// lon/lat, so the caller looks further for a "crs" member.
-	projected bool
+	// outside is the first position outside longitude/latitude range, as
+	// written ("" while none), and outsidePos and outsideID the feature
+	// that has it, for the decision at the end (coordinateSystem).
+	outside    string
+	outsidePos int
+	outsideID  string
 
 	// Scratch reused from feature to feature: the feature's bytes and the
 	// cells that point into them.
@@ -313,10 +316,10 @@ func (fs *featureState) geometry(raw []byte, pos int, label string) (mp orb.Mult
 	}
 	mp, unclosed, gerr := fs.geom.parse(coords, multi)
 	if gerr != nil {
-		if gerr.projected {
-			fs.projected = true
-		}
 		return nil, false, gerr.msg
+	}
+	if fs.outside == "" && fs.geom.outside != "" {
+		fs.outside, fs.outsidePos, fs.outsideID = fs.geom.outside, pos, label
 	}
 	if len(mp) == 0 {
 		return nil, true, fmt.Sprintf("%s geometry is empty", typ)
@@ -424,9 +427,6 @@ func (rd *reader) finish() (*layer.Layer, error) {
 	if fs.nUnclosed > 0 {
 		rd.warn("%d feature(s) had rings whose last position differs from the first; they were closed (first: %s)", fs.nUnclosed, fs.firstUnclosed)
 	}
-	if rd.crs != "" {
-		rd.warn(`the legacy "crs" member names %s; the coordinates were read as lon/lat WGS84, as RFC 7946 requires`, quote(rd.crs))
-	}
 	rd.warnings = append(rd.warnings, fs.skipNotes...)
 	if fs.nSkipped > len(fs.skipNotes) {
 		rd.warn("%d more features left out for lacking polygon geometry (%d in all)", fs.nSkipped-len(fs.skipNotes), fs.nSkipped)
@@ -437,6 +437,10 @@ func (rd *reader) finish() (*layer.Layer, error) {
 			return nil, rd.fail(0, "", "the FeatureCollection has no features")
 		}
 		return nil, rd.fail(0, "", "all %d features were left out for lacking polygon geometry; no areas remain", fs.pos)
+	}
+	system, err := rd.coordinateSystem()
+	if err != nil {
+		return nil, err
 	}
 	idCol := fs.opt.IDColumn
 	if idCol == "" && fs.firstWith == 0 {
@@ -453,6 +457,7 @@ func (rd *reader) finish() (*layer.Layer, error) {
 		Geoms:    fs.geoms,
 		Columns:  cols,
 		IDColumn: idCol,
+		CRS:      system,
 	}, nil
 }
 

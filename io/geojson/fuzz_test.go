@@ -13,6 +13,8 @@ func FuzzRead(f *testing.F) {
 	f.Add([]byte(`{"features":[{"type":"Feature","geometry":{"type":"MultiPolygon","coordinates":[[[[0,0],[1,0],[1,1],[0,0]]]]},"properties":{"GEOID":7}}],"crs":{"type":"name","properties":{"name":"EPSG:2263"}},"type":"FeatureCollection"}`), false)
 	f.Add([]byte(fc(feat(`"a"`, `{"type":"Point","coordinates":[0,0]}`, `{}`), sq(`"b"`))), true)
 	f.Add([]byte(fc(feat(`"a"`, poly(`[[[500000,0],[1,0],[1,1],[0,0]]]`), `{}`))), false)
+	f.Add([]byte(`{"type":"FeatureCollection","features":[{"type":"Feature","id":"01","geometry":{"type":"Polygon","coordinates":[[[736249.0,825225.8],[741178.7,824190.4],[747923.2,826368.9],[736249.0,825225.8]]]},"properties":{}}],"crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::5070"}}}`), false)
+	f.Add([]byte(`{"crs":{"type":"name","properties":{"name":"EPSG:4326"}},"type":"FeatureCollection","features":[{"type":"Feature","id":1,"geometry":{"type":"Polygon","coordinates":[[[45,120],[45,121],[46,121],[45,120]]]},"properties":{}}]}`), false)
 	f.Add([]byte(`{"type":"Feature"}`), false)
 	f.Add([]byte(`[1,2`), false)
 	// Columns of numbers with bad values, repeated keys of different kinds,

@@ -24,19 +24,24 @@ type geomParser struct {
 	partEnds []int // end of each part in ringEnds
 
 	unclosed bool
+
+	// outside is the first position of the geometry being parsed that lies
+	// outside longitude/latitude range, as written; "" while none does.
+	outside string
+	// unswappable is set, for the whole file, by the first position that
+	// could not be [latitude, longitude] either (|x| > 90 or |y| > 180).
+	unswappable bool
 }
 
-// geomError is a coordinates problem; projected marks values that are not
-// lon/lat at all.
+// geomError is a coordinates problem.
 type geomError struct {
-	msg       string
-	projected bool
+	msg string
 }
 
 func (p *geomParser) parse(raw []byte, multi bool) (orb.MultiPolygon, bool, *geomError) {
 	p.b, p.i, p.multi = raw, 0, multi
 	p.pts, p.ringEnds, p.partEnds = p.pts[:0], p.ringEnds[:0], p.partEnds[:0]
-	p.unclosed = false
+	p.unclosed, p.outside = false, ""
 
 	var err *geomError
 	if multi {
@@ -182,12 +187,13 @@ func (p *geomParser) position() *geomError {
 	if n < 2 {
 		return &geomError{msg: fmt.Sprintf("a position has %d number(s); it needs [longitude, latitude]", n)}
 	}
-	if xy[0] < -180 || xy[0] > 180 || xy[1] < -90 || xy[1] > 90 {
-		msg := fmt.Sprintf("coordinate [%s, %s] is not a longitude/latitude pair; the file looks projected, but GeoJSON must be lon/lat WGS84 (RFC 7946)", lit[0], lit[1])
-		if math.Abs(xy[0]) <= 90 && math.Abs(xy[1]) <= 180 {
-			msg += ", or its positions are written [latitude, longitude] instead of [longitude, latitude]"
-		}
-		return &geomError{msg: msg, projected: true}
+	// Whether the coordinates are degrees is decided at the end, when the
+	// "crs" member, which may follow the features, is known.
+	if p.outside == "" && !(math.Abs(xy[0]) <= 180 && math.Abs(xy[1]) <= 90) {
+		p.outside = fmt.Sprintf("[%s, %s]", lit[0], lit[1])
+	}
+	if math.Abs(xy[0]) > 90 || math.Abs(xy[1]) > 180 {
+		p.unswappable = true
 	}
 	p.pts = append(p.pts, orb.Point(xy))
 	return nil

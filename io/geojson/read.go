@@ -158,9 +158,6 @@ func (rd *reader) run() (*layer.Layer, error) {
 // topLevel is what the walk has found in the top-level object so far.
 type topLevel struct {
 	haveType, haveFeatures bool
-	// pending is a projected-coordinates error waiting for a "crs" member
-	// that may follow and explain it.
-	pending *Error
 }
 
 // member reads the value of the top-level member key.
@@ -176,7 +173,7 @@ func (rd *reader) member(key string, top *topLevel) error {
 			return rd.fail(0, "", `the top-level "type" member is %s; expected "FeatureCollection"`, jsonKind(raw))
 		}
 		top.haveType = true
-		if typ != "FeatureCollection" && top.pending == nil {
+		if typ != "FeatureCollection" {
 			return rd.notCollection(typ)
 		}
 	case "features":
@@ -184,15 +181,7 @@ func (rd *reader) member(key string, top *topLevel) error {
 			return rd.fail(0, "", `the top-level object has two "features" members`)
 		}
 		top.haveFeatures = true
-		if err := rd.readFeatures(); err != nil {
-			var ge *Error
-			if !errors.As(err, &ge) || !rd.feat.projected {
-				return err
-			}
-			// Keep walking: a "crs" member after the features would
-			// explain the coordinates.
-			top.pending = ge
-		}
+		return rd.readFeatures()
 	case "crs":
 		var c crsMember
 		if err := rd.dec.Decode(&c); err != nil {
@@ -201,7 +190,7 @@ func (rd *reader) member(key string, top *topLevel) error {
 				return rd.jsonError(err, 0, "", false)
 			}
 		}
-		rd.crs = c.label()
+		rd.crs = c.name()
 	default:
 		var skip skipValue
 		if err := rd.dec.Decode(&skip); err != nil {
@@ -215,13 +204,7 @@ func (rd *reader) member(key string, top *topLevel) error {
 // that the object was a FeatureCollection with features.
 func (rd *reader) endTop(top topLevel) error {
 	if _, err := rd.dec.Token(); err != nil { // the closing brace
-		if top.pending != nil {
-			return rd.foldCRS(top.pending)
-		}
 		return rd.jsonError(err, 0, "", true)
-	}
-	if top.pending != nil {
-		return rd.foldCRS(top.pending)
 	}
 	end := rd.dec.InputOffset() + rd.bomLen
 	if _, err := rd.dec.Token(); err != io.EOF {
@@ -292,9 +275,6 @@ func (rd *reader) readFeatures() error {
 	}
 	for rd.dec.More() {
 		if err := rd.readFeature(); err != nil {
-			if rd.feat.projected {
-				rd.skipRest()
-			}
 			return err
 		}
 	}
@@ -302,18 +282,6 @@ func (rd *reader) readFeatures() error {
 		return rd.jsonError(err, 0, "", true)
 	}
 	return nil
-}
-
-// skipRest passes over the remaining features and the closing bracket. A
-// failure here is ignored: the caller already has a better error to report.
-func (rd *reader) skipRest() {
-	for rd.dec.More() {
-		var skip skipValue
-		if err := rd.dec.Decode(&skip); err != nil {
-			return
-		}
-	}
-	rd.dec.Token()
 }
 
 // crsMember is the legacy (2008 GeoJSON) coordinate reference member, in its
@@ -327,24 +295,16 @@ type crsMember struct {
 	} `json:"properties"`
 }
 
-// label names the system the member points at, or "" when it names WGS84
-// lon/lat or nothing usable.
-func (c crsMember) label() string {
-	var s string
+// name gives the system the member points at as a name crs.FromName
+// reads, or "" when it names nothing usable.
+func (c crsMember) name() string {
 	switch {
 	case c.Properties.Name != "":
-		s = c.Properties.Name
+		return c.Properties.Name
 	case len(c.Properties.Code) > 0 && string(c.Properties.Code) != "null":
-		s = "EPSG:" + strings.Trim(string(c.Properties.Code), `"`)
-	case c.Properties.Href != "":
-		s = c.Properties.Href
-	default:
-		return ""
+		return "EPSG:" + strings.Trim(string(c.Properties.Code), `"`)
 	}
-	if isWGS84(s) {
-		return ""
-	}
-	return s
+	return c.Properties.Href
 }
 
 // isWGS84 recognises the usual spellings of lon/lat WGS84: OGC CRS84 in URN
@@ -360,14 +320,6 @@ func isWGS84(s string) bool {
 	}
 	i := strings.LastIndexAny(u, ":/")
 	return u[i+1:] == "4326"
-}
-
-// foldCRS adds what the "crs" member says to a projected-coordinates error.
-func (rd *reader) foldCRS(e *Error) *Error {
-	if rd.crs != "" {
-		e.Msg += `; the file's legacy "crs" member names ` + quote(rd.crs) + ", so reproject it to lon/lat WGS84 (EPSG:4326) first"
-	}
-	return e
 }
 
 func quote(s string) string {
