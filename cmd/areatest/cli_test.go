@@ -177,7 +177,10 @@ func TestBadInputs(t *testing.T) {
 		{"one group", squares([]string{good, good, good, good}), nil, []string{"one level"}},
 		{"group of one area", squares([]string{good, `"y":2,"g":"a"`, `"y":3,"g":"a"`, `"y":4,"g":"b"`}), nil, []string{`"b"`, "at least 2"}},
 		{"duplicate ids", strings.Replace(squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), `"id":"a2"`, `"id":"a1"`, 1), nil, []string{"a1", "same id", "feature 1"}},
-		{"projected", strings.Replace(squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), `[[[0,0]`, `[[[512000,0]`, 1), nil, []string{"projected"}},
+		// Projected coordinates are read as planar (TestProjectedGeoJSON);
+		// a file that calls itself lon/lat and is not contradicts itself.
+		{"lon/lat crs with projected coordinates", strings.Replace(strings.Replace(squares([]string{good, good, `"y":3,"g":"b"`, `"y":4,"g":"b"`}), `[[[0,0],[1,0]`, `[[[0,0],[512000,0]`, 1),
+			`{"type":"FeatureCollection",`, `{"type":"FeatureCollection","crs":{"type":"name","properties":{"name":"EPSG:4326"}},`, 1), nil, []string{"bad.geojson", "contradicts itself"}},
 		{"empty layer", `{"type":"FeatureCollection","features":[]}`, nil, []string{"bad.geojson", "no features"}},
 	}
 	for _, c := range cases {

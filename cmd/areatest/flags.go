@@ -1,10 +1,12 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"runtime"
+	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -13,6 +15,8 @@ import (
 	"github.com/areatest/areatest/io/input"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/output"
+	"github.com/areatest/areatest/io/report"
+	"github.com/areatest/areatest/io/table"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -22,14 +26,17 @@ import (
 // they use), and what check, open and build make of them.
 type sharedFlags struct {
 	input, id, alternative, format, output string
-	skipBadGeometry                        bool
-	permutations, workers                  int
-	seed                                   uint64
-	weights                                weightFlags
-	formats                                []choice.Name[string]
+	// The layer's name in a file of several, and the table joined onto it.
+	layerName, table, key, tableKey string
+	skipBadGeometry                 bool
+	permutations, workers           int
+	seed                            uint64
+	weights                         weightFlags
+	formats                         []choice.Name[string]
 	// Set by check, open and build: the layer, the neighbour graph of all
 	// its areas and how the statistics use it.
 	lay         *layer.Layer
+	join        *table.JoinReport
 	graph       *weights.Graph
 	spec        weights.Spec
 	scaling     weights.Scaling
@@ -50,8 +57,12 @@ func (c *sharedFlags) register(fs *pflag.FlagSet, formats ...string) {
 
 // registerInput adds the flags that name the layer.
 func (c *sharedFlags) registerInput(fs *pflag.FlagSet) {
-	fs.StringVarP(&c.input, "input", "i", "", "GeoJSON FeatureCollection of polygons (- for stdin)")
+	fs.StringVarP(&c.input, "input", "i", "", "the layer of polygons: GeoJSON, GeoPackage, or a shapefile (.shp or a .zip holding one); - for stdin")
 	fs.StringVar(&c.id, "id", "", "column holding area ids (default: the feature id)")
+	fs.StringVar(&c.layerName, "layer", "", "the layer to read from a file of several (a GeoPackage's feature table, a shapefile in a zip)")
+	fs.StringVar(&c.table, "table", "", "CSV table whose columns are joined onto the areas by key (comma, semicolon or tab)")
+	fs.StringVar(&c.key, "key", "", "with --table: the layer's key column (default: the area ids)")
+	fs.StringVar(&c.tableKey, "table-key", "", "with --table: the table's key column, when it is named otherwise than --key (default: --key, or the table's first column)")
 	fs.BoolVar(&c.skipBadGeometry, "skip-bad-geometry", false, "leave out features with no or non-polygon geometry, with a warning")
 }
 
@@ -95,6 +106,9 @@ func (c *sharedFlags) prepare(cmd string, stdin io.Reader, stderr io.Writer, par
 func (c *sharedFlags) check(parseAlt func(string) (shuffle.Alternative, error)) (err error) {
 	if c.alt, err = parseAlt(c.alternative); err != nil {
 		return usagef("--alternative: %v", err)
+	}
+	if err := c.checkTable(); err != nil {
+		return err
 	}
 	if c.permutations < 1 || c.workers < 1 {
 		return usagef("--permutations and --workers must be at least 1")
@@ -165,12 +179,57 @@ func (c *sharedFlags) planOutputs() (err error) {
 // open reads the layer named by --input, with its warnings on stderr.
 func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
 	var warnings []string
-	c.lay, warnings, err = readLayer(c.input, stdin, input.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry})
+	c.lay, warnings, err = readLayer(c.input, stdin, input.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry, Layer: c.layerName})
 	warn(stderr, warnings...)
 	if err != nil {
 		return err
 	}
+	if err := c.joinTable(stderr); err != nil {
+		return err
+	}
 	return c.weights.resolve(&c.spec, c.lay.CRS)
+}
+
+// checkTable checks the flags of the join.
+func (c *sharedFlags) checkTable() error {
+	switch {
+	case c.table == "" && (c.key != "" || c.tableKey != ""):
+		return usagef("--key and --table-key go with --table")
+	case c.table == "-":
+		return usagef("--table must name a file: standard input can hold only the layer")
+	}
+	return nil
+}
+
+// joinTable joins --table onto the layer, with the join's warnings and a
+// line that sums it up on stderr.
+func (c *sharedFlags) joinTable(stderr io.Writer) error {
+	if c.table == "" {
+		return nil
+	}
+	t, warnings, err := table.ReadFile(c.table)
+	warn(stderr, warnings...)
+	if err != nil {
+		return err
+	}
+	lay, rep, warnings, err := table.Join(c.lay, t, table.JoinOptions{LayerKey: c.key, TableKey: c.tableKey})
+	if err != nil {
+		return err
+	}
+	key := "the area ids"
+	if rep.LayerKey != "" {
+		key = rep.LayerKey
+	}
+	padded := ""
+	if rep.Padded > 0 {
+		padded = fmt.Sprintf(" (%s after zero padding)", numtext.Count(rep.Padded))
+	}
+	note(stderr, fmt.Sprintf("%s joined on %s = %s: %s of %s areas matched%s; %s of %s rows match no area; columns added: %s",
+		rep.Table, key, rep.TableKey, numtext.Count(rep.Matched), numtext.Count(rep.Areas), padded,
+		numtext.Count(rep.Unused), numtext.Count(rep.Rows), strings.Join(rep.Columns, ", ")))
+	warn(stderr, warnings...)
+	c.lay, c.join = lay, rep
+	return nil
 }
 
 // build makes (or reads) the neighbour graph of the layer.
@@ -199,9 +258,41 @@ func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render m
 	if c.format != "text" {
 		warn(stderr, warnings...)
 	}
-	c.fileOf("--output").SetRender(render[c.format])
+	r := render[c.format]
+	if names, values := c.layerFacts(); c.format == "json" && len(names) > 0 {
+		doc := r
+		r = func(w io.Writer) error {
+			var buf bytes.Buffer
+			if err := doc(&buf); err != nil {
+				return err
+			}
+			out, err := report.AddMembers(buf.Bytes(), names, values)
+			if err != nil {
+				return err
+			}
+			_, err = w.Write(out)
+			return err
+		}
+	}
+	c.fileOf("--output").SetRender(r)
 	return c.plan.Commit(stdout)
 }
 
+// layerFacts are what a JSON document records of the layer beyond what
+// the result says: a projected coordinate system, and the join.
+func (c *sharedFlags) layerFacts() ([]string, map[string]any) {
+	var names []string
+	values := map[string]any{}
+	if c.lay != nil && c.lay.CRS.Projected {
+		names = append(names, "coordinate_system")
+		values["coordinate_system"] = c.lay.CRS
+	}
+	if c.join != nil {
+		names = append(names, "join")
+		values["join"] = c.join
+	}
+	return names, values
+}
+
 // inputs are the files no output may overwrite.
-func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file} }
+func (c *sharedFlags) inputs() []string { return []string{c.input, c.weights.file, c.table} }

@@ -82,6 +82,12 @@ func warn(w io.Writer, msgs ...string) {
 	}
 }
 
+// note writes a message that is neither a result nor a warning (what a
+// step did) to stderr.
+func note(w io.Writer, msg string) {
+	fmt.Fprintf(w, "areatest: %s\n", msg)
+}
+
 // newFlags makes the flag set of a command, which reports errors instead of
 // exiting and shows the command's help text (help/NAME.txt).
 func newFlags(name string, stderr io.Writer) *pflag.FlagSet {

@@ -26,8 +26,11 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if c.input == "" {
 		return usagef("--input is required (see areatest weights --help)")
 	}
-	var err error
-	if c.spec, c.scaling, _, err = c.weights.spec(); err == nil {
+	err := c.checkTable()
+	if err == nil {
+		c.spec, c.scaling, _, err = c.weights.spec()
+	}
+	if err == nil {
 		c.wantOutput("--write", write)
 		err = c.checkOutput()
 	}

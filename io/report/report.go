@@ -1,6 +1,7 @@
 package report
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -17,6 +18,29 @@ func JSON(w io.Writer, v any) error {
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
 	return enc.Encode(v)
+}
+
+// AddMembers adds members to the end of doc, a JSON object as JSON writes
+// it (indented by two spaces, ending in "}\n"), in the order of names, so
+// that a command can record facts about its input (the coordinate system,
+// a join) beside any result without each result type carrying them.
+func AddMembers(doc []byte, names []string, values map[string]any) ([]byte, error) {
+	end := bytes.LastIndexByte(doc, '}')
+	if end < 0 || len(names) == 0 {
+		return doc, nil
+	}
+	var b bytes.Buffer
+	b.Write(bytes.TrimRight(doc[:end], " \n"))
+	for _, name := range names {
+		v, err := json.MarshalIndent(values[name], "  ", "  ")
+		if err != nil {
+			return nil, err
+		}
+		key, _ := json.Marshal(name)
+		fmt.Fprintf(&b, ",\n  %s: %s", key, v)
+	}
+	b.WriteString("\n}\n")
+	return b.Bytes(), nil
 }
 
 // Wrap breaks text into lines of at most width characters, each starting with
