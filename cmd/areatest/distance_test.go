@@ -1,6 +1,8 @@
 package main
 
 import (
+	"fmt"
+	"os"
 	"strings"
 	"testing"
 )
@@ -50,4 +52,41 @@ func links(doc string) string {
 	}
 	j := strings.IndexAny(doc[i:], ",\n}")
 	return doc[i : i+j]
+}
+
+// A projected layer (here a GeoJSON with a legacy "crs" member naming
+// EPSG:32633, UTM in metres): distances are planar in metres, units in a
+// distance flag are converted with the metre, the JSON records the
+// coordinate system, and a GeoJSON copy of the results is refused (GeoJSON
+// is lon/lat by RFC 7946) without writing anything.
+func TestProjectedLayer(t *testing.T) {
+	dir := t.TempDir()
+	t.Chdir(dir)
+	var f []string
+	for i := range 6 {
+		for j := range 6 {
+			x, y := 500000+float64(j)*10000, 4000000+float64(i)*10000
+			f = append(f, fmt.Sprintf(`{"type":"Feature","id":"a%d","properties":{"v":%d},"geometry":{"type":"Polygon","coordinates":[[[%g,%g],[%g,%g],[%g,%g],[%g,%g],[%g,%g]]]}}`,
+				6*i+j, (i*j)%5, x, y, x+10000, y, x+10000, y+10000, x, y+10000, x, y))
+		}
+	}
+	doc := `{"type":"FeatureCollection","crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::32633"}},"features":[` + strings.Join(f, ",") + "]}"
+	if err := os.WriteFile("utm.geojson", []byte(doc), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	a := runIn("", "weights", "-i", "utm.geojson", "--band", "10.5km", "--format", "json")
+	b := runIn("", "weights", "-i", "utm.geojson", "--band", "10500", "--format", "json")
+	if a.code != 0 || a.stdout != b.stdout || !strings.Contains(a.stdout, `"kind": "distance band 10500 m"`) || !strings.Contains(a.stdout, `"epsg": 32633`) {
+		t.Errorf("band 10.5km on UTM: exit %d %s\n%s", a.code, a.stderr, a.stdout)
+	}
+	if links(a.stdout) != `"links": 120` { // 60 rook pairs of a 6×6 grid, both ways
+		t.Errorf("links: %s", links(a.stdout))
+	}
+	r := runIn("", "local", "-i", "utm.geojson", "--variable", "v", "-n", "99", "--out", "res.geojson")
+	if r.code != 2 || !strings.Contains(r.stderr, "RFC 7946") || !strings.Contains(r.stderr, "EPSG:32633") {
+		t.Errorf("GeoJSON out of a projected layer: exit %d, %s", r.code, r.stderr)
+	}
+	if _, err := os.Stat("res.geojson"); err == nil {
+		t.Error("res.geojson was written")
+	}
 }

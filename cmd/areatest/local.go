@@ -12,6 +12,7 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
 	"github.com/areatest/areatest/spatial/shuffle"
@@ -126,6 +127,10 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative); err != nil {
 		return err
 	}
+	if ext := strings.ToLower(filepath.Ext(c.out)); (ext == ".geojson" || ext == ".json") && c.lay.CRS.Projected {
+		return usagef("--out %s: GeoJSON holds longitude/latitude by its standard (RFC 7946), and %s is in a projected coordinate system%s; write a .gpkg, which keeps it, or a .csv",
+			c.out, c.lay.Source, crsLabel(c.lay.CRS))
+	}
 	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.scalingGiven() {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
 		// 1995), with w_ii = 1 for Gi*.
@@ -191,4 +196,16 @@ func (c *localFlags) write(pics report.LocalPictures) {
 		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
 		res.Written = append(res.Written, f.path)
 	}
+}
+
+// crsLabel names a coordinate system for a message: " (EPSG:5070)", " (a
+// name)" or "".
+func crsLabel(c layer.CRS) string {
+	switch {
+	case c.EPSG > 0:
+		return fmt.Sprintf(" (EPSG:%d)", c.EPSG)
+	case c.Name != "":
+		return fmt.Sprintf(" (%s)", c.Name)
+	}
+	return ""
 }
