@@ -41,6 +41,7 @@ type reader struct {
 	nOrphans  int       // records with holes in no shell
 	firstOf   [2]string // the first record closed, with orphans
 	outside   *Error    // the first record with coordinates beyond lon/lat
+	decoded   int       // bytes of .shp content read so far
 }
 
 // read turns the files of one shapefile into a layer.
@@ -201,7 +202,7 @@ func (rd *reader) record(i int) error {
 		rd.nDeleted++
 		return nil
 	}
-	id, err := rd.recordID(rec, num)
+	id, idCell, err := rd.recordID(rec, num)
 	if err != nil {
 		return err
 	}
@@ -222,25 +223,37 @@ func (rd *reader) record(i int) error {
 	rd.ids = append(rd.ids, id)
 	rd.geoms = append(rd.geoms, mp)
 	for k := range rd.tab.fields {
+		if k == rd.idField { // decoded once, so that a bad byte counts once
+			add(rd.builders[k], idCell.s, idCell.kind)
+			continue
+		}
 		s, kind := rd.tab.cell(rec, num, &rd.tab.fields[k], rd.dec)
 		add(rd.builders[k], s, kind)
 	}
 	return nil
 }
 
+// cellValue is a decoded table value.
+type cellValue struct {
+	s    string
+	kind cellKind
+}
+
 // recordID is the id a record's area gets: the id column's value (text
-// trimmed, numbers in their shortest form), or the record number.
-func (rd *reader) recordID(rec []byte, num int) (string, error) {
+// trimmed, numbers in their shortest form), or the record number. It
+// returns the id column's value as well.
+func (rd *reader) recordID(rec []byte, num int) (string, cellValue, error) {
 	if rd.idField < 0 {
-		return strconv.Itoa(num), nil
+		return strconv.Itoa(num), cellValue{}, nil
 	}
 	f := &rd.tab.fields[rd.idField]
-	s, kind := rd.tab.cell(rec, num, f, rd.dec)
-	s = strings.TrimSpace(s)
-	if kind == cellMissing || s == "" {
+	var c cellValue
+	c.s, c.kind = rd.tab.cell(rec, num, f, rd.dec)
+	s := strings.TrimSpace(c.s)
+	if c.kind == cellMissing || s == "" {
 		e := errorf(rd.fs.dbf.name, num, "is empty; every area needs an id")
 		e.Column = f.name
-		return "", e
+		return "", c, e
 	}
 	// Whole numbers keep their digits (a float64 would round those beyond
 	// 2^53); other numbers are written in their shortest form.
@@ -249,7 +262,7 @@ func (rd *reader) recordID(rec []byte, num int) (string, error) {
 			s = layer.FormatNumber(v)
 		}
 	}
-	return strings.TrimPrefix(s, "+"), nil
+	return strings.TrimPrefix(s, "+"), c, nil
 }
 
 // isInteger reports digits with an optional sign.
@@ -272,6 +285,11 @@ func (rd *reader) geometry(i int, id string) (orb.MultiPolygon, error) {
 	c, msg := content(rd.fs.shp, rd.idx, i)
 	if msg != "" {
 		return nil, fail(msg, false)
+	}
+	// An index that points many records at the same bytes would make a
+	// small file decode into a huge layer.
+	if rd.decoded += len(c); rd.decoded > len(rd.fs.shp.data) {
+		return nil, fail(fmt.Sprintf("overlaps other records: by the index %s the records' contents add up to more than the .shp holds; the index is damaged", baseName(rd.idx.m.name)), false)
 	}
 	rings, skippable, msg := shape(c)
 	if msg != "" {

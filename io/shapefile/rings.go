@@ -18,6 +18,7 @@ type assembler struct {
 	host   []int // for a hole, the shell it lies in; -1 for none
 	polyOf []int // the output polygon each shell (or orphan hole) starts
 	cands  []int
+	grid   *shellGrid // for records with many shells and holes, else nil
 }
 
 // assemble returns the record's polygons: each shell with the holes that
@@ -49,6 +50,10 @@ func (a *assembler) assemble(rings []orb.Ring) (orb.MultiPolygon, int) {
 		return mp, 0
 	}
 	a.host = resize(a.host, n)
+	a.grid = nil
+	if shells := n - holes; shells*holes > gridFrom {
+		a.grid = newShellGrid(a.box, a.outer, shells)
+	}
 	orphans := 0
 	for k := range rings {
 		a.host[k] = -1
@@ -67,14 +72,26 @@ func (a *assembler) assemble(rings []orb.Ring) (orb.MultiPolygon, int) {
 // point is tested.
 func (a *assembler) findShell(rings []orb.Ring, k int) int {
 	a.cands = a.cands[:0]
-	for s := range rings {
-		if a.outer[s] && holds(a.box[s], a.box[k]) {
-			a.cands = append(a.cands, s)
+	if a.grid != nil {
+		cell, wide := a.grid.near(a.box[k])
+		for _, list := range [][]int{cell, wide} {
+			for _, s := range list {
+				if holds(a.box[s], a.box[k]) {
+					a.cands = append(a.cands, s)
+				}
+			}
+		}
+	} else {
+		for s := range rings {
+			if a.outer[s] && holds(a.box[s], a.box[k]) {
+				a.cands = append(a.cands, s)
+			}
 		}
 	}
 	if len(a.cands) > 1 {
-		sort.Slice(a.cands, func(i, j int) bool {
-			return math.Abs(a.area[a.cands[i]]) < math.Abs(a.area[a.cands[j]])
+		sort.Slice(a.cands, func(i, j int) bool { // by area, then file order
+			ai, aj := math.Abs(a.area[a.cands[i]]), math.Abs(a.area[a.cands[j]])
+			return ai < aj || ai == aj && a.cands[i] < a.cands[j]
 		})
 	}
 	for _, s := range a.cands {

@@ -4,9 +4,11 @@ import (
 	"archive/zip"
 	"bytes"
 	"encoding/binary"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -88,6 +90,14 @@ func shapeContent(s testShape) []byte {
 		}
 		for _, p := range all {
 			leFloat(&c, p[0], p[1])
+		}
+		if s.typ == shapePolygonZ { // Z range and values, then M
+			for range 2 {
+				leFloat(&c, 0, 100)
+				for k := range all {
+					leFloat(&c, float64(k))
+				}
+			}
 		}
 	}
 	return c.Bytes()
@@ -181,12 +191,12 @@ func zipFiles(t testing.TB, members map[string][]byte) []byte {
 	t.Helper()
 	var b bytes.Buffer
 	zw := zip.NewWriter(&b)
-	for name, data := range members {
+	for _, name := range slices.Sorted(maps.Keys(members)) {
 		w, err := zw.Create(name)
 		if err != nil {
 			t.Fatal(err)
 		}
-		w.Write(data)
+		w.Write(members[name])
 	}
 	if err := zw.Close(); err != nil {
 		t.Fatal(err)
