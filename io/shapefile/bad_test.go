@@ -54,6 +54,9 @@ func TestBadInput(t *testing.T) {
 	far[".prj"] = states[".prj"]
 	hostile := makeFiles(twoSquares, rows)
 	binary.LittleEndian.PutUint32(hostile[".shp"][100+8+36:], 1<<30) // parts of record 1
+	shared := makeFiles(twoSquares, rows)
+	copy(shared[".shx"][108:], shared[".shx"][100:108]) // both entries at record 1,
+	shared[".shp"] = shared[".shp"][:100+8+128]         // the only one left
 	for _, tc := range []struct {
 		name string
 		fs   files
@@ -86,6 +89,8 @@ func TestBadInput(t *testing.T) {
 			[]string{`/states.shp: record 1: ring 1 has 3 positions`}},
 		{"hostile part count", hostile, Options{},
 			[]string{`/states.shp: record 1: says it has 1073741824 parts and 5 points, which need 4294967420 bytes, but its content is 128 bytes`}},
+		{"index entries sharing a record", shared, Options{},
+			[]string{`/states.shp: record 2: overlaps other records: by the index states.shx the records' contents add up to more than the .shp holds`}},
 		{"duplicate id", makeFiles(twoSquares, [][]string{{"a", "1"}, {"a", "2"}}), Options{IDColumn: "name"},
 			[]string{`/states.dbf: record 2 (id "a"), column "name": has the same id as record 1; ids must be unique`}},
 		{"empty id", makeFiles(twoSquares, [][]string{{"a", "1"}, {"", "2"}}), Options{IDColumn: "name"},

@@ -288,7 +288,7 @@ func (rd *reader) geometry(i int, id string) (orb.MultiPolygon, error) {
 	}
 	// An index that points many records at the same bytes would make a
 	// small file decode into a huge layer.
-	if rd.decoded += len(c); rd.decoded > len(rd.fs.shp.data) {
+	if rd.decoded += 8 + len(c); rd.decoded > len(rd.fs.shp.data)-headerSize {
 		return nil, fail(fmt.Sprintf("overlaps other records: by the index %s the records' contents add up to more than the .shp holds; the index is damaged", baseName(rd.idx.m.name)), false)
 	}
 	rings, skippable, msg := shape(c)

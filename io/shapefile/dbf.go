@@ -72,6 +72,8 @@ func openTable(m member, dec *textDecoder) (*table, []string, *Error) {
 		switch {
 		case f.name == "":
 			warns = append(warns, fmt.Sprintf("%s: field %d has no name; it is left out", m.name, len(t.fields)+1))
+		case f.size == 0: // holds nothing; left out so that a hostile header of many such fields cannot make huge columns from a small table
+			warns = append(warns, fmt.Sprintf("%s: column %q has a width of 0 bytes; it is left out", m.name, f.name))
 		case !bytes.ContainsRune([]byte("CNFLD"), rune(f.typ)):
 			warns = append(warns, fmt.Sprintf("%s: column %q is of dBASE type %s, which is not read; it is left out", m.name, f.name, strconv.QuoteRune(rune(f.typ))))
 		case seen[f.name]:

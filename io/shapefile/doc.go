@@ -69,8 +69,12 @@
 //     at most 4 GiB): beyond it the zip is called damaged or hostile.
 //   - Every length and count in the files is checked against the file's
 //     size before anything is allocated for it, so a hostile header fails
-//     with a message. Memory grows with the files: they are held whole
-//     while the layer is built.
+//     with a message; records whose index entries make them share bytes of
+//     the .shp beyond its size are an error, and fields of width 0 are left
+//     out, so that a small file cannot make a huge layer. Memory grows with
+//     the files: they are held whole while the layer is built. Records with
+//     many shells and many holes put their shells in a grid first, so that
+//     placing the holes stays near linear.
 //
 // The package never prints: warnings are returned, each one line starting
 // with the name of the file it is about, and every error is an *Error

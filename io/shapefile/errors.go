@@ -33,25 +33,20 @@ type Error struct {
 
 // Error gives the one-line message.
 func (e *Error) Error() string {
-	var b strings.Builder
-	b.WriteString(e.Source)
-	b.WriteString(": ")
-	if lbl := recordLabel(e.Record, e.ID); lbl != "" {
-		b.WriteString(lbl)
-		if e.Column != "" {
-			b.WriteString(", column ")
-			b.WriteString(strconv.Quote(e.Column))
+	at := recordLabel(e.Record, e.ID)
+	if e.Column != "" {
+		col := "column " + strconv.Quote(e.Column)
+		if at != "" {
+			col = at + ", " + col
 		}
-		b.WriteString(": ")
-	} else if e.Column != "" {
-		b.WriteString("column ")
-		b.WriteString(strconv.Quote(e.Column))
-		b.WriteString(": ")
+		at = col
+	}
+	if at != "" {
+		at += ": "
 	}
 	// Messages quote bytes from the files, which may hold line breaks; the
 	// promise is one line per error.
-	b.WriteString(strings.Join(strings.Fields(e.Msg), " "))
-	return b.String()
+	return e.Source + ": " + at + strings.Join(strings.Fields(e.Msg), " ")
 }
 
 // Unwrap gives errors.Is and errors.As access to the cause.
