@@ -159,7 +159,9 @@ func readMember(f *zip.File, source string, size int64, budget *int64, m *member
 	}
 	defer rc.Close()
 	var buf bytes.Buffer
-	buf.Grow(int(f.UncompressedSize64))
+	if f.UncompressedSize64 < 1<<30 { // the size declared, at most what int holds everywhere
+		buf.Grow(int(f.UncompressedSize64))
+	}
 	n, err := buf.ReadFrom(io.LimitReader(rc, *budget+1))
 	if err != nil {
 		return wrapf(err, m.name, "cannot be unpacked")
