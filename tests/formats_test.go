@@ -19,9 +19,20 @@ import (
 var formatFixtures = []struct {
 	file      string
 	projected bool
+	// id names the id column of formats without feature ids.
+	id string
+	// renamed gives the fixture's names of the GeoJSON's columns where
+	// they differ (dBASE cuts names to 10 characters).
+	renamed map[string]string
 }{
-	{"formats/states-5070.geojson", true},
+	{"formats/states-5070.geojson", true, "", nil},
+	{"formats/states.shp.zip", false, "fips", dbaseNames},
+	{"formats/states-5070.zip", true, "fips", dbaseNames},
 }
+
+// dbaseNames are the column names ogr2ogr gives the states' properties in
+// a shapefile: cut to 10 characters, the second of two equal cuts numbered.
+var dbaseNames = map[string]string{"centroid_lon": "centroid_l", "centroid_lat": "centroid_1"}
 
 // Every fixture read through io/input gives the GeoJSON's areas and
 // attributes, the same queen and rook neighbour pairs with the default
@@ -32,24 +43,26 @@ var formatFixtures = []struct {
 func TestFormatsGiveTheSameLayer(t *testing.T) {
 	ref := loadStates(t)
 	refQueen, refRook := contiguityPairs(t, ref, weights.Queen), contiguityPairs(t, ref, weights.Rook)
-	refI := statesMoran(t, ref)
+	refI := statesMoran(t, ref, "centroid_lat")
 	for _, fx := range formatFixtures {
 		t.Run(fx.file, func(t *testing.T) {
-			l, _, err := input.Read(testkit.Testdata(t, fx.file), nil, input.Options{})
+			l, _, err := input.Read(testkit.Testdata(t, fx.file), nil, input.Options{IDColumn: fx.id})
 			if err != nil {
 				t.Fatal(err)
 			}
-			if l.CRS.Projected != fx.projected || (fx.projected && (l.CRS.MetresPerUnit != 1 || l.CRS.EPSG != 5070)) {
+			// ESRI's form of a .prj carries no EPSG code: the unit is what
+			// counts.
+			if l.CRS.Projected != fx.projected || (fx.projected && (l.CRS.MetresPerUnit != 1 || l.CRS.EPSG != 5070 && l.CRS.EPSG != 0)) {
 				t.Errorf("coordinate system %+v", l.CRS)
 			}
-			sameAttributes(t, ref, l)
+			sameAttributes(t, ref, l, fx.renamed)
 			if got := contiguityPairs(t, l, weights.Queen); !equalPairs(got, refQueen) {
 				t.Errorf("queen: %d pairs, GeoJSON %d", len(got), len(refQueen))
 			}
 			if got := contiguityPairs(t, l, weights.Rook); !equalPairs(got, refRook) {
 				t.Errorf("rook: %d pairs, GeoJSON %d", len(got), len(refRook))
 			}
-			if i := statesMoran(t, l); math.Abs(i-refI) > 1e-12 {
+			if i := statesMoran(t, l, fixtureName(fx.renamed, "centroid_lat")); math.Abs(i-refI) > 1e-12 {
 				t.Errorf("Moran's I %v, GeoJSON %v", i, refI)
 			}
 			sameNearest(t, ref, l, 4)
@@ -90,12 +103,20 @@ func equalPairs(a, b map[[2]string]bool) bool {
 	return true
 }
 
-// statesMoran is Moran's I of centroid_lat on the row-standardised queen
+// fixtureName is the fixture's name of a GeoJSON column.
+func fixtureName(renamed map[string]string, column string) string {
+	if n, ok := renamed[column]; ok {
+		return n
+	}
+	return column
+}
+
+// statesMoran is Moran's I of the column (centroid_lat) on the row-standardised queen
 // graph of the states with a neighbour.
-func statesMoran(t *testing.T, l *layer.Layer) float64 {
+func statesMoran(t *testing.T, l *layer.Layer, column string) float64 {
 	t.Helper()
 	queen, keep := linkedStates(t, l)
-	col, err := l.NumericColumn("centroid_lat", "the variable")
+	col, err := l.NumericColumn(column, "the variable")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -111,7 +132,7 @@ func statesMoran(t *testing.T, l *layer.Layer) float64 {
 }
 
 // sameAttributes checks ids, column names, kinds and values.
-func sameAttributes(t *testing.T, ref, l *layer.Layer) {
+func sameAttributes(t *testing.T, ref, l *layer.Layer, renamed map[string]string) {
 	t.Helper()
 	if len(l.IDs) != len(ref.IDs) {
 		t.Fatalf("%d areas, GeoJSON %d", len(l.IDs), len(ref.IDs))
@@ -122,7 +143,7 @@ func sameAttributes(t *testing.T, ref, l *layer.Layer) {
 		}
 	}
 	for _, rc := range ref.Columns {
-		c, err := l.Column(rc.Name)
+		c, err := l.Column(fixtureName(renamed, rc.Name))
 		if err != nil {
 			t.Errorf("%v", err)
 			continue

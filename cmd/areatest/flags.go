@@ -245,8 +245,11 @@ func (c *sharedFlags) build(stderr io.Writer) (err error) {
 // so named.
 func readLayer(path string, stdin io.Reader, opt input.Options) (lay *layer.Layer, warnings []string, err error) {
 	lay, warnings, err = input.Read(path, stdin, opt)
-	if input.Skippable(err) {
+	switch {
+	case input.Skippable(err):
 		err = fmt.Errorf("%w (use --skip-bad-geometry to leave such features out)", err)
+	case input.Choices(err) != nil:
+		err = fmt.Errorf("%w (with --layer NAME)", err)
 	}
 	return lay, warnings, err
 }

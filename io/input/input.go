@@ -21,6 +21,7 @@ import (
 
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/layer"
+	"github.com/areatest/areatest/io/shapefile"
 )
 
 // Options adjust how a layer is read.
@@ -117,7 +118,7 @@ func Read(path string, stdin io.Reader, opt Options) (*layer.Layer, []string, er
 		// table, JSON of another kind).
 		return geojson.ReadFile(path, geojson.Options{IDColumn: opt.IDColumn, SkipBadGeometry: opt.SkipBadGeometry})
 	default:
-		return readOther(path, f, head, opt)
+		return readOther(path, f, opt)
 	}
 }
 
@@ -173,5 +174,6 @@ func shapefilePart(path string) error {
 // left out with a warning.
 func Skippable(err error) bool {
 	var ge *geojson.Error
-	return errors.As(err, &ge) && ge.Skippable
+	var se *shapefile.Error
+	return errors.As(err, &ge) && ge.Skippable || errors.As(err, &se) && se.Skippable
 }

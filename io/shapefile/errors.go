@@ -27,6 +27,10 @@ type Error struct {
 	// have left it out, with a warning, instead of failing. Broken geometry
 	// is not skippable.
 	Skippable bool
+	// Layers lists the shapefiles of a zip when the problem is which of
+	// them to read (several, and none or an unknown one named): a caller
+	// can say how to name one (Options.Layer).
+	Layers []string
 	// Err is the underlying cause (a read error, a bad zip), if any.
 	Err error
 }

@@ -95,7 +95,9 @@ func pickLayer(shps []*zip.File, names []string, source, want string) (*zip.File
 		if len(shps) == 1 {
 			return shps[0], nil
 		}
-		return nil, errorf(source, 0, "holds several shapefiles: %s; name the one to read", listNames(layers, 20))
+		e := errorf(source, 0, "holds several shapefiles: %s; name the one to read", listNames(layers, 20))
+		e.Layers = layers
+		return nil, e
 	}
 	var match []*zip.File
 	for i, f := range shps {
@@ -108,9 +110,13 @@ func pickLayer(shps []*zip.File, names []string, source, want string) (*zip.File
 	case 1:
 		return match[0], nil
 	case 0:
-		return nil, errorf(source, 0, "holds no shapefile named %q; it holds %s", want, listNames(layers, 20))
+		e := errorf(source, 0, "holds no shapefile named %q; it holds %s", want, listNames(layers, 20))
+		e.Layers = layers
+		return nil, e
 	}
-	return nil, errorf(source, 0, "holds several shapefiles named %q; name one by its folder: %s", want, listNames(layers, 20))
+	e := errorf(source, 0, "holds several shapefiles named %q; name one by its folder: %s", want, listNames(layers, 20))
+	e.Layers = layers
+	return nil, e
 }
 
 // layerNames names each .shp by its base name without the extension, or by
