@@ -16,6 +16,10 @@ type readmeExample struct {
 	line     int // of the opening fence in README.md
 	commands [][]string
 	output   string
+	// withStderr is set by a last command ending in "2>&1": its standard
+	// error (the warnings and notes, written first) is shown before its
+	// standard output.
+	withStderr bool
 }
 
 // readmeExamples finds the worked example (the block after "byte for
@@ -37,7 +41,11 @@ func readmeExamples(t *testing.T, readme string) []readmeExample {
 		ex := readmeExample{line: i + 1}
 		switch {
 		case strings.HasPrefix(body[0], "$ areatest "):
-			for _, cmd := range strings.Split(strings.TrimPrefix(body[0], "$ "), "&&") {
+			first := strings.TrimPrefix(body[0], "$ ")
+			if strings.HasSuffix(first, " 2>&1") {
+				first, ex.withStderr = strings.TrimSuffix(first, " 2>&1"), true
+			}
+			for _, cmd := range strings.Split(first, "&&") {
 				fields := strings.Fields(cmd)
 				if len(fields) == 0 || fields[0] != "areatest" {
 					t.Fatalf("README.md:%d: %q is not an areatest command", i+2, cmd)
@@ -59,7 +67,7 @@ func readmeExamples(t *testing.T, readme string) []readmeExample {
 // Every output shown in the README is what this build prints, byte for
 // byte, so the README cannot drift from the tool. Each example runs in a
 // directory holding the sample region, as a reader who ran
-// `areatest demo --write .` would.
+// `areatest demo --write .` would, and the files of readmeData.
 func TestReadmeExamples(t *testing.T) {
 	b, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
 	if err != nil {
@@ -71,19 +79,41 @@ func TestReadmeExamples(t *testing.T) {
 	}
 	for _, ex := range examples {
 		t.Run(strings.Join(ex.commands[len(ex.commands)-1][:1], " ")+"@"+strconv.Itoa(ex.line), func(t *testing.T) {
-			sampleDir(t)
+			data := map[string][]byte{}
+			for _, f := range readmeData { // found from the package directory, before sampleDir moves
+				b, err := os.ReadFile(testkit.Testdata(t, f))
+				if err != nil {
+					t.Fatal(err)
+				}
+				data[filepath.Base(f)] = b
+			}
+			dir := sampleDir(t)
+			for name, b := range data {
+				if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
 			var r result
 			for _, args := range ex.commands {
 				if r = runIn("", args...); r.code != 0 {
 					t.Fatalf("README.md:%d: areatest %s: exit %d: %s", ex.line, strings.Join(args, " "), r.code, r.stderr)
 				}
 			}
-			if r.stdout != ex.output {
-				t.Errorf("README.md:%d: the output shown differs from what areatest prints: %s", ex.line, testkit.FirstDifference(ex.output, r.stdout))
+			got := r.stdout
+			if ex.withStderr {
+				got = r.stderr + r.stdout
+			}
+			if got != ex.output {
+				t.Errorf("README.md:%d: the output shown differs from what areatest prints: %s", ex.line, testkit.FirstDifference(ex.output, got))
 			}
 		})
 	}
 }
+
+// readmeData are the test files the README's input examples use, copied
+// beside the sample region (tests/testdata; see its README for their
+// sources).
+var readmeData = []string{"formats/states.shp.zip", "formats/states-attrs.csv"}
 
 // previousText is the last non-blank line before line i.
 func previousText(lines []string, i int) string {
