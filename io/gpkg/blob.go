@@ -34,6 +34,7 @@ var wkbTypeNames = [...]string{
 const (
 	wkbPolygon      = 3
 	wkbMultiPolygon = 6
+	wkbMultiSurface = 12
 )
 
 // badGeom says why a blob gives no area; skippable as for Error.Skippable.
@@ -89,8 +90,17 @@ func decodeBlob(b []byte) (orb.MultiPolygon, *badGeom) {
 // decodeWKB checks the WKB, then decodes a Polygon or MultiPolygon with
 // go-geom and converts it.
 func decodeWKB(w []byte) (orb.MultiPolygon, *badGeom) {
-	if bad := checkWKB(w); bad != nil {
+	surface, bad := checkWKB(w)
+	if bad != nil {
 		return nil, bad
+	}
+	if surface {
+		// A MultiSurface of Polygons is a MultiPolygon by another code,
+		// which go-geom does not know: give it the MultiPolygon's (12 → 6,
+		// 1012 → 1006, …).
+		w = append([]byte(nil), w...)
+		order := byteOrder(w[0])
+		order.PutUint32(w[1:], order.Uint32(w[1:])-(wkbMultiSurface-wkbMultiPolygon))
 	}
 	g, err := wkb.Unmarshal(w)
 	if err != nil {
@@ -141,12 +151,7 @@ func (r *wkbReader) header() (order binary.ByteOrder, base uint32, dims int, bad
 	if r.left() < 5 {
 		return nil, 0, 0, broken("the geometry ends at byte %d, inside a WKB geometry header", len(r.b))
 	}
-	switch r.b[r.off] {
-	case 0:
-		order = binary.BigEndian
-	case 1:
-		order = binary.LittleEndian
-	default:
+	if order = byteOrder(r.b[r.off]); order == nil {
 		return nil, 0, 0, broken("the WKB geometry has byte order mark %d at byte %d; 0 or 1 expected", r.b[r.off], r.off)
 	}
 	code := order.Uint32(r.b[r.off+1:])
@@ -156,6 +161,17 @@ func (r *wkbReader) header() (order binary.ByteOrder, base uint32, dims int, bad
 		return nil, 0, 0, broken("the WKB geometry type code %d is not one of ISO WKB's", code)
 	}
 	return order, base, 2 + int(z+1)/2, nil // Z or M: 3 values; ZM: 4
+}
+
+// byteOrder reads WKB's byte order mark; nil for a bad one.
+func byteOrder(mark byte) binary.ByteOrder {
+	switch mark {
+	case 0:
+		return binary.BigEndian
+	case 1:
+		return binary.LittleEndian
+	}
+	return nil
 }
 
 // count reads a uint32 count of items of at least minSize bytes each, and
@@ -189,39 +205,47 @@ func (r *wkbReader) polygon(order binary.ByteOrder, dims int) *badGeom {
 }
 
 // checkWKB accepts a Polygon or MultiPolygon (with Z, M or both) whose
-// every count fits the bytes given, and says what else it is.
-func checkWKB(w []byte) *badGeom {
+// every count fits the bytes given, or a MultiSurface of Polygons (surface),
+// and says what else it is.
+func checkWKB(w []byte) (surface bool, bad *badGeom) {
 	r := &wkbReader{b: w}
 	order, base, dims, bad := r.header()
 	if bad != nil {
-		return bad
+		return false, bad
 	}
 	switch base {
 	case wkbPolygon:
-		return r.polygon(order, dims)
-	case wkbMultiPolygon:
-	case 10, 12, 14: // CurvePolygon, MultiSurface, Surface
-		return broken("the geometry is a %s; curved geometry is not read: convert the layer to Polygon or MultiPolygon (linear rings)", wkbTypeNames[base])
+		return false, r.polygon(order, dims)
+	case wkbMultiPolygon, wkbMultiSurface:
+	case 10, 14: // CurvePolygon, Surface
+		return false, curved(base)
 	default:
-		return notArea("the geometry is a %s; areas must be Polygon or MultiPolygon", wkbTypeNames[base])
+		return false, notArea("the geometry is a %s; areas must be Polygon or MultiPolygon", wkbTypeNames[base])
 	}
 	parts, bad := r.count(order, 9, "polygons")
 	if bad != nil {
-		return bad
+		return false, bad
 	}
 	for i := range parts {
 		porder, pbase, pdims, bad := r.header()
-		if bad != nil {
-			return bad
-		}
-		if pbase != wkbPolygon || pdims != dims {
-			return broken("part %d of the MultiPolygon is a %s with %d values per position, not a Polygon with %d", i+1, wkbTypeNames[pbase], pdims, dims)
+		switch {
+		case bad != nil:
+			return false, bad
+		case pbase == 10 || pbase == 14:
+			return false, curved(pbase)
+		case pbase != wkbPolygon || pdims != dims:
+			return false, broken("part %d of the %s is a %s with %d values per position, not a Polygon with %d", i+1, wkbTypeNames[base], wkbTypeNames[pbase], pdims, dims)
 		}
 		if bad := r.polygon(porder, dims); bad != nil {
-			return bad
+			return false, bad
 		}
 	}
-	return nil
+	return base == wkbMultiSurface, nil
+}
+
+// curved is the error for a curved type.
+func curved(base uint32) *badGeom {
+	return broken("the geometry is a %s; curved geometry is not read: convert the layer to Polygon or MultiPolygon (linear rings)", wkbTypeNames[base])
 }
 
 // appendBlob appends the GeoPackage blob of mp: a little-endian header

@@ -43,3 +43,19 @@ func TestAppendBlob(t *testing.T) {
 		t.Fatalf("%v %v", got, bad)
 	}
 }
+
+// TestMultiSurface: a MultiSurface of Polygons reads as a MultiPolygon; a
+// curved part is an error naming it, and so is a CurvePolygon.
+func TestMultiSurface(t *testing.T) {
+	poly := polygonWKB(true, 1003, 3)
+	mp, bad := decodeBlob(blob(false, 0, 0, append(newWKB(false).u32(1012).u32(2).b, append(poly, poly...)...)))
+	if bad != nil || len(mp) != 2 || len(mp[1][0]) != 5 {
+		t.Fatalf("%v %v", mp, bad)
+	}
+	curvedPart := append(newWKB(false).u32(12).u32(1).b, newWKB(false).u32(10).u32(0).b...)
+	for _, w := range [][]byte{curvedPart, newWKB(true).u32(10).u32(0).b} {
+		if _, bad := decodeBlob(blob(false, 0, 0, w)); bad == nil || bad.skippable || bad.msg != "the geometry is a CurvePolygon; curved geometry is not read: convert the layer to Polygon or MultiPolygon (linear rings)" {
+			t.Errorf("%v", bad)
+		}
+	}
+}
