@@ -23,13 +23,13 @@ type Error struct {
 	ID string
 	// Column is the column the problem lies in, when it lies in one.
 	Column string
-	// Msg says what is wrong, without the prefix.
+	// Msg is the problem itself, the text after the location.
 	Msg string
-	// Skippable says the record has no polygon geometry (none, empty, or of
-	// another type): Options.SkipBadGeometry would have left it out, with a
-	// warning, instead of failing. Broken geometry is not skippable.
+	// Skippable marks a record whose geometry is NULL, empty or not a
+	// polygon, which Options.SkipBadGeometry leaves out with a warning;
+	// broken geometry never is.
 	Skippable bool
-	// Err is the underlying cause (an SQLite or file error), if any.
+	// Err is the cause reported by SQLite or the file system, if any.
 	Err error
 }
 
