@@ -81,8 +81,10 @@
 // the time of writing, so two writes of one layer differ in those bytes.
 //
 // The package never prints; warnings are returned to the caller, and every
-// error is an *Error naming the file, the table, the record (1-based, in
-// the order of the primary key) with its id, and the column.
+// error ReadFile returns is an *Error naming the file, the table, the
+// record (1-based, in the order of the primary key) with its id, and the
+// column. Text in the layer (values, ids, column names) is UTF-8: invalid
+// bytes become U+FFFD.
 //
 // Source: "OGC GeoPackage Encoding Standard", OGC 12-128r18, version 1.3.1
 // (2021): gpkg_contents, gpkg_geometry_columns, gpkg_spatial_ref_sys

@@ -60,7 +60,7 @@ func (rd *reader) readRecords() error {
 	rec.seen = make(map[string]int)
 	rec.cols = make([]*layer.Builder, len(rd.attrs))
 	for i, a := range rd.attrs {
-		rec.cols[i] = layer.NewBuilder(a.name, 0)
+		rec.cols[i] = layer.NewBuilder(strings.ToValidUTF8(a.name, "\uFFFD"), 0)
 	}
 	rows, err := rd.db.Query(rd.query())
 	if err != nil {

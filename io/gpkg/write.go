@@ -91,7 +91,8 @@ func wktQuote(s string) string { return `"` + strings.ReplaceAll(s, `"`, `""`) +
 // (SQLite names are case-insensitive) gets the suffix "_2", "_3", ….
 //
 // SQLite needs a file: the database is built in a temporary file, which is
-// copied to w and removed.
+// copied to w and removed. Errors are plain errors starting "gpkg: ", as
+// the output's name is the caller's to add.
 func Write(w io.Writer, l *layer.Layer, extra []*layer.Column, table string) error {
 	if table == "" {
 		table = "areas"
@@ -102,22 +103,22 @@ func Write(w io.Writer, l *layer.Layer, extra []*layer.Column, table string) err
 	}
 	tmp, err := os.CreateTemp("", "areatest-*.gpkg")
 	if err != nil {
-		return &Error{Source: l.Source, Msg: fmt.Sprintf("cannot create a temporary file for the GeoPackage: %v", err), Err: err}
+		return fmt.Errorf("gpkg: cannot create a temporary file for the GeoPackage: %w", err)
 	}
 	name := tmp.Name()
 	tmp.Close()
 	defer os.Remove(name)
 	defer os.Remove(name + "-journal")
 	if err := build(name, l, plan); err != nil {
-		return &Error{Source: l.Source, Table: table, Msg: fmt.Sprintf("cannot write the GeoPackage: %v", err), Err: err}
+		return fmt.Errorf("gpkg: cannot build the GeoPackage of %s: %w", l.Source, err)
 	}
 	f, err := os.Open(name)
 	if err != nil {
-		return &Error{Source: l.Source, Msg: fmt.Sprintf("cannot read back the GeoPackage: %v", err), Err: err}
+		return fmt.Errorf("gpkg: cannot read back the GeoPackage built: %w", err)
 	}
 	defer f.Close()
 	if _, err := io.Copy(w, f); err != nil {
-		return &Error{Source: l.Source, Msg: fmt.Sprintf("cannot write the GeoPackage: %v", err), Err: err}
+		return fmt.Errorf("gpkg: cannot write the GeoPackage: %w", err)
 	}
 	return nil
 }
@@ -135,7 +136,7 @@ type tablePlan struct {
 func planTable(l *layer.Layer, extra []*layer.Column, table string) (*tablePlan, error) {
 	n := l.Len()
 	if len(l.Geoms) != n {
-		return nil, &Error{Source: l.Source, Msg: fmt.Sprintf("the layer has %d ids but %d geometries", n, len(l.Geoms))}
+		return nil, fmt.Errorf("gpkg: the layer %s has %d ids but %d geometries", l.Source, n, len(l.Geoms))
 	}
 	p := &tablePlan{table: table, srs: srsFor(l.CRS)}
 	taken := map[string]bool{"fid": true, "geom": true}
@@ -168,7 +169,7 @@ func planTable(l *layer.Layer, extra []*layer.Column, table string) (*tablePlan,
 	}
 	for _, c := range p.cols {
 		if len(c.Missing) != n || c.Kind == layer.Number && len(c.Num) != n || c.Kind == layer.Text && len(c.Str) != n {
-			return nil, &Error{Source: l.Source, Column: c.Name, Msg: fmt.Sprintf("the column has %d values for %d areas", len(c.Missing), n)}
+			return nil, fmt.Errorf("gpkg: column %q has %d values for %d areas", c.Name, len(c.Missing), n)
 		}
 	}
 	return p, nil

@@ -141,7 +141,7 @@ func TestWriteChecks(t *testing.T) {
 	l := smallLayer()
 	short := &layer.Column{Name: "short", Kind: layer.Number, Num: []float64{1}, Missing: []bool{false}}
 	err := Write(&strings.Builder{}, l, []*layer.Column{short}, "")
-	if err == nil || !strings.Contains(err.Error(), `column "short": the column has 1 values for 3 areas`) {
+	if err == nil || !strings.Contains(err.Error(), `gpkg: column "short" has 1 values for 3 areas`) {
 		t.Errorf("short column: %v", err)
 	}
 	writeFile(t, t.TempDir(), "ok.gpkg", l, nil, `odd "name"`)
