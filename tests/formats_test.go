@@ -28,6 +28,8 @@ var formatFixtures = []struct {
 	{"formats/states-5070.geojson", true, "", nil},
 	{"formats/states.shp.zip", false, "fips", dbaseNames},
 	{"formats/states-5070.zip", true, "fips", dbaseNames},
+	{"formats/states.gpkg", false, "fips", nil},
+	{"formats/states-5070.gpkg", true, "fips", nil},
 }
 
 // dbaseNames are the column names ogr2ogr gives the states' properties in

@@ -5,6 +5,8 @@ import (
 	"os"
 	"strings"
 	"testing"
+
+	"github.com/areatest/areatest/io/input"
 )
 
 // Distances take a unit: on the lon/lat sample region a band of 20 (km)
@@ -88,5 +90,32 @@ func TestProjectedLayer(t *testing.T) {
 	}
 	if _, err := os.Stat("res.geojson"); err == nil {
 		t.Error("res.geojson was written")
+	}
+}
+
+// local --out res.gpkg writes a GeoPackage that reads back (through the
+// same reader as any input) with every area, the layer's columns and the
+// result columns; and a GeoPackage given as the input is read by content.
+func TestLocalGeoPackageOut(t *testing.T) {
+	sampleDir(t)
+	geo := runIn("", "local", "-i", "region.geojson", "--variable", "rate", "-n", "99", "--out", "res.gpkg", "--format", "json")
+	if geo.code != 0 {
+		t.Fatalf("exit %d: %s", geo.code, geo.stderr)
+	}
+	l, _, err := input.Read("res.gpkg", nil, input.Options{IDColumn: "id"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, col := range []string{"rate", "policy", "local_category", "local_statistic"} {
+		if _, err := l.Column(col); err != nil {
+			t.Errorf("res.gpkg: %v", err)
+		}
+	}
+	if l.Len() != 200 {
+		t.Errorf("res.gpkg has %d areas", l.Len())
+	}
+	again := runIn("", "local", "-i", "res.gpkg", "--id", "id", "--variable", "rate", "-n", "99", "--format", "json")
+	if again.code != 0 {
+		t.Fatalf("reading res.gpkg back: exit %d: %s", again.code, again.stderr)
 	}
 }

@@ -12,6 +12,7 @@ import (
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/gpkg"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
@@ -40,7 +41,7 @@ func (c *localFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&c.adjust, "adjust", "bh", "adjustment across areas: bh (Benjamini–Hochberg), by, holm, bonferroni or none")
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which an area counts as significant")
 	fs.StringVar(&c.categories, "categories", "adjusted", "categories from the adjusted or the raw p-values")
-	fs.StringVar(&c.out, "out", "", "per-area results: a .csv table or a .geojson copy of the layer with the results added")
+	fs.StringVar(&c.out, "out", "", "per-area results: a .csv table, or a copy of the layer with the results added: .gpkg (GeoPackage, in the layer's coordinate system) or .geojson (lon/lat layers only)")
 	fs.StringVar(&c.mapFile, "map", "", "map of the areas' categories (.svg or .png)")
 	fs.StringVar(&c.choropleth, "choropleth", "", "map of the variable in classes (.svg or .png), see --classes")
 	fs.StringVar(&c.scatter, "scatter", "", "scatter of the standardised variable against its spatial lag (.svg or .png)")
@@ -95,9 +96,9 @@ func (c *localFlags) checkFiles() error {
 	case (c.histogram == "") != (c.area == ""):
 		return usagef("--histogram and --area go together")
 	case c.out == "-":
-		return usagef("--out writes a file, not standard output: give a name ending in .csv or .geojson")
-	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json":
-		return usagef("--out must end in .csv or .geojson, not %q", ext)
+		return usagef("--out writes a file, not standard output: give a name ending in .csv, .gpkg or .geojson")
+	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json" && ext != ".gpkg":
+		return usagef("--out must end in .csv, .gpkg or .geojson, not %q", ext)
 	}
 	c.wantOutput("--out", c.out)
 	for _, p := range []struct{ flag, path string }{{"--map", c.mapFile}, {"--choropleth", c.choropleth}, {"--scatter", c.scatter}, {"--histogram", c.histogram}} {
@@ -180,8 +181,11 @@ func (c *localFlags) input() (local.Input, error) {
 func (c *localFlags) write(pics report.LocalPictures) {
 	res := pics.Result
 	table := func(w io.Writer, _ figure.Format) error {
-		if strings.EqualFold(filepath.Ext(c.out), ".csv") {
+		switch strings.ToLower(filepath.Ext(c.out)) {
+		case ".csv":
 			return report.LocalCSV(w, res)
+		case ".gpkg":
+			return gpkg.Write(w, pics.Layer, report.LocalColumns(res), "")
 		}
 		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
 	}

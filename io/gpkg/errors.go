@@ -29,6 +29,10 @@ type Error struct {
 	// polygon, which Options.SkipBadGeometry leaves out with a warning;
 	// broken geometry never is.
 	Skippable bool
+	// Layers lists the feature tables when the problem is which of them to
+	// read (several, or an unknown one named): a caller can say how to
+	// name one (Options.Layer).
+	Layers []string
 	// Err is the cause reported by SQLite or the file system, if any.
 	Err error
 }

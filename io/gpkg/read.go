@@ -176,9 +176,13 @@ func (rd *reader) findTable() error {
 				}
 			}
 		}
-		return rd.fail("", 0, "", "", "has no feature table %q; its feature tables: %s", rd.opt.Layer, quoteList(tables))
+		e := rd.fail("", 0, "", "", "has no feature table %q; its feature tables: %s", rd.opt.Layer, quoteList(tables))
+		e.Layers = tables
+		return e
 	case len(tables) > 1:
-		return rd.fail("", 0, "", "", "has several feature tables: %s", quoteList(tables))
+		e := rd.fail("", 0, "", "", "has several feature tables: %s", quoteList(tables))
+		e.Layers = tables
+		return e
 	}
 	rd.table = tables[0]
 	return nil

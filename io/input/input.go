@@ -20,6 +20,7 @@ import (
 	"strings"
 
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/gpkg"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/shapefile"
 )
@@ -173,7 +174,8 @@ func shapefilePart(path string) error {
 // null, empty, or another type), which Options.SkipBadGeometry would have
 // left out with a warning.
 func Skippable(err error) bool {
-	var ge *geojson.Error
+	var je *geojson.Error
 	var se *shapefile.Error
-	return errors.As(err, &ge) && ge.Skippable || errors.As(err, &se) && se.Skippable
+	var ge *gpkg.Error
+	return errors.As(err, &je) && je.Skippable || errors.As(err, &se) && se.Skippable || errors.As(err, &ge) && ge.Skippable
 }

@@ -6,7 +6,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
+	"strings"
 
+	"github.com/areatest/areatest/io/gpkg"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/shapefile"
 )
@@ -20,8 +23,10 @@ func readOther(path string, f Format, opt Options) (*layer.Layer, []string, erro
 	switch f {
 	case Zip, Shapefile:
 		return shapefile.ReadFile(path, shapefile.Options{IDColumn: opt.IDColumn, SkipBadGeometry: opt.SkipBadGeometry, Layer: opt.Layer})
+	case GeoPackage:
+		return gpkg.ReadFile(path, gpkg.Options{IDColumn: opt.IDColumn, SkipBadGeometry: opt.SkipBadGeometry, Layer: opt.Layer})
 	}
-	return nil, nil, &Error{Source: path, Msg: "is a " + f.String() + ", which this version does not read yet"}
+	return nil, nil, &Error{Source: path, Msg: "is a " + f.String() + ", which this version does not read"}
 }
 
 // readStdinOther reads the formats other than GeoJSON from standard input:
@@ -37,6 +42,8 @@ func readStdinOther(br *bufio.Reader, f Format, opt Options) (*layer.Layer, []st
 			return nil, nil, err
 		}
 		return shapefile.Read(bytes.NewReader(data), int64(len(data)), "stdin", shapefile.Options{IDColumn: opt.IDColumn, SkipBadGeometry: opt.SkipBadGeometry, Layer: opt.Layer})
+	case GeoPackage:
+		return readStdinGeoPackage(br, opt)
 	}
 	return nil, nil, &Error{Source: "stdin", Msg: "holds a " + f.String() + ", which this version reads only from a file"}
 }
@@ -53,13 +60,46 @@ func readAll(r io.Reader) ([]byte, error) {
 	return data, nil
 }
 
+// readStdinGeoPackage copies standard input to a temporary file, which
+// SQLite needs, reads it and removes it; messages name "stdin".
+func readStdinGeoPackage(r io.Reader, opt Options) (*layer.Layer, []string, error) {
+	tmp, err := os.CreateTemp("", "areatest-stdin-*.gpkg")
+	if err != nil {
+		return nil, nil, &Error{Source: "stdin", Msg: "holds a GeoPackage, which needs a temporary file: " + err.Error(), Err: err}
+	}
+	defer os.Remove(tmp.Name())
+	_, err = io.Copy(tmp, io.LimitReader(r, maxStdin+1))
+	if cerr := tmp.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return nil, nil, &Error{Source: "stdin", Msg: "cannot be copied to a temporary file: " + err.Error(), Err: err}
+	}
+	lay, warnings, err := gpkg.ReadFile(tmp.Name(), gpkg.Options{IDColumn: opt.IDColumn, SkipBadGeometry: opt.SkipBadGeometry, Layer: opt.Layer})
+	for i, w := range warnings {
+		warnings[i] = strings.Replace(w, tmp.Name(), "stdin", 1)
+	}
+	var ge *gpkg.Error
+	if errors.As(err, &ge) {
+		ge.Source = "stdin"
+	}
+	if lay != nil {
+		lay.Source = "stdin"
+	}
+	return lay, warnings, err
+}
+
 // Choices returns the layers of a file of several when err is about which
 // one to read (several, or an unknown one named), for a caller to say how
 // to name one; nil otherwise.
 func Choices(err error) []string {
 	var se *shapefile.Error
-	if errors.As(err, &se) {
+	var ge *gpkg.Error
+	switch {
+	case errors.As(err, &se):
 		return se.Layers
+	case errors.As(err, &ge):
+		return ge.Layers
 	}
 	return nil
 }
