@@ -119,3 +119,35 @@ func TestLocalGeoPackageOut(t *testing.T) {
 		t.Fatalf("reading res.gpkg back: exit %d: %s", again.code, again.stderr)
 	}
 }
+
+// The join's flags: a key column that does not exist is an error naming
+// the columns (exit 1), --key without --table and --table - are usage
+// errors (exit 2), and nothing is written.
+func TestTableFlags(t *testing.T) {
+	sampleDir(t)
+	if err := os.WriteFile("t.csv", []byte("id;extra\nD001;1\nD002;2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"--table", "t.csv", "--table-key", "code"}, 1, `"code"`},
+		{[]string{"--key", "id"}, 2, "--key and --table-key go with --table"},
+		{[]string{"--table", "-"}, 2, "--table must name a file"},
+		{[]string{"--table", "region.geojson"}, 1, "region.geojson"},
+	} {
+		r := runIn("", append([]string{"autocorr", "-i", "region.geojson", "--variables", "rate", "-n", "99", "-o", "out.txt"}, c.args...)...)
+		if r.code != c.code || !strings.Contains(r.stderr, c.want) {
+			t.Errorf("%v: exit %d, %q", c.args, r.code, r.stderr)
+		}
+		if _, err := os.Stat("out.txt"); err == nil {
+			t.Errorf("%v: out.txt was written", c.args)
+		}
+	}
+	ok := runIn("", "autocorr", "-i", "region.geojson", "--table", "t.csv", "--variables", "rate", "-n", "99", "--format", "json")
+	if ok.code != 0 || !strings.Contains(ok.stdout, `"areas_matched": 2`) || !strings.Contains(ok.stderr, "198 of 200 areas have no row") {
+		t.Errorf("a join of two rows: exit %d, %s", ok.code, ok.stderr)
+	}
+}
