@@ -250,6 +250,8 @@ func readLayer(path string, stdin io.Reader, opt input.Options) (lay *layer.Laye
 		err = fmt.Errorf("%w (use --skip-bad-geometry to leave such features out)", err)
 	case input.Choices(err) != nil:
 		err = fmt.Errorf("%w (with --layer NAME)", err)
+	case input.LooksLikeTable(err):
+		err = fmt.Errorf("%w (give the layer to --input and the table to --table)", err)
 	}
 	return lay, warnings, err
 }

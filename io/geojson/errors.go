@@ -29,6 +29,9 @@ type Error struct {
 	// or of another type): Options.SkipBadGeometry would have left it out,
 	// with a warning, instead of failing. Broken geometry is not skippable.
 	Skippable bool
+	// Delimited says the input looks like a table of delimited text (a
+	// CSV), not GeoJSON: a caller can say where such a table goes.
+	Delimited bool
 	// Err is the underlying cause (a JSON syntax error, a read error), if any.
 	Err error
 }
@@ -150,7 +153,9 @@ func (rd *reader) notGeoJSON() *Error {
 	case first[0] == '<':
 		return rd.fail(0, "", prefix+"like XML (KML or GML?); convert it to a GeoJSON FeatureCollection")
 	case strings.ContainsAny(first, ",;\t"):
-		return rd.fail(0, "", prefix+"like a table of delimited text (CSV), its first line %s; give the areas as a GeoJSON FeatureCollection, with the table's columns as properties", quoteLine(first))
+		e := rd.fail(0, "", prefix+"like a table of delimited text (CSV), its first line %s; a table without geometry is joined by key onto a layer of the areas, not read as one", quoteLine(first))
+		e.Delimited = true
+		return e
 	}
 	return nil
 }

@@ -179,3 +179,10 @@ func Skippable(err error) bool {
 	var ge *gpkg.Error
 	return errors.As(err, &je) && je.Skippable || errors.As(err, &se) && se.Skippable || errors.As(err, &ge) && ge.Skippable
 }
+
+// LooksLikeTable reports an error saying the input is a table of
+// delimited text (a CSV) rather than a layer.
+func LooksLikeTable(err error) bool {
+	var je *geojson.Error
+	return errors.As(err, &je) && je.Delimited
+}
