@@ -127,7 +127,7 @@ func (p LocalPictures) note() string {
 }
 
 func (p LocalPictures) mapOptions(title, subtitle string) figure.MapOptions {
-	return figure.MapOptions{Title: title, Subtitle: subtitle, LonLat: weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
+	return figure.MapOptions{Title: title, Subtitle: subtitle, LonLat: !p.Layer.CRS.Projected && weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
 		Note: p.note(), IDs: p.Layer.IDs}
 }
 
