@@ -7,6 +7,7 @@ import (
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
 	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/tests/testkit"
 	"github.com/areatest/areatest/weights"
@@ -95,7 +96,7 @@ func TestStatesEBMoranAgainstNumpy(t *testing.T) {
 		}
 		t.Logf("%s: EB Moran %.6f, one-sided permutation p %.4f", c.w.Scaling, res.Moran.MoransI, res.Moran.Permutation.PValue)
 	}
-	raw, err := autocorr.Rates(r.EB.Events, r.EB.Population)
+	raw, err := rates.Raw(r.EB.Events, r.EB.Population)
 	if err != nil {
 		t.Fatal(err)
 	}

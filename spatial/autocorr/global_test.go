@@ -7,6 +7,7 @@ import (
 
 	gspatial "gonum.org/v1/gonum/stat/spatial"
 
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -408,7 +409,7 @@ func TestConstantAndNegativeAreErrors(t *testing.T) {
 func TestEBScoresWorkedExample(t *testing.T) {
 	e := []float64{2, 10, 1, 7}
 	p := []float64{100, 400, 50, 200}
-	s, err := EBStandardise(e, p)
+	s, err := rates.EBStandardise(e, p)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -436,30 +437,6 @@ func TestEBScoresWorkedExample(t *testing.T) {
 	direct, _ := MoransI(want, g)
 	if !near(eb.Moran.MoransI, direct, 1e-13) || !eb.Moran.Permutation.Exact || eb.Moran.Permutation.Permutations != 24 {
 		t.Errorf("EB Moran %v (direct %v), permutation %+v", eb.Moran.MoransI, direct, eb.Moran.Permutation)
-	}
-}
-
-func TestRatesErrorsAndWarnings(t *testing.T) {
-	for _, c := range []struct{ e, p []float64 }{
-		{[]float64{1, 2}, []float64{10, 0}},
-		{[]float64{1, 2}, []float64{10, -5}},
-		{[]float64{-1, 2}, []float64{10, 5}},
-		{[]float64{1, math.NaN()}, []float64{10, 5}},
-		{[]float64{1, 2, 3}, []float64{10, 5}},
-	} {
-		if _, err := EBStandardise(c.e, c.p); err == nil {
-			t.Errorf("events %v population %v accepted", c.e, c.p)
-		}
-	}
-	if _, err := EBStandardise([]float64{0, 0, 0}, []float64{1, 2, 3}); err == nil {
-		t.Error("no events accepted")
-	}
-	s, err := EBStandardise([]float64{12, 2, 3}, []float64{10, 20, 30})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(s.AboveOne) != 1 || s.AboveOne[0] != 0 {
-		t.Errorf("above one: %v", s.AboveOne)
 	}
 }
 

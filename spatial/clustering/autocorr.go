@@ -6,6 +6,7 @@ import (
 	"sort"
 
 	"github.com/areatest/areatest/spatial/autocorr"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -293,7 +294,7 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 			return nil, fmt.Errorf("area %q: %s is %v; event counts cannot be negative", id, in.Events.Name, ev[k])
 		}
 	}
-	raw, err := autocorr.Rates(ev, pop)
+	raw, err := rates.Raw(ev, pop)
 	if err != nil {
 		return nil, named(err, name)
 	}
