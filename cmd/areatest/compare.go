@@ -215,7 +215,7 @@ func flagAdvice(err error) error {
 	case errors.As(err, &le):
 		return &advised{"--contrast " + le.Facts(), err}
 	case errors.As(err, &te):
-		return &advised{te.Facts() + "; use kruskal-wallis or anova-f, or pick two with --contrast", err}
+		return &advised{te.Facts() + "; use " + te.Instead + ", or pick two with --contrast", err}
 	case errors.As(err, &se):
 		// A setting, not the data, is to change: a usage error.
 		return usagef("--check-shuffles %d cannot reject at --alpha %g: the smallest p-value %d shuffles give is %.3g; use --check-shuffles %d or more, or --false-positive-check 0",

@@ -25,7 +25,7 @@ func (c *comparison) effectiveSize(res *Result) error {
 		return err
 	}
 	k := c.k()
-	out, err := lags.Groups(c.y, c.lab, k, c.opt.Alternative)
+	out, err := lags.Groups(c.spatialY(), c.lab, k, c.opt.Alternative)
 	if errors.Is(err, effective.ErrTooFew) || errors.Is(err, effective.ErrConstant) {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("The effective sample size could not be estimated: %v.", err))
 		return nil

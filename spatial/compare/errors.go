@@ -5,8 +5,6 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
-
-	"github.com/areatest/areatest/spatial/groups"
 )
 
 // Error is a problem with the data that the user must fix; it names the
@@ -64,13 +62,15 @@ func (e *LevelError) Facts() string {
 // TwoGroupError is a two-group statistic asked for on a column with more
 // than two levels among the tested areas.
 type TwoGroupError struct {
-	Statistic groups.Statistic
+	Statistic fmt.Stringer
 	Column    string
 	Levels    []string
+	// Instead names the statistics that take any number of groups.
+	Instead string
 }
 
 func (e *TwoGroupError) Error() string {
-	return e.Facts() + "; use kruskal-wallis or anova-f, or pick two levels as the contrast"
+	return e.Facts() + "; use " + e.Instead + ", or pick two levels as the contrast"
 }
 
 // Facts says what is wrong, without the advice.

@@ -2,6 +2,7 @@ package compare
 
 import (
 	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/spatial/surrogate"
 	"github.com/areatest/areatest/weights"
@@ -35,6 +36,22 @@ type Input struct {
 	// Covariates, when given, make every scheme test the group effect
 	// adjusted for them (Freedman & Lane 1983).
 	Covariates []Covariate
+	// Events and Population, when Events is set, make the comparison one of
+	// rates (rates.go): the outcome is each area's rate, and the groups are
+	// compared by their pooled rates. The Outcome fields are then left
+	// empty.
+	Events     *Count
+	Population *Count
+	// countProblem gives, per area, why its counts make no rate (set by
+	// withRates when such areas are left out).
+	countProblem []string
+}
+
+// Count is a column of counts: events, or the population at risk.
+type Count struct {
+	Name    string
+	Values  []float64
+	Missing []bool
 }
 
 // Covariate is a numeric column to adjust for.
@@ -87,6 +104,29 @@ type Options struct {
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)
+	// Rates tune a comparison of rates (Input.Events set).
+	Rates RateOptions
+}
+
+// RateOptions tune a comparison of rates.
+type RateOptions struct {
+	// Statistic compares the groups' pooled rates; 0 chooses the rate
+	// ratio for two groups and the homogeneity X² for more, unless
+	// Options.Statistic asks for a statistic of the area rates instead.
+	Statistic rates.Statistic
+	// Per is the multiplier rates are shown with (100,000: "per 100,000");
+	// 0 means 100,000.
+	Per float64
+	// EventsAbovePopulation allows more events than population (repeat
+	// events, person-time).
+	EventsAbovePopulation bool
+	// LeaveOutBadCounts leaves out areas whose counts make no rate (a
+	// population not above zero, a negative count, more events than
+	// population), each with its reason, instead of failing on the first.
+	LeaveOutBadCounts bool
+	// UnstableBelow is the number of events below which an area's rate is
+	// flagged as unstable; 0 means rates.DefaultUnstable (20).
+	UnstableBelow float64
 }
 
 // checkShuffles is FalsePositiveShuffles with its default.

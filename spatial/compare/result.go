@@ -29,6 +29,9 @@ type Result struct {
 	Cautions        []string        `json:"cautions"`
 	// Adjusted describes the covariate adjustment, when asked for.
 	Adjusted *CovariateInfo `json:"adjusted,omitempty"`
+	// Rates describes a comparison of rates: the groups' pooled rates,
+	// the unstable rates and the missing counts.
+	Rates *RatesInfo `json:"rates,omitempty"`
 	// Zones describes the automatic zones of the within-zone shuffle.
 	Zones *ZonesInfo `json:"zones,omitempty"`
 	// EffectiveSampleSize is the modified t-test of outcome against

@@ -9,6 +9,7 @@ import (
 	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -48,6 +49,11 @@ type comparison struct {
 	// the check measures, and checkRows their rows in Result.Tests.
 	checks    []CheckScheme
 	checkRows []int
+	// rateStat is the statistic of pooled rates of a comparison of rates
+	// (0 otherwise, or when a statistic of the area rates was asked for);
+	// rates holds the counts.
+	rateStat rates.Statistic
+	rates    *rateState
 }
 
 // k is the number of groups.
@@ -63,6 +69,12 @@ func (c *comparison) k() int { return len(c.levels) }
 // work.
 func Run(in Input, opt Options) (*Result, error) {
 	n := len(in.IDs)
+	if in.Events != nil {
+		var err error
+		if in, err = withRates(in, opt.Rates); err != nil {
+			return nil, err
+		}
+	}
 	if len(in.Outcome) != n || len(in.Group) != n || in.Graph == nil || in.Graph.Len() != n {
 		return nil, errors.New("compare: input columns and graph disagree in length")
 	}
@@ -76,6 +88,9 @@ func Run(in Input, opt Options) (*Result, error) {
 		return nil, err
 	}
 	t := &tester{opt: opt, data: c.data, stat: c.stat, alt: c.alt}
+	if c.rates != nil && c.rates.stat != 0 {
+		t.counts, t.rateStat, t.lab, t.k = c.rates.counts, c.rates.stat, c.lab, c.k()
+	}
 	if len(in.Covariates) > 0 {
 		if err := t.adjustFor(c, res); err != nil {
 			return nil, err
@@ -148,11 +163,22 @@ func prepare(in Input, opt Options, res *Result) (*comparison, error) {
 	if c.stat.TwoGroupsOnly() {
 		res.Statistic.Contrast = []string{c.levels[0], c.levels[1]}
 	}
+	if in.Events != nil {
+		if err := c.prepareRates(res); err != nil {
+			return nil, err
+		}
+		if s := c.rateStat; s != 0 {
+			res.Statistic = StatisticInfo{Name: s.Flag(), Label: s.String(), Observed: c.rates.counts.Value(s, c.lab, c.k())}
+			if s.TwoGroupsOnly() {
+				res.Statistic.Contrast = []string{c.levels[0], c.levels[1]}
+			}
+		}
+	}
 	if math.IsNaN(res.Statistic.Observed) || math.IsInf(res.Statistic.Observed, 0) {
 		return nil, dataErr("the %s of %s is undefined for these data (is %s constant within each group?)", c.stat, in.OutcomeName, in.OutcomeName)
 	}
 	c.alt = opt.Alternative
-	if !c.stat.Directional() && c.alt != shuffle.Greater {
+	if directional := c.stat.Directional(); (c.rateStat == 0 && !directional || c.rateStat != 0 && !c.rateStat.Directional()) && c.alt != shuffle.Greater {
 		// H and F grow with any separation of the groups; only their upper
 		// tail is evidence.
 		c.alt = shuffle.Greater
@@ -214,6 +240,12 @@ func selectAreas(in Input, contrast []string) ([]int, []Exclusion, error) {
 // lacks ("missing COLUMN"), or "" when it has them all.
 func missingReason(in Input, i int) string {
 	switch {
+	case in.Events != nil && in.Events.Missing[i]:
+		return "missing " + in.Events.Name
+	case in.Events != nil && in.Population.Missing[i]:
+		return "missing " + in.Population.Name
+	case in.countProblem != nil && in.countProblem[i] != "":
+		return in.countProblem[i]
 	case in.OutcomeMissing[i]:
 		return "missing " + in.OutcomeName
 	case in.GroupMissing[i]:
@@ -286,6 +318,9 @@ func (c *comparison) setLevels() error {
 // chooseStatistic takes the statistic asked for, or by default the
 // difference in medians for two groups and Kruskal–Wallis H for more.
 func (c *comparison) chooseStatistic() error {
+	if c.in.Events != nil && c.opt.Statistic == nil {
+		return c.chooseRateStatistic()
+	}
 	c.stat = groups.KruskalWallis
 	if c.k() == 2 {
 		c.stat = groups.DiffMedians
@@ -293,8 +328,39 @@ func (c *comparison) chooseStatistic() error {
 	if c.opt.Statistic != nil {
 		c.stat = *c.opt.Statistic
 		if c.stat.TwoGroupsOnly() && c.k() != 2 {
-			return &TwoGroupError{Statistic: c.stat, Column: c.in.GroupName, Levels: c.levels}
+			return &TwoGroupError{Statistic: c.stat, Column: c.in.GroupName, Levels: c.levels, Instead: "kruskal-wallis or anova-f"}
 		}
 	}
 	return nil
+}
+
+// chooseRateStatistic takes the statistic of pooled rates asked for, or
+// by default the rate ratio for two groups and the homogeneity X² for
+// more.
+func (c *comparison) chooseRateStatistic() error {
+	c.rateStat = c.opt.Rates.Statistic
+	if c.rateStat == 0 {
+		c.rateStat = rates.RateHomogeneity
+		if c.k() == 2 {
+			c.rateStat = rates.RateRatio
+		}
+	}
+	if c.rateStat.TwoGroupsOnly() && c.k() != 2 {
+		return &TwoGroupError{Statistic: c.rateStat, Column: c.in.GroupName, Levels: c.levels, Instead: "rate-homogeneity"}
+	}
+	// The area rates are summarised per group as any outcome is.
+	c.stat = groups.DiffMeans
+	if c.k() > 2 {
+		c.stat = groups.OneWayF
+	}
+	return nil
+}
+
+// spatialY is the outcome the spatial parts read: the outcome, or, for a
+// comparison of rates, the empirical-Bayes standardised rates.
+func (c *comparison) spatialY() []float64 {
+	if c.rates != nil {
+		return c.rates.eb.Scores
+	}
+	return c.y
 }

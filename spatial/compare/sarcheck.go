@@ -276,8 +276,12 @@ func (c *comparison) sarCheck(t *tester, g *weights.Graph, basis *surrogate.Basi
 	if err := checkShuffles(B, alpha, t.testAlt()); errors.As(err, &cs) {
 		B = cs.Need
 	}
-	p, err := sarNullPValues(m, basis, t.null(c), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
-		Alternative: t.testAlt(), Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
+	alt := t.testAlt()
+	if c.rates != nil && t.counts != nil {
+		alt = c.rates.scoreAlt(t.alt)
+	}
+	p, err := sarNullPValues(m, basis, t.spectralNull(c), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
+		Alternative: alt, Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
 	if err != nil {
 		// A simulation that does not converge (ρ at the edge of its
 		// range) says the model does not suit these data: skip, as above.

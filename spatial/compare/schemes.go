@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -94,6 +95,12 @@ type tester struct {
 	flEval  shuffle.Factory
 	flAlt   shuffle.Alternative
 	covName string
+	// counts is set when the test compares pooled rates: the shuffles
+	// move the labels lab (area order) over the areas' counts.
+	counts   *rates.Counts
+	rateStat rates.Statistic
+	lab      []int32
+	k        int
 }
 
 // run tests the statistic with labels exchanged only within strata (given
@@ -105,6 +112,11 @@ func (t *tester) run(scheme string, strata []int32, purpose uint64, stage string
 		plan.Labels, plan.Strata, plan.Alternative, plan.Scale = t.fl.Labels(), strata, t.flAlt, 1
 		plan.Scheme = scheme + ", adjusted for " + t.covName
 		return shuffle.Run(plan, t.flEval)
+	}
+	if t.counts != nil {
+		plan.Labels, plan.Strata, plan.Alternative = t.lab, strata, t.alt
+		plan.Scale = rateScale(t.counts.Value(t.rateStat, t.lab, t.k))
+		return shuffle.Run(plan, t.counts.Factory(t.rateStat, t.k))
 	}
 	plan.Labels, plan.Alternative = t.data.Labels, t.alt
 	plan.Scale = 1
@@ -134,6 +146,9 @@ func (t *tester) testAlt() shuffle.Alternative {
 // null returns the factory of one goroutine's copy of the test the rows
 // report, for the false-positive and SAR checks.
 func (t *tester) null(c *comparison) func() (nullTest, error) {
+	if t.counts != nil {
+		return func() (nullTest, error) { return newRateNull(c.rates, c.lab, c.k(), t.alt), nil }
+	}
 	if t.fl != nil {
 		two := c.k() == 2
 		return func() (nullTest, error) { return newAdjustedNull(t.fl, two, t.flAlt) }
@@ -147,6 +162,23 @@ func (t *tester) null(c *comparison) func() (nullTest, error) {
 	}
 }
 
+// spectralNull is null for the spectral row's own check (the SAR check):
+// the same test, except for a comparison of pooled rates, whose spectral
+// row tests the empirical-Bayes scores (rateState.scoreStat).
+func (t *tester) spectralNull(c *comparison) func() (nullTest, error) {
+	if t.counts == nil {
+		return t.null(c)
+	}
+	gs, err := NewGroupStatistic(c.rates.scoreStat, c.lab, c.k())
+	alt := c.rates.scoreAlt(t.alt)
+	return func() (nullTest, error) {
+		if err != nil {
+			return nil, err
+		}
+		return newGroupNull(gs, alt), nil
+	}
+}
+
 // target is the vector whose spectral surrogates stand for the null: the
 // outcome, or, with covariates, its residuals from the covariates-only
 // model (the part of it the test permutes).
@@ -154,7 +186,7 @@ func (t *tester) target(c *comparison) []float64 {
 	if t.fl != nil {
 		return t.fl.Residuals()
 	}
-	return c.y
+	return c.spatialY()
 }
 
 // adjustFor switches the tester to the Freedman–Lane test of the group

@@ -60,11 +60,15 @@ func (c *comparison) morans(g *weights.Graph, linked []int, res *Result) error {
 		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided}
 	ys := make([]float64, len(linked))
 	for k, i := range linked {
-		ys[k] = c.y[i]
+		ys[k] = c.spatialY()[i]
 	}
 	plan.Purpose = streamMoranOutcome
 	plan.Progress = opt.progress("Moran's I of " + in.OutcomeName)
-	outcome, err := moranOf(in.OutcomeName, ys, g, plan)
+	name := in.OutcomeName
+	if c.rates != nil {
+		name += " (empirical-Bayes standardised)"
+	}
+	outcome, err := moranOf(name, ys, g, plan)
 	if err != nil {
 		return dataErr("Moran's I of %s: %w", in.OutcomeName, err)
 	}

@@ -73,9 +73,19 @@ func (c *comparison) surrogateTest(t *tester, o *surrogate.Outcome, res *Result)
 		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, Progress: opt.progress("spectral surrogates")}
 	var sp shuffle.Result
 	var err error
-	if t.fl != nil {
+	switch {
+	case t.fl != nil:
 		sp, err = shuffle.RunSurrogates(plan, res.Adjusted.Observed, o.NewDraw, t.fl.OnOutcomes(c.k() == 2), o.Len())
-	} else {
+	case t.counts != nil:
+		// The scores' own statistic (see scoreStatistic).
+		z := c.rates.eb.Scores
+		plan.Scale, plan.Alternative = slices.Max(z)-slices.Min(z), c.rates.scoreAlt(t.alt)
+		var gs *GroupStatistic
+		if gs, err = NewGroupStatistic(c.rates.scoreStat, c.lab, c.k()); err != nil {
+			return err
+		}
+		sp, err = GroupTest(o, gs, gs.Value(z), plan)
+	default:
 		if c.stat.InOutcomeUnits() {
 			plan.Scale = slices.Max(c.y) - slices.Min(c.y)
 		}

@@ -50,6 +50,10 @@ type EBScores struct {
 	Floored []int `json:"floored,omitempty"`
 	// AboveOne lists the areas with more events than population.
 	AboveOne []int `json:"above_one,omitempty"`
+	// SD holds √v_i, each rate's standard deviation around b under the
+	// model (the denominator of its score), so that a score z maps back to
+	// the rate b + z·SD[i].
+	SD []float64 `json:"-"`
 }
 
 // EBStandardise computes the empirical-Bayes standardised rates (Assunção
@@ -89,14 +93,15 @@ func EBStandardise(events, population []float64) (EBScores, error) {
 	}
 	s2 /= sp
 	a := s2 - b/(sp/float64(n))
-	out := EBScores{Rates: r, Scores: make([]float64, n), Mean: b, Between: a}
+	out := EBScores{Rates: r, Scores: make([]float64, n), Mean: b, Between: a, SD: make([]float64, n)}
 	for i, v := range r {
 		vi := a + b/population[i]
 		if vi <= 0 {
 			vi = b / population[i]
 			out.Floored = append(out.Floored, i)
 		}
-		out.Scores[i] = (v - b) / math.Sqrt(vi)
+		out.SD[i] = math.Sqrt(vi)
+		out.Scores[i] = (v - b) / out.SD[i]
 		if events[i] > population[i] {
 			out.AboveOne = append(out.AboveOne, i)
 		}

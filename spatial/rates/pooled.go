@@ -65,9 +65,11 @@ func Unstable(events []float64, threshold float64) []int {
 // Problem is what is wrong with one area's counts.
 type Problem struct {
 	// Index is the area's position; Reason says what is wrong in words
-	// ("the population is 0; a rate needs a population above zero").
-	Index  int
-	Reason string
+	// ("the population is 0; a rate needs a population above zero"), Kind
+	// in a few ("population not above zero"), the same for every area with
+	// that problem.
+	Index        int
+	Reason, Kind string
 }
 
 // Check lists the areas whose counts cannot make a rate: a value that is
@@ -78,21 +80,21 @@ func Check(events, population []float64, aboveAllowed bool) []Problem {
 	var out []Problem
 	for i := range events {
 		e, p := events[i], population[i]
-		var why string
+		var why, kind string
 		switch {
 		case math.IsNaN(e) || math.IsInf(e, 0):
-			why = fmt.Sprintf("the event count %v is not a finite number", e)
+			why, kind = fmt.Sprintf("the event count %v is not a finite number", e), "a count that is not a number"
 		case math.IsNaN(p) || math.IsInf(p, 0):
-			why = fmt.Sprintf("the population %v is not a finite number", p)
+			why, kind = fmt.Sprintf("the population %v is not a finite number", p), "a count that is not a number"
 		case p <= 0:
-			why = fmt.Sprintf("the population is %v; a rate needs a population above zero", p)
+			why, kind = fmt.Sprintf("the population is %v; a rate needs a population above zero", p), "population not above zero"
 		case e < 0:
-			why = fmt.Sprintf("the event count is %v; counts cannot be negative", e)
+			why, kind = fmt.Sprintf("the event count is %v; counts cannot be negative", e), "negative event count"
 		case e > p && !aboveAllowed:
-			why = fmt.Sprintf("there are more events (%v) than people (%v)", e, p)
+			why, kind = fmt.Sprintf("there are more events (%v) than people (%v)", e, p), "more events than population"
 		}
 		if why != "" {
-			out = append(out, Problem{Index: i, Reason: why})
+			out = append(out, Problem{Index: i, Reason: why, Kind: kind})
 		}
 	}
 	return out

@@ -44,6 +44,17 @@ func (s Statistic) String() string {
 	return fmt.Sprintf("rate statistic %d", int(s))
 }
 
+// Flag is the statistic's name as ParseStatistic reads it.
+func (s Statistic) Flag() string {
+	switch s {
+	case RateRatio:
+		return "rate-ratio"
+	case RateDifference:
+		return "rate-difference"
+	}
+	return "rate-homogeneity"
+}
+
 // TwoGroupsOnly reports a statistic that compares exactly two groups.
 func (s Statistic) TwoGroupsOnly() bool { return s != RateHomogeneity }
 
@@ -68,7 +79,7 @@ func NewCounts(events, population []float64, aboveAllowed bool) (*Counts, error)
 	if ps := Check(events, population, aboveAllowed); len(ps) > 0 {
 		return nil, fmt.Errorf("rates: area %d: %s", ps[0].Index+1, ps[0].Reason)
 	}
-	c := &Counts{Events: events, Population: population}
+	c := &Counts{Events: append([]float64(nil), events...), Population: population}
 	for i := range events {
 		c.events += events[i]
 		c.population += population[i]
@@ -98,19 +109,40 @@ func (c *Counts) Factory(s Statistic, k int) shuffle.Factory {
 				ev[l] += c.Events[i]
 				pop[l] += c.Population[i]
 			}
-			switch s {
-			case RateRatio:
-				return (ev[0] / pop[0]) / (ev[1] / pop[1])
-			case RateDifference:
-				return ev[0]/pop[0] - ev[1]/pop[1]
-			}
-			b := c.events / c.population
-			var x2 float64
-			for g := range ev {
-				want := b * pop[g]
-				x2 += (ev[g] - want) * (ev[g] - want) / want
-			}
-			return x2
+			return s.FromGroups(ev, pop)
 		}
 	}
+}
+
+// SetEvents replaces the event counts (a null outcome mapped back to
+// counts, say) without checking them again, and sums them anew.
+func (c *Counts) SetEvents(events []float64) {
+	copy(c.Events, events)
+	c.events = 0
+	for _, e := range c.Events {
+		c.events += e
+	}
+}
+
+// FromGroups computes the statistic from each group's events and
+// population: the one formula behind every evaluation.
+func (s Statistic) FromGroups(ev, pop []float64) float64 {
+	switch s {
+	case RateRatio:
+		return (ev[0] / pop[0]) / (ev[1] / pop[1])
+	case RateDifference:
+		return ev[0]/pop[0] - ev[1]/pop[1]
+	}
+	var te, tp float64
+	for g := range ev {
+		te += ev[g]
+		tp += pop[g]
+	}
+	b := te / tp
+	var x2 float64
+	for g := range ev {
+		want := b * pop[g]
+		x2 += (ev[g] - want) * (ev[g] - want) / want
+	}
+	return x2
 }
