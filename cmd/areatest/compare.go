@@ -13,6 +13,7 @@ import (
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/groups"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -23,13 +24,24 @@ type compareFlags struct {
 	contrast, covariates                     []string
 	surrogates, fpChecks, fpShuffles         int
 	alpha                                    float64
-	opt                                      compare.Options // set by check
+	// A comparison of rates: event and population columns instead of an
+	// outcome.
+	events, population          string
+	per, unstableBelow          float64
+	aboveAllowed, leaveOutCount bool
+	opt                         compare.Options // set by check
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	if withColumns {
 		c.registerInput(fs)
 		fs.StringVarP(&c.outcome, "outcome", "y", "", "numeric column to compare")
+		fs.StringVar(&c.events, "events", "", "instead of --outcome: column of event counts (cases, deaths), compared as rates with --population")
+		fs.StringVar(&c.population, "population", "", "with --events: column of populations at risk")
+		fs.Float64Var(&c.per, "per", compare.DefaultPer, "with --events: show rates per this many people")
+		fs.Float64Var(&c.unstableBelow, "unstable-below", rates.DefaultUnstable, "with --events: flag rates resting on fewer events than this as unstable")
+		fs.BoolVar(&c.aboveAllowed, "allow-events-above-population", false, "with --events: accept more events than population (repeat events, person-time)")
+		fs.BoolVar(&c.leaveOutCount, "leave-out-bad-counts", false, "with --events: leave out areas whose counts make no rate (population 0, negative counts), with the reason, instead of stopping")
 		fs.StringVarP(&c.group, "group", "g", "", "column whose values name the groups")
 		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
@@ -38,7 +50,7 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often each label shuffle (free, --strata, --zones) cries wolf (0: none; at most "+numtext.Count(compare.MaxFalsePositiveChecks)+")")
 	fs.IntVar(&c.fpShuffles, "check-shuffles", 199, "shuffles per surrogate and scheme in the false-positive check (Monte Carlo, never exact; 19 or more one-sided, 39 two-sided at --alpha 0.05; at most "+numtext.Count(compare.MaxCheckShuffles)+")")
 	fs.StringVar(&c.zones, "zones", "none", "auto: without --strata, on 300 or more areas, also shuffle within automatic contiguous zones (off by default: measured to overstate significance when outcome and grouping cluster)")
-	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more)")
+	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more);\nwith --events: rate-ratio, rate-difference (two groups), rate-homogeneity (any number), or one of the above on the area rates\n(default rate-ratio for two groups, rate-homogeneity for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
 	c.registerRun(fs, "text", "json")
@@ -50,12 +62,9 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 func (c *compareFlags) check() error {
 	c.opt = compare.Options{Contrast: c.contrast, Permutations: c.permutations, Seed: c.seed, Workers: c.workers, Alpha: c.alpha,
 		Surrogates: c.surrogates, FalsePositives: c.fpChecks, FalsePositiveShuffles: c.fpShuffles}
-	if c.statistic != "" {
-		s, err := groups.ParseStatistic(c.statistic)
-		if err != nil {
-			return usagef("--statistic: %v", err)
-		}
-		c.opt.Statistic = &s
+	c.opt.Rates = compare.RateOptions{Per: c.per, EventsAbovePopulation: c.aboveAllowed, LeaveOutBadCounts: c.leaveOutCount, UnstableBelow: c.unstableBelow}
+	if err := c.checkRates(); err != nil {
+		return err
 	}
 	zones, err := choice.Parse("--zones", c.zones, choice.Name[bool]{Name: "auto", Value: true}, choice.Name[bool]{Name: "none"})
 	c.opt.Zones = zones
@@ -107,10 +116,13 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	for _, req := range []struct{ name, val string }{{"input", c.input}, {"outcome", c.outcome}, {"group", c.group}} {
+	for _, req := range []struct{ name, val string }{{"input", c.input}, {"group", c.group}} {
 		if req.val == "" {
 			return usagef("--%s is required (see areatest compare --help)", req.name)
 		}
+	}
+	if c.outcome == "" && c.events == "" {
+		return usagef("--outcome is required, or --events with --population (see areatest compare --help)")
 	}
 	if err := c.check(); err != nil {
 		return err
@@ -160,19 +172,14 @@ func (c *compareFlags) compare(stderr io.Writer) (*compare.Result, error) {
 // the layer.
 func (c *compareFlags) columns() (compare.Input, error) {
 	lay := c.lay
-	outcome, err := lay.NumericColumn(c.outcome, "the outcome")
-	if err != nil {
-		return compare.Input{}, err
-	}
 	group, err := lay.Column(c.group)
 	if err != nil {
 		return compare.Input{}, err
 	}
-	if c.group == c.outcome {
-		return compare.Input{}, fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+	in := compare.Input{IDs: lay.IDs, GroupName: c.group, Group: group.Labels(), GroupMissing: group.Missing}
+	if err := c.outcomeColumns(&in); err != nil {
+		return in, err
 	}
-	in := compare.Input{IDs: lay.IDs, OutcomeName: c.outcome, Outcome: outcome.Num, OutcomeMissing: outcome.Missing,
-		GroupName: c.group, Group: group.Labels(), GroupMissing: group.Missing}
 	for _, name := range c.covariates {
 		if name == c.outcome || name == c.group {
 			return in, fmt.Errorf("%s: %q cannot be both a covariate and the outcome or the group", lay.Source, name)
@@ -222,4 +229,74 @@ func flagAdvice(err error) error {
 			se.Shuffles, se.Alpha, se.Shuffles, se.Smallest, se.Need)
 	}
 	return err
+}
+
+// checkRates checks the flags of a comparison of rates and reads
+// --statistic, which names a statistic of pooled rates or one of an
+// outcome (with --events, of the area rates).
+func (c *compareFlags) checkRates() error {
+	changed := c.weights.changed
+	rateFlags := changed("population") || changed("per") || changed("unstable-below") || c.aboveAllowed || c.leaveOutCount
+	switch {
+	case c.events != "" && c.outcome != "":
+		return usagef("give --outcome, or --events with --population, not both")
+	case c.events != "" && c.population == "":
+		return usagef("--events needs --population")
+	case c.events == "" && rateFlags:
+		return usagef("--population, --per, --unstable-below, --allow-events-above-population and --leave-out-bad-counts go with --events")
+	case c.events != "" && (!(c.per > 0) || c.unstableBelow < 0):
+		return usagef("--per must be above 0, --unstable-below not negative")
+	}
+	if c.statistic == "" {
+		return nil
+	}
+	if rs, err := rates.ParseStatistic(c.statistic); err == nil {
+		if c.events == "" {
+			return usagef("--statistic %s compares rates: give --events and --population", c.statistic)
+		}
+		c.opt.Rates.Statistic = rs
+		return nil
+	}
+	s, err := groups.ParseStatistic(c.statistic)
+	if err != nil {
+		if c.events != "" {
+			return usagef("--statistic: %v, or rate-ratio, rate-difference or rate-homogeneity", err)
+		}
+		return usagef("--statistic: %v", err)
+	}
+	c.opt.Statistic = &s
+	return nil
+}
+
+// outcomeColumns puts the outcome, or the event and population columns of
+// a comparison of rates, into in.
+func (c *compareFlags) outcomeColumns(in *compare.Input) error {
+	lay := c.lay
+	if c.events == "" {
+		if c.group == c.outcome {
+			return fmt.Errorf("%s: the outcome and the group are the same column %q", lay.Source, c.group)
+		}
+		outcome, err := lay.NumericColumn(c.outcome, "the outcome")
+		if err != nil {
+			return err
+		}
+		in.OutcomeName, in.Outcome, in.OutcomeMissing = c.outcome, outcome.Num, outcome.Missing
+		return nil
+	}
+	for _, name := range []string{c.events, c.population} {
+		if name == c.group {
+			return fmt.Errorf("%s: %q cannot be both a count and the group", lay.Source, name)
+		}
+	}
+	events, err := lay.NumericColumn(c.events, "the event count")
+	if err != nil {
+		return err
+	}
+	pop, err := lay.NumericColumn(c.population, "the population")
+	if err != nil {
+		return err
+	}
+	in.Events = &compare.Count{Name: c.events, Values: events.Num, Missing: events.Missing}
+	in.Population = &compare.Count{Name: c.population, Values: pop.Num, Missing: pop.Missing}
+	return nil
 }
