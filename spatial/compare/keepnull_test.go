@@ -21,7 +21,7 @@ func TestRowsKeepTheirNull(t *testing.T) {
 	lab := aboveMedian(autoregressive(t, w, 0.6, rng))
 	ids, group, strata := make([]string, n), make([]string, n), make([]string, n)
 	for i := range ids {
-		ids[i], group[i], strata[i] = fmt.Sprint(i), []string{"A", "B"}[lab[i]], fmt.Sprint(i * 3 / n)
+		ids[i], group[i], strata[i] = fmt.Sprint(i), []string{"A", "B"}[lab[i]], fmt.Sprint(i*3/n)
 	}
 	base := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n), GroupName: "g", Group: group,
 		GroupMissing: make([]bool, n), Graph: g}
