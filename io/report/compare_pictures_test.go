@@ -15,7 +15,7 @@ import (
 // lattice is a comparison on a 12×12 rook lattice: an outcome that drifts
 // across the lattice, two groups split by column parity and three strata
 // of rows, with hostile-looking column names.
-func lattice(t *testing.T, covariate bool) compare.Input {
+func lattice(covariate bool) compare.Input {
 	g := weights.Lattice(12, 12, weights.Rook)
 	n := g.Len()
 	in := compare.Input{IDs: make([]string, n), OutcomeName: "rate<b>", Outcome: make([]float64, n), OutcomeMissing: make([]bool, n),
@@ -49,7 +49,7 @@ func TestComparePicturesNulls(t *testing.T) {
 		{"adjusted, no check", true, 0, []string{"t of the group effect, adjusted for income", "free, adjusted for income"}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			res, err := compare.Run(lattice(t, c.covariate), compare.Options{Permutations: 199, Seed: 2, Workers: 2, Alpha: 0.05,
+			res, err := compare.Run(lattice(c.covariate), compare.Options{Permutations: 199, Seed: 2, Workers: 2, Alpha: 0.05,
 				Surrogates: 99, FalsePositives: c.checks, FalsePositiveShuffles: 39, SARChecks: 5, SARCheckSurrogates: 39, KeepNull: true})
 			if err != nil {
 				t.Fatal(err)
@@ -79,7 +79,7 @@ func TestComparePicturesNulls(t *testing.T) {
 			}
 		})
 	}
-	res, err := compare.Run(lattice(t, false), compare.Options{Permutations: 99, Seed: 2, Alpha: 0.05})
+	res, err := compare.Run(lattice(false), compare.Options{Permutations: 99, Seed: 2, Alpha: 0.05})
 	if err != nil {
 		t.Fatal(err)
 	}
