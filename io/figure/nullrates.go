@@ -10,7 +10,8 @@ import (
 // rateLayout is where the false-positive check of NullPanels goes, in
 // pixels from the top left.
 type rateLayout struct {
-	headY          float64 // baseline of the heading
+	heading        []string
+	headY          float64 // baseline of the heading's first line
 	alphaY         float64 // baseline of the level's label
 	rowsTop        float64
 	nameX, x0, x1  float64 // names start at nameX; the rate axis runs x0 to x1
@@ -21,22 +22,35 @@ type rateLayout struct {
 	axisY          float64
 }
 
+// rateHeadLineH is the height of a line of the check's heading, which
+// wraps to two lines at most.
+const rateHeadLineH = 20.0
+
+// rateHeight is the height the check takes, from the gap above its
+// heading to the label of its axis.
+func rateHeight(ff *fontFaces, w float64, rates []RateRow, opt NullOptions) float64 {
+	lines := len(ff.wrap(cmp.Or(opt.CheckTitle, "False-positive check"), true, 15, w-2*margin, 2))
+	return 28 + 22 + 18 + float64(lines-1)*rateHeadLineH + float64(len(rates))*rateRowH + rateAxisH
+}
+
 // x maps a rate to its position on the check's axis.
 func (R rateLayout) x(v float64) float64 { return R.x0 + v/R.max*(R.x1-R.x0) }
 
 // layoutRates places the check from top down in a picture w pixels wide:
 // names on the left, details on the right, the rate axis between them,
 // reaching past the highest interval and at least to twice the level.
-func layoutRates(ff *fontFaces, w, top float64, rates []RateRow, alpha float64) (rateLayout, error) {
-	R := rateLayout{alpha: cmp.Or(alpha, 0.05), nameX: margin}
+func layoutRates(ff *fontFaces, w, top float64, rates []RateRow, opt NullOptions) (rateLayout, error) {
+	R := rateLayout{alpha: cmp.Or(opt.Alpha, 0.05), nameX: margin}
+	R.heading = ff.wrap(cmp.Or(opt.CheckTitle, "False-positive check"), true, 15, w-2*margin, 2)
 	R.headY = top + 16
+	top += float64(len(R.heading)-1) * rateHeadLineH
 	R.alphaY = top + 22 + 14
 	R.rowsTop = top + 22 + 18
 	nameW, detailW := 0.0, 0.0
 	R.max = 2 * R.alpha
 	for _, r := range rates {
 		name := ff.ellipsize(r.Name, false, labelSize, 0.28*w)
-		detail := ff.ellipsize(r.Detail, r.Unsound, labelSize, 0.3*w)
+		detail := ff.ellipsize(r.Detail, r.Unsound, labelSize, 0.36*w)
 		R.names, R.details = append(R.names, name), append(R.details, detail)
 		nameW = math.Max(nameW, ff.width(false, labelSize, name))
 		detailW = math.Max(detailW, ff.width(r.Unsound, labelSize, detail))
@@ -57,8 +71,9 @@ func layoutRates(ff *fontFaces, w, top float64, rates []RateRow, alpha float64) 
 // at the level, one row per test (interval bar, point, name and detail,
 // in the warning colour when unsound) and the axis of rates in percent.
 func drawRates(cv canvas, ff *fontFaces, R rateLayout, rates []RateRow, opt NullOptions) {
-	title := cmp.Or(opt.CheckTitle, "False-positive check")
-	cv.text(margin, R.headY, ff.ellipsize(title, true, 15, R.x1+16-margin), 15, true, inkTitle, anchorStart)
+	for k, line := range R.heading {
+		cv.text(margin, R.headY+float64(k)*rateHeadLineH, line, 15, true, inkTitle, anchorStart)
+	}
 	ax := R.x(R.alpha)
 	openPart(cv, "alpha", "value", dataNum(R.alpha))
 	for y := R.rowsTop - 2; y < R.axisY; y += 7 {

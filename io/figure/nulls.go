@@ -249,7 +249,7 @@ func layoutNulls(ff *fontFaces, opt NullOptions, bins nullBins, rates []RateRow)
 	}
 	rateH := 0.0
 	if len(rates) > 0 {
-		rateH = 28 + 22 + 18 + float64(len(rates))*rateRowH + rateAxisH
+		rateH = rateHeight(ff, L.w, rates, opt)
 	}
 	fixed := 2*margin + head + 22 + (n-1)*panelGap + valueAxisH + rateH + foot
 	L.panelH = defaultPanel
@@ -272,7 +272,7 @@ func layoutNulls(ff *fontFaces, opt NullOptions, bins nullBins, rates []RateRow)
 	L.axisY = y - panelGap
 	if len(rates) > 0 {
 		var err error
-		if L.rates, err = layoutRates(ff, L.w, L.axisY+valueAxisH+28, rates, opt.Alpha); err != nil {
+		if L.rates, err = layoutRates(ff, L.w, L.axisY+valueAxisH+28, rates, opt); err != nil {
 			return L, err
 		}
 	}

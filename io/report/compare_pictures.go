@@ -74,14 +74,14 @@ func nullDetail(t compare.TestRow) string {
 // report.
 func rateRow(t compare.TestRow) figure.RateRow {
 	fp := t.FalsePositives
-	of := "surrogate outcomes"
+	of := "surrogates"
 	if t.Scheme == compare.SpectralScheme {
 		of = "SAR outcomes"
 	}
 	detail := fmt.Sprintf("%s (%s–%s) of %s %s", percent(fp.Rate), strings.TrimSuffix(percent(fp.Interval[0]), "%"), percent(fp.Interval[1]),
 		numtext.Count(fp.Surrogates), of)
 	if t.Unsound() {
-		detail += ": too many"
+		detail += " · too many"
 	}
 	return figure.RateRow{Name: t.Scheme, Detail: detail, Rate: fp.Rate, Interval: fp.Interval, Unsound: t.Unsound()}
 }
