@@ -9,7 +9,7 @@ import (
 // pFromNull recomputes a p-value from kept null values by the package's
 // rules: ties within 1e-9·max(|observed|, scale), (1 + b)/(1 + B) for Monte
 // Carlo draws (Phipson & Smyth 2010), b/B over every arrangement when exact,
-// two-sided as twice the smaller tail, capped at 1.
+// the tails combined as the package combines them.
 func pFromNull(null []float64, observed, scale float64, alt Alternative, exact bool) float64 {
 	tol := 1e-9 * math.Max(math.Abs(observed), scale)
 	var ge, le int
@@ -26,13 +26,7 @@ func pFromNull(null []float64, observed, scale float64, alt Alternative, exact b
 	if exact {
 		pg, pl = float64(ge)/float64(len(null)), float64(le)/float64(len(null))
 	}
-	switch alt {
-	case Greater:
-		return pg
-	case Less:
-		return pl
-	}
-	return math.Min(1, 2*math.Min(pg, pl))
+	return combine(alt, pg, pl)
 }
 
 // The kept null values are the very values the p-value counts: recounting
