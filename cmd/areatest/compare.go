@@ -9,6 +9,7 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/compare"
@@ -23,6 +24,7 @@ type compareFlags struct {
 	outcome, group, strata, statistic, zones string
 	contrast, covariates                     []string
 	surrogates, fpChecks, fpShuffles         int
+	plot                                     string // --plot: the picture of the null distributions
 	alpha                                    float64
 	// A comparison of rates: event and population columns instead of an
 	// outcome.
@@ -53,6 +55,7 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 	fs.StringVar(&c.statistic, "statistic", "", "median-diff, mean-diff, welch-t, rank-sum (two groups); kruskal-wallis, anova-f (any number)\n(default median-diff for two groups, kruskal-wallis for more);\nwith --events: rate-ratio, rate-difference (two groups), rate-homogeneity (any number), or one of the above on the area rates\n(default rate-ratio for two groups, rate-homogeneity for more)")
 	fs.StringSliceVar(&c.contrast, "contrast", nil, "two levels A,B of the group column: report A − B (with more levels, test only these two)")
 	fs.Float64Var(&c.alpha, "alpha", 0.05, "level at which the spatial check calls clustering significant")
+	fs.StringVar(&c.plot, "plot", "", "draw every null model's distribution with the observed value, and the false-positive check, into this .svg or .png file")
 	c.registerRun(fs, "text", "json")
 	fs.Lookup("alternative").Usage = "two-sided, greater (A above B) or less"
 	fs.Lookup("permutations").Usage = "Monte Carlo shuffles per scheme (at most " + numtext.Count(shuffle.MaxPermutations) + ")"
@@ -90,12 +93,31 @@ func (c *compareFlags) check() error {
 			return err
 		}
 	}
+	if err := c.checkPlot(); err != nil {
+		return err
+	}
 	// The shared flags last: they end by checking the output files, after
 	// every usage error.
 	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
 		return err
 	}
 	c.opt.Alternative = c.alt
+	return nil
+}
+
+// checkPlot checks --plot and asks for its file; the comparison keeps
+// its null values only when they are to be drawn.
+func (c *compareFlags) checkPlot() error {
+	switch _, err := figure.FormatFromPath(c.plot); {
+	case c.plot == "":
+		return nil
+	case c.plot == "-":
+		return usagef("--plot draws into a file, not standard output: give a name ending in .svg or .png")
+	case err != nil:
+		return usagef("--plot: %v", err)
+	}
+	c.wantOutput("--plot", c.plot)
+	c.opt.KeepNull = true
 	return nil
 }
 
@@ -138,6 +160,10 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	res, err := c.compare(stderr)
 	if err != nil {
 		return err
+	}
+	if c.plot != "" {
+		format, _ := figure.FormatFromPath(c.plot) // checked by checkPlot
+		c.fileOf("--plot").SetRender(func(w io.Writer) error { return report.ComparePictures{Result: res}.Nulls(w, format) })
 	}
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },

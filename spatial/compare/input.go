@@ -101,6 +101,13 @@ type Options struct {
 	SARChecks, SARCheckSurrogates int
 	// Basis tunes the eigenbasis of the surrogates.
 	Basis surrogate.Options
+	// KeepNull keeps every row's null values (TestRow.Null: the shuffles
+	// of the free and within-strata or zones rows, adjusted ones with
+	// covariates, and the spectral surrogates' values), for a picture of
+	// the null distributions. The false-positive and SAR checks keep
+	// nothing: their rows carry the rates. At most 8 bytes per draw and
+	// row; off, memory does not grow with the draws.
+	KeepNull bool
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)

@@ -70,7 +70,7 @@ func (c *comparison) spectral(t *tester, res *Result) error {
 func (c *comparison) surrogateTest(t *tester, o *surrogate.Outcome, res *Result) error {
 	opt := c.opt
 	plan := shuffle.SurrogatePlan{Scheme: SpectralScheme, Draws: opt.Surrogates, Seed: opt.Seed, Purpose: streamSurrogates,
-		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, Progress: opt.progress("spectral surrogates")}
+		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, KeepNull: opt.KeepNull, Progress: opt.progress("spectral surrogates")}
 	var sp shuffle.Result
 	var err error
 	switch {

@@ -83,7 +83,13 @@ type Result struct {
 	AtMost   int     `json:"at_most"`
 	NullMean float64 `json:"null_mean"`
 	NullSD   float64 `json:"null_sd"`
-	// Null holds every null value when Plan.KeepNull was set.
+	// Null holds every null value when Plan.KeepNull was set (nil
+	// otherwise), never in the JSON. Monte Carlo: one value per draw, in
+	// draw order — block by block, so the slice does not depend on
+	// Workers. Exact: one value per distinct arrangement, in enumeration
+	// order; every arrangement is equally likely under the null, so each
+	// value counts once and no weights are needed (len(Null) is
+	// Permutations either way). At most MaxPermutations values: 40 MB.
 	Null []float64 `json:"-"`
 }
 
