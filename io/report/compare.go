@@ -46,6 +46,10 @@ func compareHeader(b *strings.Builder, r *compare.Result) {
 
 // compareGroups writes the table of groups and the observed statistic.
 func compareGroups(b *strings.Builder, r *compare.Result) {
+	if r.Rates != nil {
+		rateGroups(b, r)
+		return
+	}
 	fmt.Fprintf(b, "  %-22s %7s %12s %12s %12s\n", r.Input.Group, "areas", "median", "mean", "sd")
 	for _, g := range r.Groups {
 		fmt.Fprintf(b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
@@ -278,4 +282,29 @@ func capitalise(s string) string {
 		return s
 	}
 	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+// rateGroups writes the groups' pooled rates, the median area rate and the
+// observed statistic of a comparison of rates.
+func rateGroups(b *strings.Builder, r *compare.Result) {
+	rt := r.Rates
+	per := "per " + numtext.Count(int(rt.Per))
+	fmt.Fprintf(b, "  %-22s %7s %12s %14s %14s %14s\n", r.Input.Group, "areas", rt.Events, rt.Population, "pooled rate", "median rate")
+	for k, g := range rt.Groups {
+		median := ""
+		if k < len(r.Groups) {
+			median = Number(r.Groups[k].Median * rt.Per)
+		}
+		fmt.Fprintf(b, "  %-22s %7s %12s %14s %14s %14s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Events), Number(g.Population), Number(g.PerRate), median)
+	}
+	fmt.Fprintf(b, "  %-22s %7s %12s %14s %14s\n", "all tested areas", numtext.Count(r.Input.Tested), "", "", Number(rt.MapRate))
+	fmt.Fprintf(b, "  (rates %s)\n\n", per)
+	s := r.Statistic
+	if len(s.Contrast) == 2 {
+		fmt.Fprintf(b, "  %s, %s against %s: %s\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
+	} else {
+		fmt.Fprintf(b, "  %s across %d groups: %s\n", capitalise(s.Label), len(r.Groups), Number(s.Observed))
+	}
+	b.WriteString(Wrap(rt.Spatial, width, "  ", "  "))
+	b.WriteString("\n")
 }

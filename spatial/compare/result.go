@@ -76,6 +76,9 @@ func (t TestRow) Unsound() bool {
 // pattern of: the outcome, or, with covariates, its residuals from them
 // ("the residuals of rate from income").
 func (r *Result) NullPattern() string {
+	if r.Rates != nil {
+		return "the empirical-Bayes standardised rates of " + r.Rates.Events + " per " + r.Rates.Population
+	}
 	if r.Adjusted != nil {
 		return "the residuals of " + r.Input.Outcome + " from " + strings.Join(r.Adjusted.Covariates, ", ")
 	}
