@@ -104,7 +104,7 @@ func recommendMeasured(res *Result) {
 	}
 	calibrationWarning(res)
 	pattern := "the outcome's spatial pattern"
-	if res.Adjusted != nil {
+	if res.Adjusted != nil || res.Rates != nil {
 		pattern = "the spatial pattern of " + res.NullPattern()
 	}
 	on := fmt.Sprintf("on %s outcomes with %s and no link to the grouping", numtext.Count(fpr.Surrogates), pattern)
@@ -192,7 +192,7 @@ func recommendFree(res *Result) {
 // link to the grouping)".
 func simulatedOn(res *Result) string {
 	fitted := "the outcome"
-	if res.Adjusted != nil {
+	if res.Adjusted != nil || res.Rates != nil {
 		fitted = res.NullPattern()
 	}
 	return fmt.Sprintf("%s outcomes simulated from the SAR model fitted to %s (ρ %.2f; no link to the grouping)",
