@@ -9,6 +9,7 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/compare"
@@ -24,6 +25,9 @@ type compareFlags struct {
 	surrogates, fpChecks, fpShuffles         int
 	alpha                                    float64
 	opt                                      compare.Options // set by check
+	// The map of groups and outcome (compare only), and its class rule.
+	mapFile, mapClasses string
+	mapRule             figure.Classes
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
@@ -33,6 +37,8 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.StringVarP(&c.group, "group", "g", "", "column whose values name the groups")
 		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
+		fs.StringVar(&c.mapFile, "map", "", "two maps side by side (.svg or .png): the groups, and the outcome in 5 classes (see --classes); areas left out hatched")
+		fs.StringVar(&c.mapClasses, "classes", "quantile", "classes of the outcome in --map: quantile or natural (natural breaks, Fisher 1958)")
 	}
 	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none; at most "+numtext.Count(compare.MaxSurrogates)+")")
 	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often each label shuffle (free, --strata, --zones) cries wolf (0: none; at most "+numtext.Count(compare.MaxFalsePositiveChecks)+")")
@@ -81,6 +87,9 @@ func (c *compareFlags) check() error {
 			return err
 		}
 	}
+	if err := c.checkMap(); err != nil {
+		return err
+	}
 	// The shared flags last: they end by checking the output files, after
 	// every usage error.
 	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
@@ -88,6 +97,17 @@ func (c *compareFlags) check() error {
 	}
 	c.opt.Alternative = c.alt
 	return nil
+}
+
+// checkMap reads --classes and asks for the file of --map.
+func (c *compareFlags) checkMap() (err error) {
+	if c.mapClasses == "" { // demo registers neither flag
+		return nil
+	}
+	if c.mapRule, err = parseClasses(c.mapClasses); err != nil {
+		return err
+	}
+	return c.wantPicture("--map", c.mapFile)
 }
 
 // atMost refuses a count flag above the maximum the library enforces
@@ -127,6 +147,7 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	c.drawPicture("--map", report.ComparePictures{Layer: c.lay, Result: res, Classes: c.mapRule}.Map)
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.CompareText(w, res) },

@@ -7,6 +7,7 @@ import (
 	"math"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/text"
 
 	"github.com/areatest/areatest/internal/numtext"
 )
@@ -55,6 +56,8 @@ func panelSetup(opt ChartOptions, n int, extraH int) (w, h, cols int, ff *fontFa
 func panelTitle(p *plot.Plot, title string) {
 	p.Title.Text = title
 	p.Title.TextStyle = textStyle(15, true, inkTitle)
+	// Hung from the top of the panel, centred over it.
+	p.Title.TextStyle.XAlign, p.Title.TextStyle.YAlign = text.XCenter, text.YTop
 	p.Title.Padding = px(8)
 }
 
