@@ -39,27 +39,21 @@ var bandFill = barFill
 // dashed reference line at the expected value. Panels are laid out as in
 // MoranScatterPanels.
 func Correlogram(w io.Writer, f Format, panels []CorrelogramPanel, opt ChartOptions) error {
-	if err := f.check(); err != nil {
-		return err
-	}
-	W, H, cols, ff, err := panelSetup(opt, len(panels), 200)
-	if err != nil {
-		return err
-	}
-	plots := make([]*plot.Plot, len(panels))
-	for k, pn := range panels {
-		if plots[k], err = correlogramPlot(pn.Lags, cmp.Or(opt.XLabel, "lag"), cmp.Or(opt.YLabel, "Moran's I")); err != nil {
-			return fmt.Errorf("panel %d: %w", k+1, err)
+	build := func(k int) (*plot.Plot, error) {
+		p, err := correlogramPlot(panels[k].Lags, cmp.Or(opt.XLabel, "lag"), cmp.Or(opt.YLabel, "Moran's I"))
+		if err == nil {
+			panelTitle(p, panels[k].Title)
 		}
-		panelTitle(plots[k], pn.Title)
+		return p, err
 	}
-	items := []legendItem{
-		{label: "observed, at each lag", c: observedInk},
-		{label: "95% interval under the null", c: bandFill, kind: 2},
-		{label: "expected without autocorrelation", c: guideInk, kind: 1},
+	key := func() []legendItem {
+		return []legendItem{
+			{label: "observed, at each lag", c: observedInk},
+			{label: "95% interval under the null", c: bandFill, kind: 2},
+			{label: "expected without autocorrelation", c: guideInk, kind: 1},
+		}
 	}
-	fr := newFrame(ff, opt, W, H, items)
-	return renderPanels(w, f, fr, ff, plots, cols, false)
+	return panelChart(w, f, opt, len(panels), 200, false, build, key)
 }
 
 // correlogramPlot is the plot of one correlogram; lag k (from 0) sits at

@@ -29,62 +29,30 @@ type svgText struct {
 
 var firstPoint = regexp.MustCompile(`^M([\d.]+) ([\d.]+)`)
 
-// readAreas decodes an SVG (failing on anything not well-formed) into the
-// paths drawn as areas, inside a group, and the texts.
-func readAreas(t *testing.T, data []byte) (areas []svgArea, texts []svgText) {
-	t.Helper()
-	dec := xml.NewDecoder(bytes.NewReader(data))
-	var fills []string // the fill of each open element, "" when none
-	var cur *svgText
-	attr := func(e xml.StartElement, name string) string {
-		for _, a := range e.Attr {
-			if a.Name.Local == name {
-				return a.Value
-			}
-		}
-		return ""
-	}
-	num := func(s string) float64 { v, _ := strconv.ParseFloat(s, 64); return v }
-	for {
-		tok, err := dec.Token()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			t.Fatalf("SVG not well-formed: %v", err)
-		}
-		switch e := tok.(type) {
-		case xml.StartElement:
-			switch e.Name.Local {
-			case "path":
-				if len(fills) > 0 && strings.HasPrefix(attr(e, "d"), "M") && fills[len(fills)-1] != "" {
-					m := firstPoint.FindStringSubmatch(attr(e, "d"))
-					if m == nil {
-						t.Fatalf("path %q does not start with an absolute point", attr(e, "d")[:20])
-					}
-					areas = append(areas, svgArea{fill: fills[len(fills)-1], x: num(m[1]), y: num(m[2])})
-				}
-			case "text":
-				cur = &svgText{x: num(attr(e, "x")), y: num(attr(e, "y"))}
-			}
-			fill := ""
-			if e.Name.Local == "g" {
-				fill = attr(e, "fill")
-			}
-			fills = append(fills, fill)
-		case xml.EndElement:
-			fills = fills[:len(fills)-1]
-			if e.Name.Local == "text" {
-				texts = append(texts, *cur)
-				cur = nil
-			}
-		case xml.CharData:
-			if cur != nil {
-				cur.s += string(e)
-			}
+func attr(e xml.StartElement, name string) string {
+	for _, a := range e.Attr {
+		if a.Name.Local == name {
+			return a.Value
 		}
 	}
-	return areas, texts
+	return ""
+}
+
+func attrNum(e xml.StartElement, name string) float64 {
+	v, _ := strconv.ParseFloat(attr(e, name), 64)
+	return v
+}
+
+// areaOf reads the first point of an area's path, drawn with fill; a
+// path not written as maps write theirs (a chart's) is at NaN.
+func areaOf(e xml.StartElement, fill string) svgArea {
+	m := firstPoint.FindStringSubmatch(attr(e, "d"))
+	if m == nil {
+		return svgArea{fill: fill, x: math.NaN(), y: math.NaN()}
+	}
+	x, _ := strconv.ParseFloat(m[1], 64)
+	y, _ := strconv.ParseFloat(m[2], 64)
+	return svgArea{fill: fill, x: x, y: y}
 }
 
 // degreeGrid is cols×rows squares of one degree from (10°E, 50°N), area
@@ -117,7 +85,8 @@ func TestGroupOutcomeMap(t *testing.T) {
 	if err := GroupOutcomeMap(&buf, SVG, d, MapOptions{Title: "rate by policy", LonLat: true, Note: "note"}); err != nil {
 		t.Fatal(err)
 	}
-	areas, texts := readAreas(t, buf.Bytes())
+	doc := readSVG(t, buf.Bytes())
+	areas, texts := doc.areas, doc.placed
 	width := 1400.0
 	pal, _ := Groups(3)
 	seq, _ := Sequential(5)

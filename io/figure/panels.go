@@ -74,35 +74,50 @@ type ScatterPanel struct {
 // MoranScatter draws one without categories: grey points, the quadrants,
 // the line of each panel's slope (named in its title by the caller).
 func MoranScatterPanels(w io.Writer, f Format, panels []ScatterPanel, opt ChartOptions) error {
-	if err := f.check(); err != nil {
-		return err
-	}
-	W, H, cols, ff, err := panelSetup(opt, len(panels), 230)
-	if err != nil {
-		return err
-	}
-	plots := make([]*plot.Plot, len(panels))
-	points := 0
-	for k, pn := range panels {
+	build := func(k int) (*plot.Plot, error) {
+		pn := panels[k]
 		if len(pn.Lag) != len(pn.Z) {
-			return fmt.Errorf("plot: panel %d: %d spatial lags for %d values", k+1, len(pn.Lag), len(pn.Z))
+			return nil, fmt.Errorf("plot: %d spatial lags for %d values", len(pn.Lag), len(pn.Z))
 		}
 		if math.IsNaN(pn.Slope) || math.IsInf(pn.Slope, 0) {
-			return fmt.Errorf("plot: panel %d: the slope must be a finite number, got %v", k+1, pn.Slope)
+			return nil, fmt.Errorf("plot: the slope must be a finite number, got %v", pn.Slope)
 		}
 		sg, err := groupPoints(pn.Z, pn.Lag, nil, nil)
 		if err != nil {
-			return fmt.Errorf("panel %d: %w", k+1, err)
+			return nil, err
 		}
-		points = max(points, sg.n)
-		if plots[k], err = scatterPlot(sg, pn.Slope, cmp.Or(opt.XLabel, "value (standardised)"), cmp.Or(opt.YLabel, "mean of the neighbours (standardised)")); err != nil {
-			return err
+		p, err := scatterPlot(sg, pn.Slope, cmp.Or(opt.XLabel, "value (standardised)"), cmp.Or(opt.YLabel, "mean of the neighbours (standardised)"))
+		if err == nil {
+			panelTitle(p, pn.Title)
 		}
-		panelTitle(plots[k], pn.Title)
+		return p, err
 	}
-	items := []legendItem{{label: "an area", c: pointGrey}, {label: "line through the points: its slope is Moran's I", c: lineInk, kind: 1}}
-	fr := newFrame(ff, opt, W, H, items)
-	return renderPanels(w, f, fr, ff, plots, cols, true)
+	key := func() []legendItem {
+		return []legendItem{{label: "an area", c: pointGrey}, {label: "line through the points: its slope is Moran's I", c: lineInk, kind: 1}}
+	}
+	return panelChart(w, f, opt, len(panels), 230, true, build, key)
+}
+
+// panelChart draws the n panels that build makes (the plot of panel k,
+// with its title) in a grid, under the frame of opt with the key that key
+// returns once every panel is built; extraH and square as for panelSetup
+// and renderPanels.
+func panelChart(w io.Writer, f Format, opt ChartOptions, n, extraH int, square bool, build func(k int) (*plot.Plot, error), key func() []legendItem) error {
+	if err := f.check(); err != nil {
+		return err
+	}
+	W, H, cols, ff, err := panelSetup(opt, n, extraH)
+	if err != nil {
+		return err
+	}
+	plots := make([]*plot.Plot, n)
+	for k := range n {
+		if plots[k], err = build(k); err != nil {
+			return fmt.Errorf("%w (panel %d)", err, k+1)
+		}
+	}
+	fr := newFrame(ff, opt, W, H, key())
+	return renderPanels(w, f, fr, ff, plots, cols, square)
 }
 
 // HistogramPanel is the permutation distribution of one variable's
@@ -117,37 +132,27 @@ type HistogramPanel struct {
 // HistogramPanels draws the histogram of each panel's draws with its
 // observed value marked, as Histogram draws one.
 func HistogramPanels(w io.Writer, f Format, panels []HistogramPanel, opt ChartOptions) error {
-	if err := f.check(); err != nil {
-		return err
-	}
-	W, H, cols, ff, err := panelSetup(opt, len(panels), 200)
-	if err != nil {
-		return err
-	}
-	plots := make([]*plot.Plot, len(panels))
 	counts := map[int]bool{}
-	for k, pn := range panels {
+	build := func(k int) (*plot.Plot, error) {
+		pn := panels[k]
 		if math.IsNaN(pn.Observed) || math.IsInf(pn.Observed, 0) {
-			return fmt.Errorf("plot: panel %d: the observed value must be a finite number, got %v", k+1, pn.Observed)
+			return nil, fmt.Errorf("plot: the observed value must be a finite number, got %v", pn.Observed)
 		}
-		var n int
-		plots[k], n, err = histogramPlot(pn.Draws, pn.Observed, cmp.Or(opt.XLabel, "statistic"), cmp.Or(opt.YLabel, "shuffles"))
-		if err != nil {
-			return fmt.Errorf("panel %d: %w", k+1, err)
+		p, n, err := histogramPlot(pn.Draws, pn.Observed, cmp.Or(opt.XLabel, "statistic"), cmp.Or(opt.YLabel, "shuffles"))
+		if err == nil {
+			counts[n] = true
+			panelTitle(p, pn.Title)
 		}
-		counts[n] = true
-		panelTitle(plots[k], pn.Title)
+		return p, err
 	}
-	key := "shuffles"
-	if len(counts) == 1 {
-		for n := range counts {
-			key = numtext.Count(n) + " shuffles in each panel"
+	key := func() []legendItem {
+		label := "shuffles"
+		if len(counts) == 1 {
+			for n := range counts {
+				label = numtext.Count(n) + " shuffles in each panel"
+			}
 		}
+		return []legendItem{{label: label, c: barFill, kind: 2}, {label: "observed value", c: observedInk, kind: 1}}
 	}
-	items := []legendItem{
-		{label: key, c: barFill, kind: 2},
-		{label: "observed value", c: observedInk, kind: 1},
-	}
-	fr := newFrame(ff, opt, W, H, items)
-	return renderPanels(w, f, fr, ff, plots, cols, false)
+	return panelChart(w, f, opt, len(panels), 200, false, build, key)
 }

@@ -46,6 +46,21 @@ func (p AutocorrPictures) names() string {
 	return strings.Join(n, ", ")
 }
 
+// perVariable makes one panel for each numeric variable of r, in order.
+func perVariable[T any](r *clustering.Result, panel func(c int, v clustering.Variable) (T, error)) ([]T, error) {
+	if len(r.Variables) == 0 {
+		return nil, errNoVariables
+	}
+	out := make([]T, len(r.Variables))
+	for c, v := range r.Variables {
+		var err error
+		if out[c], err = panel(c, v); err != nil {
+			return nil, err
+		}
+	}
+	return out, nil
+}
+
 // sample is variable c on the areas Autocorr analysed it on: its values
 // x there and the restricted graph, as clustering chooses them (the areas
 // with a value, and a value of Input.Against when set).
@@ -94,17 +109,16 @@ func (p AutocorrPictures) MoranDraws(c int) ([]float64, error) {
 // Σ z·lag / Σ z², is Moran's I on those weights.
 func (p AutocorrPictures) Scatter(w io.Writer, f figure.Format) error {
 	r := p.Result
-	if len(r.Variables) == 0 {
-		return errNoVariables
-	}
-	panels := make([]figure.ScatterPanel, len(r.Variables))
-	for c, v := range r.Variables {
+	panels, err := perVariable(r, func(c int, v clustering.Variable) (figure.ScatterPanel, error) {
 		x, rs, err := p.sample(c)
 		if err != nil {
-			return err
+			return figure.ScatterPanel{}, err
 		}
 		z, lag, slope := scatterAxes(x, rs.Binary.RowStandardised())
-		panels[c] = figure.ScatterPanel{Title: fmt.Sprintf("%s: Moran's I %s", v.Name, Number(v.MoransI.Value)), Z: z, Lag: lag, Slope: slope}
+		return figure.ScatterPanel{Title: fmt.Sprintf("%s: Moran's I %s", v.Name, Number(v.MoransI.Value)), Z: z, Lag: lag, Slope: slope}, nil
+	})
+	if err != nil {
+		return err
 	}
 	sub := r.Weights.Kind + "; the lag is the mean of the neighbours"
 	if s := weights.Scaling(r.Weights.Scaling); s != weights.RowStandardised {
@@ -148,17 +162,13 @@ func scatterAxes(x []float64, g *weights.Graph) (z, lag []float64, slope float64
 // variable (MoranDraws) with the observed value marked.
 func (p AutocorrPictures) Histogram(w io.Writer, f figure.Format) error {
 	r := p.Result
-	if len(r.Variables) == 0 {
-		return errNoVariables
-	}
-	panels := make([]figure.HistogramPanel, len(r.Variables))
-	for c, v := range r.Variables {
+	panels, err := perVariable(r, func(c int, v clustering.Variable) (figure.HistogramPanel, error) {
 		draws, err := p.MoranDraws(c)
-		if err != nil {
-			return err
-		}
-		panels[c] = figure.HistogramPanel{Title: fmt.Sprintf("%s: I = %s, p shuffle %s", v.Name, Number(v.MoransI.Value), PValue(v.MoransI.Permutation.PValue)),
-			Draws: draws, Observed: v.MoransI.Value}
+		title := fmt.Sprintf("%s: I = %s, p shuffle %s", v.Name, Number(v.MoransI.Value), PValue(v.MoransI.Permutation.PValue))
+		return figure.HistogramPanel{Title: title, Draws: draws, Observed: v.MoransI.Value}, err
+	})
+	if err != nil {
+		return err
 	}
 	opt := figure.ChartOptions{Title: "Moran's I of " + p.names() + " against shuffled maps",
 		Subtitle: fmt.Sprintf("each panel: Moran's I of the values shuffled freely across the areas (%s); %s", r.Weights.Kind, r.Weights.Scaling),

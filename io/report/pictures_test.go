@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -86,23 +87,11 @@ func TestMoranDrawsAreTheTestsDraws(t *testing.T) {
 			}
 			if workers == 1 {
 				first = append(first, draws)
-			} else if !equalFloats(draws, first[c]) {
+			} else if !slices.Equal(draws, first[c]) {
 				t.Errorf("%s: the draws differ with 3 workers", v.Name)
 			}
 		}
 	}
-}
-
-func equalFloats(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 // With row-standardised weights the scatter's slope is the reported
