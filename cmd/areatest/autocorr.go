@@ -5,6 +5,9 @@ import (
 	"io"
 	"slices"
 
+	"github.com/spf13/pflag"
+
+	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/progress"
 	"github.com/areatest/areatest/io/report"
@@ -26,6 +29,8 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
 	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
 	lagWidthUnits = distanceVar(fs, &lagWidth, "lag-width", "with --lags: distance classes of this width instead of neighbour orders"+distanceHelp)
+	var pics autocorrPictureFlags
+	pics.register(fs)
 	c.register(fs, "text", "json")
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -39,6 +44,9 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return usagef("--lags must not be negative")
 	case lagWidth < 0 || (lagWidth > 0 && lags == 0):
 		return usagef("--lag-width is a positive distance and goes with --lags")
+	}
+	if err := pics.check(&c, len(variables), lags); err != nil {
+		return err
 	}
 	if err := c.prepare("autocorr", stdin, stderr, shuffle.ParseAlternative); err != nil {
 		return err
@@ -65,6 +73,9 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}
 	res.Version = Version
+	if err := pics.draw(&c, report.AutocorrPictures{Input: in, Options: opt, Result: res}); err != nil {
+		return err
+	}
 	if res.IslandsLeftOut > 0 {
 		res.Warnings = slices.Insert(res.Warnings, len(res.Weights.Warnings), fmt.Sprintf(
 			"%d area(s) have no neighbour and are left out of every statistic (use --islands keep to keep them with a zero spatial lag).", res.IslandsLeftOut))
@@ -120,4 +131,43 @@ func (c *sharedFlags) clustering() (clustering.Input, clustering.Options) {
 
 func clusterColumn(col *layer.Column) clustering.Column {
 	return clustering.Column{Name: col.Name, Values: col.Num, Missing: col.Missing}
+}
+
+// autocorrPictureFlags name the pictures of autocorr: one file each, with
+// a panel per numeric variable.
+type autocorrPictureFlags struct{ scatter, histogram, correlogram string }
+
+func (p *autocorrPictureFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&p.scatter, "scatter", "", "Moran scatter of each numeric variable, one panel each (.svg or .png)")
+	fs.StringVar(&p.histogram, "histogram", "", "permutation distribution of Moran's I of each numeric variable, observed value marked (.svg or .png)")
+	fs.StringVar(&p.correlogram, "correlogram", "", "with --lags: Moran's I at each lag with its 95% null band, one panel per variable (.svg or .png)")
+}
+
+// check checks the picture flags and asks for their files, before any
+// data is read.
+func (p *autocorrPictureFlags) check(c *sharedFlags, variables, lags int) error {
+	switch {
+	case p.correlogram != "" && lags == 0:
+		return usagef("--correlogram draws the correlogram of --lags; give --lags")
+	case (p.scatter != "" || p.histogram != "" || p.correlogram != "") && variables > figure.MaxPanels:
+		return usagef("the pictures hold at most %d variables, one panel each; --variables names %d", figure.MaxPanels, variables)
+	}
+	for _, f := range []struct{ flag, path string }{{"--scatter", p.scatter}, {"--histogram", p.histogram}, {"--correlogram", p.correlogram}} {
+		if err := c.wantPicture(f.flag, f.path); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// draw gives the planned pictures their renderers; pictures of a result
+// without a numeric variable are refused now, before anything is written.
+func (p *autocorrPictureFlags) draw(c *sharedFlags, pics report.AutocorrPictures) error {
+	if (p.scatter != "" || p.histogram != "" || p.correlogram != "") && len(pics.Result.Variables) == 0 {
+		return fmt.Errorf("%s: --scatter, --histogram and --correlogram draw numeric --variables, and none is given", c.lay.Source)
+	}
+	c.drawPicture("--scatter", pics.Scatter)
+	c.drawPicture("--histogram", pics.Histogram)
+	c.drawPicture("--correlogram", pics.Correlogram)
+	return nil
 }

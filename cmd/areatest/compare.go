@@ -32,6 +32,9 @@ type compareFlags struct {
 	per, unstableBelow          float64
 	aboveAllowed, leaveOutCount bool
 	opt                         compare.Options // set by check
+	// The map of groups and outcome (compare only), and its class rule.
+	mapFile, mapClasses string
+	mapRule             figure.Classes
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
@@ -47,6 +50,8 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.StringVarP(&c.group, "group", "g", "", "column whose values name the groups")
 		fs.StringVar(&c.strata, "strata", "", "column of strata: also shuffle only within each stratum")
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
+		fs.StringVar(&c.mapFile, "map", "", "two maps side by side (.svg or .png): the groups, and the outcome in 5 classes (see --classes); areas left out hatched")
+		fs.StringVar(&c.mapClasses, "classes", "quantile", "classes of the outcome in --map: quantile or natural (natural breaks, Fisher 1958)")
 	}
 	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none; at most "+numtext.Count(compare.MaxSurrogates)+")")
 	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often each label shuffle (free, --strata, --zones) cries wolf (0: none; at most "+numtext.Count(compare.MaxFalsePositiveChecks)+")")
@@ -93,7 +98,7 @@ func (c *compareFlags) check() error {
 			return err
 		}
 	}
-	if err := c.checkPlot(); err != nil {
+	if err := c.checkPictures(); err != nil {
 		return err
 	}
 	// The shared flags last: they end by checking the output files, after
@@ -105,20 +110,23 @@ func (c *compareFlags) check() error {
 	return nil
 }
 
-// checkPlot checks --plot and asks for its file; the comparison keeps
-// its null values only when they are to be drawn.
-func (c *compareFlags) checkPlot() error {
-	switch _, err := figure.FormatFromPath(c.plot); {
-	case c.plot == "":
-		return nil
-	case c.plot == "-":
-		return usagef("--plot draws into a file, not standard output: give a name ending in .svg or .png")
-	case err != nil:
-		return usagef("--plot: %v", err)
+// checkPictures reads --classes and asks for the files of --map and
+// --plot; the comparison keeps its null values only when they are to be
+// drawn.
+func (c *compareFlags) checkPictures() (err error) {
+	if c.plot != "" {
+		c.opt.KeepNull = true
 	}
-	c.wantOutput("--plot", c.plot)
-	c.opt.KeepNull = true
-	return nil
+	if err := c.wantPicture("--plot", c.plot); err != nil {
+		return err
+	}
+	if c.mapClasses == "" { // demo registers neither --map nor --classes
+		return nil
+	}
+	if c.mapRule, err = parseClasses(c.mapClasses); err != nil {
+		return err
+	}
+	return c.wantPicture("--map", c.mapFile)
 }
 
 // atMost refuses a count flag above the maximum the library enforces
@@ -161,10 +169,9 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if c.plot != "" {
-		format, _ := figure.FormatFromPath(c.plot) // checked by checkPlot
-		c.fileOf("--plot").SetRender(func(w io.Writer) error { return report.ComparePictures{Result: res}.Nulls(w, format) })
-	}
+	pics := report.ComparePictures{Layer: c.lay, Result: res, Classes: c.mapRule}
+	c.drawPicture("--plot", pics.Nulls)
+	c.drawPicture("--map", pics.Map)
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.CompareText(w, res) },

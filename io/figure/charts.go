@@ -199,6 +199,15 @@ func (it legendItem) drawKey(c draw.Canvas, x float64, cy vg.Length) {
 // writes it out. squareData makes the plot's data area square by trimming
 // the longer side, for plots whose slope must look like what it is.
 func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, squareData bool) error {
+	return renderPanels(w, f, fr, ff, []*plot.Plot{p}, 1, squareData)
+}
+
+// panelGapPx is the room between the panels of a grid.
+const panelGapPx = 28.0
+
+// renderPanels is render for several plots in a grid of cols columns, row
+// by row, in the room the frame leaves.
+func renderPanels(w io.Writer, f Format, fr chartFrame, ff *fontFaces, plots []*plot.Plot, cols int, squareData bool) error {
 	W, H := px(fr.w), px(fr.h)
 	var vc vg.CanvasWriterTo
 	switch f {
@@ -216,21 +225,22 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, s
 		dc.FillPolygon(color.White, []vg.Point{{X: 0, Y: 0}, {X: W, Y: 0}, {X: W, Y: H}, {X: 0, Y: H}})
 	}
 	area := fr.draw(ff, dc)
-	if area.Max.X-area.Min.X < px(120) || area.Max.Y-area.Min.Y < px(120) {
+	rows := (len(plots) + cols - 1) / cols
+	gap := px(panelGapPx)
+	tw := (area.Max.X - area.Min.X - gap*vg.Length(cols-1)) / vg.Length(cols)
+	th := (area.Max.Y - area.Min.Y - gap*vg.Length(rows-1)) / vg.Length(rows)
+	if tw < px(120) || th < px(120) {
 		return fmt.Errorf("plot: a %d×%d picture leaves too little room for the plot", int(fr.w), int(fr.h))
 	}
-	if squareData {
-		data := p.DataCanvas(area)
-		dw, dh := data.Max.X-data.Min.X, data.Max.Y-data.Min.Y
-		if d := dw - dh; d > 0 {
-			area.Min.X += d / 2
-			area.Max.X -= d / 2
-		} else if d < 0 {
-			area.Max.Y += d // trim the top, keeping the axis by the legend
-		}
+	for k, p := range plots {
+		r, c := k/cols, k%cols
+		tile := area
+		tile.Min.X = area.Min.X + vg.Length(c)*(tw+gap)
+		tile.Max.X = tile.Min.X + tw
+		tile.Max.Y = area.Max.Y - vg.Length(r)*(th+gap) // rows from the top
+		tile.Min.Y = tile.Max.Y - th
+		drawTile(ff, p, tile, squareData)
 	}
-	fitAxisLabels(ff, p, area)
-	p.Draw(area)
 	if f == PNG {
 		_, err := vc.WriteTo(w)
 		return err
@@ -244,6 +254,22 @@ func render(w io.Writer, f Format, fr chartFrame, ff *fontFaces, p *plot.Plot, s
 	out := strings.ReplaceAll(buf.String(), "font-family:Liberation Sans;", "font-family:"+fontFamily+";")
 	_, err := io.WriteString(w, out)
 	return err
+}
+
+// drawTile draws p in area, its data area made square first when asked.
+func drawTile(ff *fontFaces, p *plot.Plot, area draw.Canvas, squareData bool) {
+	if squareData {
+		data := p.DataCanvas(area)
+		dw, dh := data.Max.X-data.Min.X, data.Max.Y-data.Min.Y
+		if d := dw - dh; d > 0 {
+			area.Min.X += d / 2
+			area.Max.X -= d / 2
+		} else if d < 0 {
+			area.Max.Y += d // trim the top, keeping the axis by the legend
+		}
+	}
+	fitAxisLabels(ff, p, area)
+	p.Draw(area)
 }
 
 // fitAxisLabels cuts an axis label longer than its axis with "…", so that
@@ -320,10 +346,22 @@ func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, leg
 	if err != nil {
 		return err
 	}
-	R := sg.reach * 1.06
-	p := newChart(cmp.Or(opt.XLabel, "value (standardised)"), cmp.Or(opt.YLabel, "spatial lag: mean of the neighbours (standardised)"))
-	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -R, R, -R, R
+	p, err := scatterPlot(sg, slope, cmp.Or(opt.XLabel, "value (standardised)"), cmp.Or(opt.YLabel, "spatial lag: mean of the neighbours (standardised)"))
+	if err != nil {
+		return err
+	}
+	items := []legendItem{{label: "slope = Moran's I = " + formatStat(slope), c: lineInk, kind: 1}}
+	items = append(items, sg.legendItems(categories != nil)...)
+	fr := newFrame(ff, opt, W, H, items)
+	return render(w, f, fr, ff, p, true)
+}
 
+// scatterPlot is the plot of a Moran scatter: the quadrants, the points
+// and the line through the origin with slope slope, on square axes.
+func scatterPlot(sg scatterGroups, slope float64, xlabel, ylabel string) (*plot.Plot, error) {
+	R := sg.reach * 1.06
+	p := newChart(xlabel, ylabel)
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -R, R, -R, R
 	guide := draw.LineStyle{Color: guideInk, Width: px(1), Dashes: []vg.Length{px(5), px(4)}}
 	for _, seg := range [][2]plotter.XY{{{X: -R, Y: 0}, {X: R, Y: 0}}, {{X: 0, Y: -R}, {X: 0, Y: R}}} {
 		l, _ := plotter.NewLine(plotter.XYs{seg[0], seg[1]})
@@ -332,16 +370,12 @@ func MoranScatter(w io.Writer, f Format, z, lag []float64, categories []int, leg
 	}
 	p.Add(quadrantLabels{R: R})
 	if err := sg.add(p); err != nil {
-		return err
+		return nil, err
 	}
 	l, _ := plotter.NewLine(plotter.XYs{{X: -R, Y: -R * slope}, {X: R, Y: R * slope}})
 	l.LineStyle = draw.LineStyle{Color: lineInk, Width: px(2.2)}
 	p.Add(l)
-
-	items := []legendItem{{label: "slope = Moran's I = " + formatStat(slope), c: lineInk, kind: 1}}
-	items = append(items, sg.legendItems(categories != nil)...)
-	fr := newFrame(ff, opt, W, H, items)
-	return render(w, f, fr, ff, p, true)
+	return p, nil
 }
 
 // scatterGroups are the points of a Moran scatter by category: group g is
@@ -548,23 +582,37 @@ func Histogram(w io.Writer, f Format, null []float64, observed float64, opt Char
 	if err != nil {
 		return err
 	}
+	p, shuffles, err := histogramPlot(null, observed, cmp.Or(opt.XLabel, "statistic"), cmp.Or(opt.YLabel, "shuffles"))
+	if err != nil {
+		return err
+	}
+	items := []legendItem{
+		{label: numtext.Count(shuffles) + " shuffles", c: barFill, kind: 2},
+		{label: "observed value", c: observedInk, kind: 1},
+	}
+	fr := newFrame(ff, opt, W, H, items)
+	return render(w, f, fr, ff, p, false)
+}
+
+// histogramPlot is the plot of a histogram of null with the observed
+// value marked; shuffles is the number of values drawn (those not NaN).
+func histogramPlot(null []float64, observed float64, xlabel, ylabel string) (p *plot.Plot, shuffles int, err error) {
 	vals := make([]float64, 0, len(null))
 	for i, v := range null {
 		if math.IsNaN(v) {
 			continue
 		}
 		if math.IsInf(v, 0) {
-			return fmt.Errorf("plot: shuffle %d gave an infinite value", i+1)
+			return nil, 0, fmt.Errorf("plot: shuffle %d gave an infinite value", i+1)
 		}
 		vals = append(vals, v)
 	}
 	if len(vals) == 0 {
-		return fmt.Errorf("plot: no shuffled values to draw")
+		return nil, 0, fmt.Errorf("plot: no shuffled values to draw")
 	}
 	slices.Sort(vals)
 	bins := histBins(vals)
-
-	p := newChart(cmp.Or(opt.XLabel, "statistic"), cmp.Or(opt.YLabel, "shuffles"))
+	p = newChart(xlabel, ylabel)
 	h := &plotter.Histogram{Bins: bins, Width: bins[0].Max - bins[0].Min, FillColor: barFill}
 	h.LineStyle = draw.LineStyle{Color: color.White, Width: px(0.8)}
 	p.Add(h)
@@ -577,12 +625,7 @@ func Histogram(w io.Writer, f Format, null []float64, observed float64, opt Char
 	p.X.Min, p.X.Max = lo-padX, hi+padX
 	p.Y.Min, p.Y.Max = 0, top*1.16
 	p.Add(observedMark{x: observed, top: top * 1.16, label: "observed " + formatStat(observed)})
-	items := []legendItem{
-		{label: numtext.Count(len(vals)) + " shuffles", c: barFill, kind: 2},
-		{label: "observed value", c: observedInk, kind: 1},
-	}
-	fr := newFrame(ff, opt, W, H, items)
-	return render(w, f, fr, ff, p, false)
+	return p, len(vals), nil
 }
 
 func histBins(s []float64) []plotter.HistogramBin {

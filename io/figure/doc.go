@@ -15,6 +15,10 @@
 // cut values into classes; palette.go holds the colours and text.go the
 // font metrics and the title, subtitle and note that maps and charts
 // share. MoranScatter and Histogram (charts.go) are the charts.
+// GroupOutcomeMap (groupmap.go) draws two maps of one layer side by side
+// through the same machinery (drawPair); MoranScatterPanels,
+// HistogramPanels (panels.go) and Correlogram (correlogram.go) put one
+// panel per variable in a grid (renderPanels).
 //
 // # How maps are drawn
 //
@@ -56,7 +60,9 @@
 // deep indigo, evenly spaced in OKLab lightness); LocalCategories the
 // colours for local association: dark orange and purple for the clusters,
 // light orange and light purple for the outliers, warm pale grey for no
-// significant pattern.
+// significant pattern; Groups the eight colours of unordered groups
+// (blue, orange, green, wine, yellow, pale sky, olive brown, violet),
+// kept apart under the three common dichromacies.
 //
 // # Charts
 //

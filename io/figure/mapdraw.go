@@ -8,6 +8,8 @@ import (
 	"slices"
 	"sort"
 
+	"github.com/paulmach/orb"
+
 	"github.com/areatest/areatest/internal/numtext"
 )
 
@@ -36,7 +38,7 @@ const colGap = 28.0
 func measureLegend(ff *fontFaces, spec mapSpec) legendBox {
 	lg := legendBox{sub: spec.subheading, entries: slices.Clone(spec.entries)}
 	if spec.missing > 0 {
-		lg.entries = append(lg.entries, legendEntry{label: "no data", count: spec.missing, st: style{hatch: true}})
+		lg.entries = append(lg.entries, legendEntry{label: spec.missingName(), count: spec.missing, st: style{hatch: true}})
 		lg.missingEntry = true
 	}
 	for _, e := range lg.entries {
@@ -216,24 +218,7 @@ func outlineFor(median float64) outline {
 // drawMap lays out and draws a map of either kind: the page, the areas
 // class by class, the markers of islets, then the text and the legend.
 func drawMap(w io.Writer, f Format, spec mapSpec, opt MapOptions) error {
-	if err := f.check(); err != nil {
-		return err
-	}
-	if err := checkSize(opt.Width, opt.Height); err != nil {
-		return err
-	}
-	if opt.IDs != nil && len(opt.IDs) != len(spec.geoms) {
-		return fmt.Errorf("plot: %d ids for %d areas", len(opt.IDs), len(spec.geoms))
-	}
-	proj, err := newProjector(spec.geoms, opt.LonLat)
-	if err != nil {
-		return err
-	}
-	fl, err := flatten(spec.geoms, proj)
-	if err != nil {
-		return err
-	}
-	ff, err := loadFonts()
+	fl, ff, err := prepareMap(f, spec.geoms, opt)
 	if err != nil {
 		return err
 	}
@@ -243,24 +228,61 @@ func drawMap(w io.Writer, f Format, spec mapSpec, opt MapOptions) error {
 		return err
 	}
 	fl.toPixels(L.mapX, L.mapY, L.scale)
+	cv := newCanvas(w, f, L.w, L.h, ff)
+	paintAreas(cv, fl, spec)
+	putLines(cv, L.text.head())
+	drawLegend(cv, lg, L)
+	putLines(cv, L.text.foot(float64(L.h)))
+	return cv.finish()
+}
 
-	var cv canvas
-	switch f {
-	case SVG:
-		cv = newSVGCanvas(w, L.w, L.h)
-	case PNG:
-		cv = newRasterCanvas(w, L.w, L.h, ff)
+// prepareMap checks the format and the options of a map of geoms, and
+// projects and flattens the layer and loads the fonts.
+func prepareMap(f Format, geoms []orb.MultiPolygon, opt MapOptions) (*flatLayer, *fontFaces, error) {
+	if err := f.check(); err != nil {
+		return nil, nil, err
 	}
-	cv.rect(0, 0, float64(L.w), float64(L.h), style{fill: white})
+	if err := checkSize(opt.Width, opt.Height); err != nil {
+		return nil, nil, err
+	}
+	if opt.IDs != nil && len(opt.IDs) != len(geoms) {
+		return nil, nil, fmt.Errorf("plot: %d ids for %d areas", len(opt.IDs), len(geoms))
+	}
+	proj, err := newProjector(geoms, opt.LonLat)
+	if err != nil {
+		return nil, nil, err
+	}
+	fl, err := flatten(geoms, proj)
+	if err != nil {
+		return nil, nil, err
+	}
+	ff, err := loadFonts()
+	if err != nil {
+		return nil, nil, err
+	}
+	return fl, ff, nil
+}
+
+// newCanvas starts a w×h picture of format f (checked) on a white page.
+func newCanvas(out io.Writer, f Format, w, h int, ff *fontFaces) canvas {
+	var cv canvas
+	if f == PNG {
+		cv = newRasterCanvas(out, w, h, ff)
+	} else {
+		cv = newSVGCanvas(out, w, h)
+	}
+	cv.rect(0, 0, float64(w), float64(h), style{fill: white})
+	return cv
+}
+
+// paintAreas draws the areas of fl (in pixels) in the classes of spec,
+// then the markers of its islets.
+func paintAreas(cv canvas, fl *flatLayer, spec mapSpec) {
 	ol := outlineFor(fl.medianSize())
 	isl := findIslands(fl, ol)
 	ap := &areaPainter{cv: cv, fl: fl, spec: spec, ol: ol}
 	ap.areas(isl)
 	ap.markers(isl)
-	putLines(cv, L.text.head())
-	drawLegend(cv, lg, L)
-	putLines(cv, L.text.foot(float64(L.h)))
-	return cv.finish()
 }
 
 // medianSize is the median size of the areas in pixels, each the geometric
@@ -392,6 +414,9 @@ func (ap *areaPainter) group(st style, areas []int32) {
 		tip := ""
 		if ap.spec.tip != nil {
 			tip = ap.spec.tip(int(i))
+			if ap.spec.class[i] < 0 {
+				tip += ": " + ap.spec.missingName()
+			}
 		}
 		ap.cv.area(fl.pts[base:fl.ringEnd[r1-1]], ap.ends, fl.ringHole[r0:r1], tip)
 	}

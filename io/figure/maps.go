@@ -84,20 +84,32 @@ var (
 // of the values actually in it, with the number of areas. variable names
 // the values in the legend heading.
 func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float64, missing []bool, classes Classes, k int, variable string, opt MapOptions) error {
-	if len(values) != len(geoms) {
-		return fmt.Errorf("plot: %d values for %d areas", len(values), len(geoms))
-	}
 	if missing != nil && len(missing) != len(geoms) {
 		return fmt.Errorf("plot: %d missing flags for %d areas", len(missing), len(geoms))
 	}
-	isMissing := func(i int) bool { return (missing != nil && missing[i]) || math.IsNaN(values[i]) }
+	isMissing := func(i int) bool { return missing != nil && missing[i] }
+	spec, err := choroplethSpec(geoms, values, isMissing, classes, k, variable, opt)
+	if err != nil {
+		return err
+	}
+	return drawMap(w, f, spec, opt)
+}
+
+// choroplethSpec classifies values for a choropleth; areas where
+// isMissing is true, or whose value is NaN, go in no class.
+func choroplethSpec(geoms []orb.MultiPolygon, values []float64, isMissing func(i int) bool, classes Classes, k int, variable string, opt MapOptions) (mapSpec, error) {
+	if len(values) != len(geoms) {
+		return mapSpec{}, fmt.Errorf("plot: %d values for %d areas", len(values), len(geoms))
+	}
+	given := isMissing
+	isMissing = func(i int) bool { return given(i) || math.IsNaN(values[i]) }
 	known := make([]float64, 0, len(values))
 	for i, v := range values {
 		if isMissing(i) {
 			continue
 		}
 		if math.IsInf(v, 0) {
-			return fmt.Errorf("plot: area %d has an infinite value", i+1)
+			return mapSpec{}, fmt.Errorf("plot: area %d has an infinite value", i+1)
 		}
 		known = append(known, v)
 	}
@@ -105,10 +117,10 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 	if len(known) > 0 {
 		var err error
 		if breaks, err = Breaks(known, classes, k); err != nil {
-			return err
+			return mapSpec{}, err
 		}
 	} else if k < 2 || k > MaxClasses {
-		return fmt.Errorf("plot: number of classes must be between 2 and %d, got %d", MaxClasses, k)
+		return mapSpec{}, fmt.Errorf("plot: number of classes must be between 2 and %d, got %d", MaxClasses, k)
 	}
 	spec := classify(values, isMissing, breaks)
 	spec.geoms = geoms
@@ -124,12 +136,12 @@ func Choropleth(w io.Writer, f Format, geoms []orb.MultiPolygon, values []float6
 	if opt.IDs != nil {
 		spec.tip = func(i int) string {
 			if spec.class[i] < 0 {
-				return opt.IDs[i] + ": no data"
+				return opt.IDs[i] // areaPainter adds the missingName
 			}
 			return opt.IDs[i] + ": " + strconv.FormatFloat(values[i], 'g', -1, 64)
 		}
 	}
-	return drawMap(w, f, spec, opt)
+	return spec, nil
 }
 
 // classify puts each value in its class of breaks, or in none (−1) where
@@ -175,11 +187,21 @@ func classify(values []float64, isMissing func(i int) bool, breaks []float64) ma
 // areas, in the order given, so maps drawn with one legend compare at a
 // glance. LocalCategories is the legend for local association.
 func CategoryMap(w io.Writer, f Format, geoms []orb.MultiPolygon, cats []int, legend []Category, opt MapOptions) error {
+	spec, err := categorySpec(geoms, cats, legend, opt)
+	if err != nil {
+		return err
+	}
+	return drawMap(w, f, spec, opt)
+}
+
+// categorySpec gives each area the colour of its category and counts the
+// areas of each for the legend.
+func categorySpec(geoms []orb.MultiPolygon, cats []int, legend []Category, opt MapOptions) (mapSpec, error) {
 	if len(cats) != len(geoms) {
-		return fmt.Errorf("plot: %d categories for %d areas", len(cats), len(geoms))
+		return mapSpec{}, fmt.Errorf("plot: %d categories for %d areas", len(cats), len(geoms))
 	}
 	if len(legend) == 0 {
-		return fmt.Errorf("plot: a category map needs a legend with at least one category")
+		return mapSpec{}, fmt.Errorf("plot: a category map needs a legend with at least one category")
 	}
 	spec := mapSpec{geoms: geoms, class: cats, heading: opt.LegendTitle}
 	count := make([]int, len(legend))
@@ -188,7 +210,7 @@ func CategoryMap(w io.Writer, f Format, geoms []orb.MultiPolygon, cats []int, le
 		case c == -1:
 			spec.missing++
 		case c < -1 || c >= len(legend):
-			return fmt.Errorf("plot: area %d has category %d; the legend has %d (0 to %d, or −1 for none)", i+1, c, len(legend), len(legend)-1)
+			return mapSpec{}, fmt.Errorf("plot: area %d has category %d; the legend has %d (0 to %d, or −1 for none)", i+1, c, len(legend), len(legend)-1)
 		default:
 			count[c]++
 		}
@@ -201,24 +223,33 @@ func CategoryMap(w io.Writer, f Format, geoms []orb.MultiPolygon, cats []int, le
 	if opt.IDs != nil {
 		spec.tip = func(i int) string {
 			if cats[i] < 0 {
-				return opt.IDs[i] + ": no data"
+				return opt.IDs[i] // areaPainter adds the missingName
 			}
 			return opt.IDs[i] + ": " + legend[cats[i]].Name
 		}
 	}
-	return drawMap(w, f, spec, opt)
+	return spec, nil
 }
 
 // mapSpec is what both kinds of map hand to drawMap.
 type mapSpec struct {
-	geoms               []orb.MultiPolygon
-	class               []int        // per area; −1 is missing
-	fills               []color.RGBA // per class
-	entries             []legendEntry
-	missing             int
+	geoms   []orb.MultiPolygon
+	class   []int        // per area; −1 is missing
+	fills   []color.RGBA // per class
+	entries []legendEntry
+	missing int
+	// missingLabel names the areas without a class in the legend and the
+	// tooltips; empty is "no data".
+	missingLabel        string
 	heading, subheading string
-	tip                 func(i int) string
+	// tip, when set, is the tooltip of area i; for an area without a class
+	// only its id, to which drawing adds missingName.
+	tip func(i int) string
 }
+
+// missingName is what the legend and the tooltips call an area without a
+// class.
+func (s *mapSpec) missingName() string { return cmp.Or(s.missingLabel, "no data") }
 
 type legendEntry struct {
 	label string

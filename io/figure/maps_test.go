@@ -28,13 +28,16 @@ func demoLayer(t *testing.T) *layer.Layer {
 
 // svgDoc is what the tests read back from an SVG: the paths drawn as
 // areas (inside a group, not in the pattern definitions), the texts, the
-// circles, and the size.
+// circles, and the size; areas and placed give the area paths with their
+// group's fill and first point, and the texts with their anchors.
 type svgDoc struct {
 	width, height string
 	areaPaths     int
 	tips          int
 	circles       int
 	texts         []string
+	areas         []svgArea
+	placed        []svgText
 }
 
 // readSVG decodes the whole document with encoding/xml, failing the test
@@ -43,9 +46,10 @@ func readSVG(t *testing.T, data []byte) svgDoc {
 	t.Helper()
 	var doc svgDoc
 	dec := xml.NewDecoder(bytes.NewReader(data))
-	var stack []string
+	var stack, fills []string // the open elements, and the fill of each open group
 	var inText bool
 	var text strings.Builder
+	var at svgText
 	for {
 		tok, err := dec.Token()
 		if err == io.EOF {
@@ -69,6 +73,7 @@ func readSVG(t *testing.T, data []byte) svgDoc {
 			case "path":
 				if len(stack) > 0 && stack[len(stack)-1] == "g" {
 					doc.areaPaths++
+					doc.areas = append(doc.areas, areaOf(e, fills[len(fills)-1]))
 				}
 			case "title":
 				doc.tips++
@@ -77,12 +82,16 @@ func readSVG(t *testing.T, data []byte) svgDoc {
 			case "text":
 				inText = true
 				text.Reset()
+				at = svgText{x: attrNum(e, "x"), y: attrNum(e, "y")}
 			}
 			stack = append(stack, e.Name.Local)
+			fills = append(fills, attr(e, "fill"))
 		case xml.EndElement:
-			stack = stack[:len(stack)-1]
+			stack, fills = stack[:len(stack)-1], fills[:len(fills)-1]
 			if e.Name.Local == "text" {
 				doc.texts = append(doc.texts, text.String())
+				at.s = text.String()
+				doc.placed = append(doc.placed, at)
 				inText = false
 			}
 		case xml.CharData:

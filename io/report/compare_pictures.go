@@ -11,19 +11,6 @@ import (
 	"github.com/areatest/areatest/spatial/compare"
 )
 
-// ComparePictures draws the pictures of a comparison; each method renders
-// one picture in format f.
-type ComparePictures struct {
-	// Result must have been run with compare.Options.KeepNull for Nulls.
-	Result *compare.Result
-}
-
-func (p ComparePictures) note() string {
-	r := p.Result
-	return fmt.Sprintf("%s · seed %d · areatest %s. An association between areas is not evidence that one causes the other.",
-		r.Input.File, r.Seed, r.Version)
-}
-
 // Nulls draws the null distribution of every row of the comparison, one
 // panel each on the statistic's axis with the observed value marked and
 // the row's p-value written in, and below them the false-positive check of
@@ -36,7 +23,14 @@ func (p ComparePictures) Nulls(w io.Writer, f figure.Format) error {
 	var panels []figure.NullPanel
 	var rates []figure.RateRow
 	alpha := 0.0
+	skipped := ""
 	for _, t := range r.Tests {
+		if r.Rates != nil && t.Scheme == compare.SpectralScheme {
+			// Its statistic is of the empirical-Bayes scores, not of the
+			// pooled rates on this axis.
+			skipped = "; the spectral row tests the empirical-Bayes scores and is not drawn"
+			continue
+		}
 		if len(t.Null) == 0 {
 			return fmt.Errorf("the comparison kept no null values of %q (compare.Options.KeepNull)", t.Scheme)
 		}
@@ -48,7 +42,7 @@ func (p ComparePictures) Nulls(w io.Writer, f figure.Format) error {
 	}
 	opt := figure.NullOptions{ChartOptions: figure.ChartOptions{
 		Title:    "The observed " + statisticName(r) + " against each null model",
-		Subtitle: fmt.Sprintf("%s by %s; %s p-values; each panel counts its own draws", r.Input.Outcome, r.Input.Group, r.Tests[0].Alternative),
+		Subtitle: fmt.Sprintf("%s by %s; %s p-values; each panel counts its own draws%s", r.Input.Outcome, r.Input.Group, r.Tests[0].Alternative, skipped),
 		XLabel:   statisticAxis(r), Note: p.note()}, Alpha: alpha}
 	if len(rates) > 0 {
 		opt.CheckTitle = fmt.Sprintf("False-positive check: outcomes with the spatial pattern of %s and no link to %s", r.NullPattern(), r.Input.Group)

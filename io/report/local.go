@@ -12,7 +12,6 @@ import (
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/spatial/local"
-	"github.com/areatest/areatest/weights"
 )
 
 // LocalText writes the summary of a local analysis: counts per category and
@@ -127,7 +126,7 @@ func (p LocalPictures) note() string {
 }
 
 func (p LocalPictures) mapOptions(title, subtitle string) figure.MapOptions {
-	return figure.MapOptions{Title: title, Subtitle: subtitle, LonLat: !p.Layer.CRS.Projected && weights.DetectMetric(p.Layer.Geoms) == weights.Geographic,
+	return figure.MapOptions{Title: title, Subtitle: subtitle, LonLat: lonLat(p.Layer),
 		Note: p.note(), IDs: p.Layer.IDs}
 }
 
