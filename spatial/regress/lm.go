@@ -81,7 +81,7 @@ func (f *Fit) LagrangeMultipliers(g *weights.Graph) (LM, error) {
 	if !(t > 0) {
 		return LM{}, errors.New("regress: tr(WᵀW + W²) is zero on this graph")
 	}
-	if !(mwxb > 1e-12*scale) || mwxb == 0 {
+	if !(mwxb > 1e-12*scale) {
 		return LM{}, ErrNoLagSignal
 	}
 	d := (mwxb + t*s2) / s2

@@ -56,37 +56,44 @@ func lag(g *weights.Graph, v, dst []float64) {
 	}
 }
 
-// weightTraces returns S0, tr(WWᵀ) and tr(W²). For tr(W²) = Σ_ij w_ij w_ji
-// it visits each link (i, j) and looks w_ji up in row j by binary search:
-// rows are sorted.
+// weightTraces returns S0, tr(WWᵀ) = Σ w_ij² and tr(W²) = Σ_ij w_ij w_ji.
+// For the last, column i of W (the links into i, gathered once by a
+// counting pass) meets row i scattered into a work vector: O(links).
 func weightTraces(g *weights.Graph) (s0, wwt, ww float64) {
-	for i := 0; i < g.Len(); i++ {
+	n := g.Len()
+	start := make([]int32, n+1) // column pointers of W
+	for _, j := range g.Neighbours {
+		start[j+1]++
+	}
+	for j := 0; j < n; j++ {
+		start[j+1] += start[j]
+	}
+	from := make([]int32, len(g.Neighbours))
+	into := make([]float64, len(g.Neighbours))
+	fill := append([]int32(nil), start[:n]...)
+	for i := 0; i < n; i++ {
 		nb, w := g.Row(i)
 		for t, j := range nb {
 			s0 += w[t]
 			wwt += w[t] * w[t]
-			ww += w[t] * weightOf(g, int(j), int32(i))
+			from[fill[j]], into[fill[j]] = int32(i), w[t]
+			fill[j]++
+		}
+	}
+	row := make([]float64, n)
+	for i := 0; i < n; i++ {
+		nb, w := g.Row(i)
+		for t, j := range nb {
+			row[j] = w[t]
+		}
+		for s := start[i]; s < start[i+1]; s++ { // w_ji for the j linking into i
+			ww += row[from[s]] * into[s]
+		}
+		for _, j := range nb {
+			row[j] = 0
 		}
 	}
 	return s0, wwt, ww
-}
-
-// weightOf returns w_ij, or 0 when j is not a neighbour of i.
-func weightOf(g *weights.Graph, i int, j int32) float64 {
-	nb, w := g.Row(i)
-	lo, hi := 0, len(nb)
-	for lo < hi {
-		m := (lo + hi) / 2
-		if nb[m] < j {
-			lo = m + 1
-		} else {
-			hi = m
-		}
-	}
-	if lo < len(nb) && nb[lo] == j {
-		return w[lo]
-	}
-	return 0
 }
 
 // traces computes the traces for the graph g (checked by the caller).
