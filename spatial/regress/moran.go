@@ -36,9 +36,11 @@ type ResidualMoran struct {
 	Alternative string `json:"alternative"`
 	// Exact says whether ExactP was computed (n ≤ ExactLimit): the
 	// p-value of I under normal errors without the normal approximation,
-	// by Imhof's (1961) inversion of the characteristic function.
+	// by Imhof's (1961) inversion of the characteristic function, accurate
+	// to about 1e-12 absolute (so a tiny ExactP is "below 1e-10", not its
+	// digits). ExactP is 0 when not computed.
 	Exact  bool    `json:"exact_computed"`
-	ExactP float64 `json:"exact_p,omitempty"`
+	ExactP float64 `json:"exact_p"`
 }
 
 // Moran returns Moran's I of the residuals on the graph g (the areas of the
