@@ -79,11 +79,11 @@ func compareSpatialSection(s *section, r *compare.Result) {
 	if a.Outcome.Variable == "" {
 		return
 	}
-	t := newTable("Moran's I, "+spatialCheckWeights(r)+" ("+spatialCheckGraph(r)+")", "variable", "#Moran's I", "#expected", "#p-value")
+	t := newTable("Moran's I of the outcome and the groups", "variable", "#Moran's I", "#expected", "#p-value")
 	for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {
 		t.add(m.Variable, fmt.Sprintf("%.3f", m.MoransI), fmt.Sprintf("%.3f", m.Expected), PValue(m.PValue))
 	}
-	s.add(table(t))
+	s.add(table(t), note("On "+spatialCheckWeights(r)+": "+spatialCheckGraph(r)+"."))
 }
 
 // weightsFact sums up the neighbour graph a result used.

@@ -84,9 +84,9 @@ func TestInlineSVG(t *testing.T) {
 // hostileCompare is a comparison whose names and ids are hostile.
 func hostileCompare() *compare.Result {
 	return &compare.Result{Version: "test", Seed: 7,
-		Input:   compare.InputInfo{File: hostileID + ".geojson", Areas: 3, Tested: 2, Outcome: hostileColumn, Group: hostileColumn},
-		Weights: weights.Summary{Kind: "queen contiguity", Scaling: "row-standardised", Areas: 2, Islands: 1, IslandIDs: []string{hostileID}},
-		Groups:  []compare.GroupResult{{Level: hostileID}, {Level: "b"}},
+		Input:     compare.InputInfo{File: hostileID + ".geojson", Areas: 3, Tested: 2, Outcome: hostileColumn, Group: hostileColumn},
+		Weights:   weights.Summary{Kind: "queen contiguity", Scaling: "row-standardised", Areas: 2, Islands: 1, IslandIDs: []string{hostileID}},
+		Groups:    []compare.GroupResult{{Level: hostileID}, {Level: "b"}},
 		Statistic: compare.StatisticInfo{Label: "difference in medians", Observed: 1.5, Contrast: []string{hostileID, "b"}, InOutcomeUnits: true},
 		Excluded:  []compare.Exclusion{{Reason: "missing " + hostileColumn, Areas: 1, IDs: []string{hostileID}}},
 		Warnings:  []string{"area " + hostileID + " has no neighbour"}, Cautions: compare.Cautions,
