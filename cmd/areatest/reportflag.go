@@ -3,12 +3,14 @@ package main
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"hash"
 	"io"
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/report"
@@ -101,13 +103,17 @@ type pagePicture struct {
 // with the pictures and, for a local result, the top strongest areas.
 func (c *sharedFlags) page(result any, top int, pics ...pagePicture) func(io.Writer) error {
 	return func(w io.Writer) error {
-		doc := report.HTMLDoc{Result: result, Inputs: c.digests, Top: top}
-		for _, p := range pics {
-			pic, err := report.DrawPicture(p.title, p.caption, p.draw)
-			if err != nil {
-				return err
-			}
-			doc.Pictures = append(doc.Pictures, pic)
+		doc := report.HTMLDoc{Result: result, Inputs: c.digests, Top: top, Pictures: make([]report.Picture, len(pics))}
+		// The pictures are drawn side by side (a large layer's maps and
+		// scatter take seconds each), each into its own place.
+		errs := make([]error, len(pics))
+		var wg sync.WaitGroup
+		for i, p := range pics {
+			wg.Go(func() { doc.Pictures[i], errs[i] = report.DrawPicture(p.title, p.caption, p.draw) })
+		}
+		wg.Wait()
+		if err := errors.Join(errs...); err != nil {
+			return err
 		}
 		return report.HTML(w, doc)
 	}
