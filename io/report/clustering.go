@@ -76,23 +76,43 @@ func generalGSkipped(v clustering.Variable) string {
 	return "General G skipped: " + v.GeneralGSkipped + "."
 }
 
-func variableText(b *strings.Builder, v clustering.Variable) {
-	fmt.Fprintf(b, "%s (%s areas", v.Name, numtext.Count(v.Areas))
+// variableCounts says on how many areas a variable was analysed.
+func variableCounts(v clustering.Variable) string {
+	s := numtext.Count(v.Areas) + " areas"
 	if v.Missing > 0 {
-		fmt.Fprintf(b, ", %s without a value", numtext.Count(v.Missing))
+		s += fmt.Sprintf(", %s without a value", numtext.Count(v.Missing))
 	}
 	if v.Islands > 0 {
-		fmt.Fprintf(b, ", %s left out without neighbours", numtext.Count(v.Islands))
+		s += fmt.Sprintf(", %s left out without neighbours", numtext.Count(v.Islands))
 	}
-	b.WriteString(")\n")
-	statisticHead(b)
-	statisticLine(b, "Moran's I", v.MoransI, true)
-	statisticLine(b, "Geary's C", v.GearysC, true)
+	return s
+}
+
+// namedStatistic is one line of a variable's table; withNormal says it has
+// a p-value under normality.
+type namedStatistic struct {
+	name       string
+	s          clustering.Statistic
+	withNormal bool
+}
+
+// variableStatistics are the lines of a variable's table.
+func variableStatistics(v clustering.Variable) []namedStatistic {
+	out := []namedStatistic{{"Moran's I", v.MoransI, true}, {"Geary's C", v.GearysC, true}}
 	if v.GeneralG != nil {
-		statisticLine(b, "General G", *v.GeneralG, false)
+		out = append(out, namedStatistic{"General G", *v.GeneralG, false})
 	}
 	if v.Bivariate != nil {
-		statisticLine(b, "bivariate I", v.Bivariate.Statistic, false)
+		out = append(out, namedStatistic{"bivariate I", v.Bivariate.Statistic, false})
+	}
+	return out
+}
+
+func variableText(b *strings.Builder, v clustering.Variable) {
+	fmt.Fprintf(b, "%s (%s)\n", v.Name, variableCounts(v))
+	statisticHead(b)
+	for _, st := range variableStatistics(v) {
+		statisticLine(b, st.name, st.s, st.withNormal)
 	}
 	b.WriteString(Wrap(rangeSentence(v), width, "  ", "  "))
 	if v.GeneralGSkipped != "" {

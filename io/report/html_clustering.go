@@ -56,21 +56,9 @@ func statisticRow(t *tableView, name string, s clustering.Statistic, withNormal 
 // variableSection is one numeric variable: its statistics, the range of
 // Moran's I and the correlogram.
 func variableSection(s *section, v clustering.Variable) {
-	caption := fmt.Sprintf("Global statistics of %s (%s areas", v.Name, numtext.Count(v.Areas))
-	if v.Missing > 0 {
-		caption += fmt.Sprintf(", %s without a value", numtext.Count(v.Missing))
-	}
-	if v.Islands > 0 {
-		caption += fmt.Sprintf(", %s left out without neighbours", numtext.Count(v.Islands))
-	}
-	t := statisticTable(caption + ")")
-	statisticRow(t, "Moran's I", v.MoransI, true)
-	statisticRow(t, "Geary's C", v.GearysC, true)
-	if v.GeneralG != nil {
-		statisticRow(t, "General G", *v.GeneralG, false)
-	}
-	if v.Bivariate != nil {
-		statisticRow(t, "bivariate I", v.Bivariate.Statistic, false)
+	t := statisticTable("Global statistics of " + v.Name + " (" + variableCounts(v) + ")")
+	for _, st := range variableStatistics(v) {
+		statisticRow(t, st.name, st.s, st.withNormal)
 	}
 	s.add(table(t), text(rangeSentence(v)))
 	if v.GeneralGSkipped != "" {

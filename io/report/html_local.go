@@ -60,15 +60,9 @@ func weightsPage(d *WeightsDocument) *page {
 	if len(s.Histogram) > 0 {
 		t := newTable("Areas by their number of neighbours", "#neighbours", "#areas")
 		t.Bars = true
-		peak := 1
-		for _, c := range s.Histogram {
-			peak = max(peak, c)
-		}
-		for k, c := range s.Histogram {
-			if c == 0 && len(s.Histogram) > 30 {
-				continue
-			}
-			t.add(fmt.Sprint(k), numtext.Count(c)).Bar = 100 * float64(c) / float64(peak)
+		bins, peak := histogramBins(s)
+		for _, bin := range bins {
+			t.add(fmt.Sprint(bin[0]), numtext.Count(bin[1])).Bar = 100 * float64(bin[1]) / float64(peak)
 		}
 		pg.section("Neighbour counts").add(table(t))
 	}

@@ -35,16 +35,10 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	}
 	if len(s.Histogram) > 0 {
 		b.WriteString("\n  neighbours   areas\n")
-		peak := 0
-		for _, c := range s.Histogram {
-			peak = max(peak, c)
-		}
-		for k, c := range s.Histogram {
-			if c == 0 && len(s.Histogram) > 30 {
-				continue
-			}
-			bar := strings.Repeat("█", (c*40+peak-1)/max(peak, 1))
-			fmt.Fprintf(&b, "  %10d %7s  %s\n", k, numtext.Count(c), bar)
+		bins, peak := histogramBins(s)
+		for _, bin := range bins {
+			bar := strings.Repeat("█", (bin[1]*40+peak-1)/peak)
+			fmt.Fprintf(&b, "  %10d %7s  %s\n", bin[0], numtext.Count(bin[1]), bar)
 		}
 	}
 	if len(s.Warnings) > 0 {
@@ -101,6 +95,23 @@ func weightsFacts(d *WeightsDocument) [][2]string {
 		row("symmetric", "yes")
 	}
 	return facts
+}
+
+// histogramBins are the rows of the histogram of neighbour counts, count
+// of neighbours and of areas (empty rows left out of a long one), and the
+// largest count of areas (at least 1).
+func histogramBins(s weights.Summary) (bins [][2]int, peak int) {
+	peak = 1
+	for _, c := range s.Histogram {
+		peak = max(peak, c)
+	}
+	for k, c := range s.Histogram {
+		if c == 0 && len(s.Histogram) > 30 {
+			continue
+		}
+		bins = append(bins, [2]int{k, c})
+	}
+	return bins, peak
 }
 
 // geometryProblems lists every geometry problem, one sentence each.
