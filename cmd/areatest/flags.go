@@ -80,8 +80,8 @@ func (c *sharedFlags) registerRun(fs *pflag.FlagSet, formats ...string) {
 	c.weights.register(fs)
 }
 
-// registerOutput adds --format (the first of formats is the default) and
-// --output.
+// registerOutput adds --format (the first of formats is the default),
+// --output and --report (the HTML page, see reportflag.go).
 func (c *sharedFlags) registerOutput(fs *pflag.FlagSet, formats ...string) {
 	for _, f := range formats {
 		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
