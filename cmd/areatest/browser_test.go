@@ -7,8 +7,11 @@ import (
 	"fmt"
 	"image"
 	"image/png"
+	"math"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -206,6 +209,7 @@ func TestReportInBrowser(t *testing.T) {
 			if s := eval[string](t, tab, `document.body.innerText`); !strings.Contains(s, "Where does rate cluster?") || !strings.Contains(s, "high-high") {
 				t.Error("the page's text lacks its title or the categories")
 			}
+			printsOnA4(t, tab)
 			boxes := eval[[][4]float64](t, tab, `[...document.querySelectorAll("figure svg")].map(e => { const r = e.getBoundingClientRect(); return [r.left + scrollX, r.top + scrollY, r.width, r.height] })`)
 			for _, b := range boxes {
 				maps = append(maps, image.Rect(int(b[0]), int(b[1]), int(b[0]+b[2]), int(b[1]+b[3])))
@@ -223,6 +227,29 @@ func TestReportInBrowser(t *testing.T) {
 		}
 
 	})
+}
+
+// printsOnA4 prints the page as the browser's print dialog would, with
+// the page size the stylesheet asks for: A4 sheets, a handful of them.
+func printsOnA4(t *testing.T, tab context.Context) {
+	t.Helper()
+	pdf, err := chromedp.Run(tab, chromedp.PrintToPDF(chromedp.PDFPreferCSSPageSize()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	boxes := regexp.MustCompile(`/MediaBox \[0 0 ([0-9.]+) ([0-9.]+)\]`).FindAllSubmatch(pdf, -1)
+	if len(boxes) < 2 || len(boxes) > 12 {
+		t.Errorf("printed on %d pages, want 2 to 12", len(boxes))
+	}
+	for _, b := range boxes {
+		// A4 is 210 × 297 mm: 595.3 × 841.9 points.
+		w, _ := strconv.ParseFloat(string(b[1]), 64)
+		h, _ := strconv.ParseFloat(string(b[2]), 64)
+		if math.Abs(w-595.3) > 2 || math.Abs(h-841.9) > 2 {
+			t.Errorf("a printed page is %g × %g points, not A4", w, h)
+			break
+		}
+	}
 }
 
 // hostileLayer is a 4×4 grid whose first area's id and whose outcome's
