@@ -83,6 +83,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.AutocorrText(w, res) },
+		"html": c.page(res, 0),
 	})
 }
 

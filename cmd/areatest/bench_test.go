@@ -12,7 +12,7 @@ import (
 
 // benchLayer is an invented region of n districts written as GeoJSON, for
 // timing only.
-func benchLayer(b *testing.B, n int) []byte {
+func benchLayer(b testing.TB, n int) []byte {
 	cfg := region.DefaultConfig()
 	cfg.Areas = n
 	r, err := region.Build(cfg)

@@ -175,6 +175,7 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.CompareText(w, res) },
+		"html": c.page(res, 0),
 	})
 }
 

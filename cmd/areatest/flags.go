@@ -26,6 +26,10 @@ import (
 // they use), and what check, open and build make of them.
 type sharedFlags struct {
 	input, id, alternative, format, output string
+	// report is the HTML page of --report; digests the files read, with
+	// their SHA-256, for it.
+	report  string
+	digests []report.InputFile
 	// The layer's name in a file of several, and the table joined onto it.
 	layerName, table, key, tableKey string
 	skipBadGeometry                 bool
@@ -76,14 +80,15 @@ func (c *sharedFlags) registerRun(fs *pflag.FlagSet, formats ...string) {
 	c.weights.register(fs)
 }
 
-// registerOutput adds --format (the first of formats is the default) and
-// --output.
+// registerOutput adds --format (the first of formats is the default),
+// --output and --report (the HTML page, see reportflag.go).
 func (c *sharedFlags) registerOutput(fs *pflag.FlagSet, formats ...string) {
 	for _, f := range formats {
 		c.formats = append(c.formats, choice.Name[string]{Name: f, Value: f})
 	}
 	fs.StringVar(&c.format, "format", formats[0], choice.List(c.formats))
 	fs.StringVarP(&c.output, "output", "o", "-", "write the result here instead of stdout")
+	fs.StringVar(&c.report, "report", "", "also write the result as one self-contained HTML page here (.html), tables and pictures in it")
 }
 
 // prepare checks the shared flags (the alternative read by parseAlt),
@@ -152,6 +157,9 @@ func (c *sharedFlags) checkOutput() (err error) {
 	if c.format, err = choice.Parse("--format", c.format, c.formats...); err != nil {
 		return usagef("%v", err)
 	}
+	if err := c.checkReport(); err != nil {
+		return err
+	}
 	c.files = append([]plannedFile{{flag: "--output", path: c.output}}, c.files...)
 	return c.planOutputs()
 }
@@ -179,9 +187,13 @@ func (c *sharedFlags) planOutputs() (err error) {
 // open reads the layer named by --input, with its warnings on stderr.
 func (c *sharedFlags) open(stdin io.Reader, stderr io.Writer) (err error) {
 	var warnings []string
+	stdin, digest := c.digestStdin(stdin)
 	c.lay, warnings, err = readLayer(c.input, stdin, input.Options{IDColumn: c.id, SkipBadGeometry: c.skipBadGeometry, Layer: c.layerName})
 	warn(stderr, warnings...)
 	if err != nil {
+		return err
+	}
+	if err := c.digestInputs(digest); err != nil {
 		return err
 	}
 	if err := c.joinTable(stderr); err != nil {
@@ -257,13 +269,17 @@ func readLayer(path string, stdin io.Reader, opt input.Options) (lay *layer.Laye
 }
 
 // emit writes the result in the chosen format, by render, to --output,
-// together with the run's other planned outputs; the text report shows its
-// warnings itself, the other formats leave them to stderr.
+// together with the run's other planned outputs (the page of --report by
+// render["html"], see page); the text report shows its warnings itself,
+// the other formats leave them to stderr.
 func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
 	if c.format != "text" {
 		warn(stderr, warnings...)
 	}
 	r := render[c.format]
+	if f := c.fileOf("--report"); f != nil {
+		f.SetRender(render["html"])
+	}
 	if names, values := c.layerFacts(); c.format == "json" && len(names) > 0 {
 		doc := r
 		r = func(w io.Writer) error {

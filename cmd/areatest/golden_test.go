@@ -69,6 +69,7 @@ func TestGoldenReports(t *testing.T) {
 		{"local-pictures", append([]string{"local", "-i", "region.geojson", "--variable", "rate", "--map", "map.svg", "--choropleth", "rate.svg",
 			"--classes", "natural", "--scatter", "scatter.svg", "--histogram", "hist.svg", "--area", "D111"}, small...),
 			[]string{"map.svg", "rate.svg", "scatter.svg", "hist.svg"}},
+		{"local-report", append([]string{"local", "-i", "region.geojson", "--variable", "rate", "--report", "report.html"}, small...), []string{"report.html"}},
 		{"local-gi-star", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--statistic", "gi-star", "--knn", "6", "--adjust", "by"}, small...), nil},
 		{"local-geary-folded", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--statistic", "geary", "--alternative", "folded"}, small...), nil},
 		{"local-cross", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--against", "rate", "--statistic", "cross-moran", "--top", "3"}, small...), nil},

@@ -150,10 +150,12 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
-	c.write(report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule})
+	pics := report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule}
+	c.write(pics)
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.LocalText(w, res, c.top) },
+		"html": c.page(res, c.top, localPagePictures(pics)...),
 	})
 }
 
@@ -193,8 +195,11 @@ func (c *localFlags) write(pics report.LocalPictures) {
 		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
 	for _, f := range c.files {
 		d, ok := draw[f.flag]
+		if f.flag == "--report" {
+			res.Written = append(res.Written, f.path)
+		}
 		if !ok {
-			continue // --output: the report, rendered by emit
+			continue // --output and --report: rendered by emit
 		}
 		format, _ := figure.FormatFromPath(f.path) // checked by checkFiles; none for the table
 		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
@@ -212,4 +217,18 @@ func crsLabel(c layer.CRS) string {
 		return fmt.Sprintf(" (%s)", c.Name)
 	}
 	return ""
+}
+
+// localPagePictures are the pictures of the page of --report: the
+// category map and the choropleth always, the Moran scatter for the Moran
+// statistics.
+func localPagePictures(p report.LocalPictures) []pagePicture {
+	pics := []pagePicture{
+		{"Categories", "Each area in its category at the level of the test; hatched areas have no value. Clusters are patterns across areas, not causes.", p.Map},
+		{p.Result.Variable + " in classes", "The variable itself in five classes, lightest for the lowest; hatched areas have no value.", p.Choropleth},
+	}
+	if k := p.Result.Kind; k == local.Moran || k == local.CrossMoran {
+		pics = append(pics, pagePicture{"Moran scatter", "Each analysed area's standardised value against its neighbours' mean; the slope of the line is the global Moran's I.", p.Scatter})
+	}
+	return pics
 }

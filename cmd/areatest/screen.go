@@ -63,5 +63,6 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"csv":  func(w io.Writer) error { return report.ScreenCSV(w, res) },
 		"text": func(w io.Writer) error { return report.ScreenText(w, res) },
+		"html": c.page(res, 0),
 	})
 }

@@ -64,5 +64,6 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	return c.emit(stdout, stderr, nil, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, doc) },
 		"text": func(w io.Writer) error { return report.WeightsText(w, doc) },
+		"html": c.page(doc, 0),
 	})
 }

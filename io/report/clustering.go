@@ -27,7 +27,7 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 	if rt := r.Rate; rt != nil {
 		rateText(&b, rt)
 	}
-	b.WriteString(Wrap("z is under randomisation; \"p normal\" and \"p random\" are the normal approximations under the normality and randomisation hypotheses (Cliff & Ord 1981), \"p shuffle\" the permutation p-value (1 + b)/(1 + B). Geary's C below 1 and Moran's I above its expected value mean neighbours are alike.", width, "  ", "  "))
+	b.WriteString(Wrap(autocorrFootnote, width, "  ", "  "))
 	b.WriteString("\n")
 	writeWarnings(&b, r.Warnings)
 	writeCautions(&b, r.Cautions)
@@ -35,6 +35,15 @@ func AutocorrText(w io.Writer, r *clustering.Result) error {
 	_, err := io.WriteString(w, b.String())
 	return err
 }
+
+// autocorrFootnote says what the columns of autocorr's tables are.
+const autocorrFootnote = "z is under randomisation; \"p normal\" and \"p random\" are the normal approximations under the normality and randomisation hypotheses (Cliff & Ord 1981), \"p shuffle\" the permutation p-value (1 + b)/(1 + B). Geary's C below 1 and Moran's I above its expected value mean neighbours are alike."
+
+// joinsNote says how clustering shows in join counts.
+const joinsNote = "Clustering shows as more same-category joins and fewer different-category joins than expected."
+
+// screenFootnote says how to read the screen's ranking.
+const screenFootnote = "A small adjusted p-value says the column clusters more than a random arrangement of its values would; Moran's I says how strongly. The ranking is a screen, not a conclusion: look at the maps and the data before modelling."
 
 // statisticHead writes the column heads of statistic lines.
 func statisticHead(b *strings.Builder) {
@@ -52,33 +61,62 @@ func statisticLine(b *strings.Builder, name string, s clustering.Statistic, with
 		Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
 }
 
-func variableText(b *strings.Builder, v clustering.Variable) {
-	fmt.Fprintf(b, "%s (%s areas", v.Name, numtext.Count(v.Areas))
-	if v.Missing > 0 {
-		fmt.Fprintf(b, ", %s without a value", numtext.Count(v.Missing))
-	}
-	if v.Islands > 0 {
-		fmt.Fprintf(b, ", %s left out without neighbours", numtext.Count(v.Islands))
-	}
-	b.WriteString(")\n")
-	statisticHead(b)
-	statisticLine(b, "Moran's I", v.MoransI, true)
-	statisticLine(b, "Geary's C", v.GearysC, true)
-	if v.GeneralG != nil {
-		statisticLine(b, "General G", *v.GeneralG, false)
-	}
-	if v.Bivariate != nil {
-		statisticLine(b, "bivariate I", v.Bivariate.Statistic, false)
-	}
+// rangeSentence reads Moran's I against the range it can take.
+func rangeSentence(v clustering.Variable) string {
 	share, towardsMax := v.RangeShare()
 	side := "minimum"
 	if towardsMax {
 		side = "maximum"
 	}
-	b.WriteString(Wrap(fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
-		Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share, side), width, "  ", "  "))
+	return fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
+		Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share, side)
+}
+
+func generalGSkipped(v clustering.Variable) string {
+	return "General G skipped: " + v.GeneralGSkipped + "."
+}
+
+// variableCounts says on how many areas a variable was analysed.
+func variableCounts(v clustering.Variable) string {
+	s := numtext.Count(v.Areas) + " areas"
+	if v.Missing > 0 {
+		s += fmt.Sprintf(", %s without a value", numtext.Count(v.Missing))
+	}
+	if v.Islands > 0 {
+		s += fmt.Sprintf(", %s left out without neighbours", numtext.Count(v.Islands))
+	}
+	return s
+}
+
+// namedStatistic is one line of a variable's table; withNormal says it has
+// a p-value under normality.
+type namedStatistic struct {
+	name       string
+	s          clustering.Statistic
+	withNormal bool
+}
+
+// variableStatistics are the lines of a variable's table.
+func variableStatistics(v clustering.Variable) []namedStatistic {
+	out := []namedStatistic{{"Moran's I", v.MoransI, true}, {"Geary's C", v.GearysC, true}}
+	if v.GeneralG != nil {
+		out = append(out, namedStatistic{"General G", *v.GeneralG, false})
+	}
+	if v.Bivariate != nil {
+		out = append(out, namedStatistic{"bivariate I", v.Bivariate.Statistic, false})
+	}
+	return out
+}
+
+func variableText(b *strings.Builder, v clustering.Variable) {
+	fmt.Fprintf(b, "%s (%s)\n", v.Name, variableCounts(v))
+	statisticHead(b)
+	for _, st := range variableStatistics(v) {
+		statisticLine(b, st.name, st.s, st.withNormal)
+	}
+	b.WriteString(Wrap(rangeSentence(v), width, "  ", "  "))
 	if v.GeneralGSkipped != "" {
-		b.WriteString(Wrap("General G skipped: "+v.GeneralGSkipped+".", width, "  ", "  "))
+		b.WriteString(Wrap(generalGSkipped(v), width, "  ", "  "))
 	}
 	if len(v.Correlogram) > 0 {
 		fmt.Fprintf(b, "  %-30s %9s %9s %9s %10s\n", "correlogram", "pairs", "Moran's I", "expected", "p shuffle")
@@ -101,7 +139,17 @@ func joinsText(b *strings.Builder, j clustering.Joins) {
 	}
 	d := j.Test.Different
 	fmt.Fprintf(b, "  %-22s %7s %7s %10.1f %8.2f %10s\n", "different categories", "", numtext.Count(d.Joins), d.Expected, d.Z, PValue(d.Permutation.PValue))
-	b.WriteString("  Clustering shows as more same-category joins and fewer different-category joins than expected.\n\n")
+	b.WriteString("  " + joinsNote + "\n\n")
+}
+
+// rateSentence says why the empirical-Bayes Moran's I is to be trusted.
+func rateSentence(rt *clustering.Rate) string {
+	return fmt.Sprintf("The empirical-Bayes (EB) Moran's I (Assunção & Reis 1999) weighs each area's rate by how much its population lets it be trusted; populations here range from %s to %s. When the two disagree, trust the EB value.", Number(rt.Smallest), Number(rt.Largest))
+}
+
+// flooredSentence names the areas whose EB variance was floored.
+func flooredSentence(rt *clustering.Rate) string {
+	return fmt.Sprintf("%d area(s) had a negative estimated variance and used the Poisson part alone: %s.", len(rt.Floored), strings.Join(first(rt.Floored, 8), ", "))
 }
 
 func rateText(b *strings.Builder, rt *clustering.Rate) {
@@ -113,9 +161,9 @@ func rateText(b *strings.Builder, rt *clustering.Rate) {
 	statisticHead(b)
 	statisticLine(b, "raw rate", rt.Raw, true)
 	statisticLine(b, "EB scores", rt.EB, true)
-	b.WriteString(Wrap(fmt.Sprintf("The empirical-Bayes (EB) Moran's I (Assunção & Reis 1999) weighs each area's rate by how much its population lets it be trusted; populations here range from %s to %s. When the two disagree, trust the EB value.", Number(rt.Smallest), Number(rt.Largest)), width, "  ", "  "))
+	b.WriteString(Wrap(rateSentence(rt), width, "  ", "  "))
 	if len(rt.Floored) > 0 {
-		b.WriteString(Wrap(fmt.Sprintf("%d area(s) had a negative estimated variance and used the Poisson part alone: %s.", len(rt.Floored), strings.Join(first(rt.Floored, 8), ", ")), width, "  ", "  "))
+		b.WriteString(Wrap(flooredSentence(rt), width, "  ", "  "))
 	}
 	b.WriteString("\n")
 }
@@ -159,7 +207,7 @@ func ScreenText(w io.Writer, r *clustering.ScreenResult) error {
 		}
 		b.WriteString("\n")
 	}
-	b.WriteString(Wrap("A small adjusted p-value says the column clusters more than a random arrangement of its values would; Moran's I says how strongly. The ranking is a screen, not a conclusion: look at the maps and the data before modelling.", width, "  ", "  "))
+	b.WriteString(Wrap(screenFootnote, width, "  ", "  "))
 	b.WriteString("\n")
 	writeWarnings(&b, r.Warnings)
 	writeCautions(&b, r.Cautions)

@@ -55,24 +55,27 @@ func compareGroups(b *strings.Builder, r *compare.Result) {
 		fmt.Fprintf(b, "  %-22s %7s %12s %12s %12s\n", truncate(g.Level, 22), numtext.Count(g.Areas), Number(g.Median), Number(g.Mean), Number(g.SD))
 	}
 	b.WriteString("\n")
+	fmt.Fprintf(b, "  %s\n\n", statisticSentence(r))
+}
+
+// statisticSentence names the group statistic and gives its observed
+// value, for the text report and the page.
+func statisticSentence(r *compare.Result) string {
 	s := r.Statistic
 	switch {
 	case len(s.Contrast) == 2 && s.InOutcomeUnits:
-		fmt.Fprintf(b, "  %s, %s − %s: %s (units of %s)\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed), r.Input.Outcome)
+		return fmt.Sprintf("%s, %s − %s: %s (units of %s)", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed), r.Input.Outcome)
 	case len(s.Contrast) == 2:
-		fmt.Fprintf(b, "  %s, %s against %s: %s\n", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
-	default:
-		fmt.Fprintf(b, "  %s across %d groups: %s\n", capitalise(s.Label), len(r.Groups), Number(s.Observed))
+		return fmt.Sprintf("%s, %s against %s: %s", capitalise(s.Label), s.Contrast[0], s.Contrast[1], Number(s.Observed))
 	}
-	b.WriteString("\n")
+	return fmt.Sprintf("%s across %d groups: %s", capitalise(s.Label), len(r.Groups), Number(s.Observed))
 }
 
 // compareTests writes the covariate adjustment and the table of null
 // models with its footnote.
 func compareTests(b *strings.Builder, r *compare.Result) {
-	if a := r.Adjusted; a != nil {
-		b.WriteString(Wrap(fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical %s. The shuffles below test this adjusted statistic.",
-			strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), pEquals(a.ClassicalP)), width, "  ", "  "))
+	if r.Adjusted != nil {
+		b.WriteString(Wrap(adjustedSentence(r.Adjusted), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	if r.FalsePositiveRate != nil {
@@ -109,26 +112,56 @@ func testTableWithRates(b *strings.Builder, r *compare.Result) {
 	fmt.Fprintf(b, "  %-26s %8s   %-18s %9s   %s\n", "null model", "p-value", "95% interval", "draws", "false positives")
 	for _, t := range r.Tests {
 		interval, count := testCells(t)
-		rate := "not measured"
-		if f := t.FalsePositives; f != nil {
-			rate = fmt.Sprintf("%s (%s–%s)", percent(f.Rate), strings.TrimSuffix(percent(f.Interval[0]), "%"), percent(f.Interval[1]))
-		}
-		fmt.Fprintf(b, "  %-26s %8s   %-18s %9s   %s\n", truncate(t.Scheme, 26), PValue(t.PValue), interval, count, rate)
-		if t.Unsound() {
-			mark := "too many false positives here: " + percent(t.FalsePositives.Rate) + ", do not read this p-value"
-			if strings.HasSuffix(t.Scheme, "automatic zones") {
-				mark += "; give strata of your own"
-			}
+		fmt.Fprintf(b, "  %-26s %8s   %-18s %9s   %s\n", truncate(t.Scheme, 26), PValue(t.PValue), interval, count, rateCell(t))
+		if mark := unsoundMark(t); mark != "" {
 			b.WriteString(Wrap(mark, width, "    ! ", "      "))
 		}
-		if c := t.Calibrated; c != nil && t.FalsePositives.Rate > t.FalsePositives.Alpha {
-			level := fmt.Sprintf("rejects %g%% of its nulls at p ≤ %s", 100*c.Alpha, PValue(c.Level))
-			if c.Level == 0 {
-				level = fmt.Sprintf("no threshold rejects as few as %g%% of its nulls", 100*c.Alpha)
-			}
-			b.WriteString(Wrap(fmt.Sprintf("calibrated to the SAR null: p = %s (%s)", PValue(c.PValue), level), width, "    ~ ", "      "))
+		if c := calibratedMark(t); c != "" {
+			b.WriteString(Wrap(c, width, "    ~ ", "      "))
 		}
 	}
+}
+
+// adjustedSentence describes the covariate adjustment.
+func adjustedSentence(a *compare.CovariateInfo) string {
+	return fmt.Sprintf("Adjusted for %s (Freedman & Lane 1983): %s = %s, classical %s. The shuffles below test this adjusted statistic.",
+		strings.Join(a.Covariates, ", "), a.Statistic, Number(a.Observed), pEquals(a.ClassicalP))
+}
+
+// rateCell writes a row's measured false-positive rate with its interval.
+func rateCell(t compare.TestRow) string {
+	f := t.FalsePositives
+	if f == nil {
+		return "not measured"
+	}
+	return fmt.Sprintf("%s (%s–%s)", percent(f.Rate), strings.TrimSuffix(percent(f.Interval[0]), "%"), percent(f.Interval[1]))
+}
+
+// unsoundMark is the warning under a row whose rate lies above alpha, ""
+// for a sound row.
+func unsoundMark(t compare.TestRow) string {
+	if !t.Unsound() {
+		return ""
+	}
+	mark := "too many false positives here: " + percent(t.FalsePositives.Rate) + ", do not read this p-value"
+	if strings.HasSuffix(t.Scheme, "automatic zones") {
+		mark += "; give strata of your own"
+	}
+	return mark
+}
+
+// calibratedMark gives the spectral row's calibrated p-value when its
+// rate lies above alpha, "" otherwise.
+func calibratedMark(t compare.TestRow) string {
+	c := t.Calibrated
+	if c == nil || t.FalsePositives.Rate <= t.FalsePositives.Alpha {
+		return ""
+	}
+	level := fmt.Sprintf("rejects %g%% of its nulls at p ≤ %s", 100*c.Alpha, PValue(c.Level))
+	if c.Level == 0 {
+		level = fmt.Sprintf("no threshold rejects as few as %g%% of its nulls", 100*c.Alpha)
+	}
+	return fmt.Sprintf("calibrated to the SAR null: p = %s (%s)", PValue(c.PValue), level)
 }
 
 // sarCheckText says how the spectral surrogates' own rate was measured,
@@ -160,28 +193,17 @@ func percent(x float64) string {
 // compareChecks writes the false-positive check, the effective sample size
 // and the spatial check.
 func compareChecks(b *strings.Builder, r *compare.Result) {
-	if f := r.FalsePositiveRate; f != nil {
-		b.WriteString(Wrap(fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. %s",
-			numtext.Count(f.Surrogates), r.NullPattern(), r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha, sarCheckText(r)), width, "  ", "  "))
+	if r.FalsePositiveRate != nil {
+		b.WriteString(Wrap(falsePositiveSentence(r), width, "  ", "  "))
 		b.WriteString("\n")
 	}
-	if e := r.EffectiveSampleSize; e != nil {
-		subject := r.Input.Group + "=" + e.Level
-		text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, %s; the ordinary t-test, which counts every area as independent, gives %s. This tests the difference in means.",
-			numtext.Count(e.Areas), numtext.Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, pEquals(e.PValue), pEquals(e.OrdinaryPValue))
-		if e.Capped {
-			text += " (The estimate reached the number of areas, so no reduction was applied.)"
-		}
-		if e.Note != "" {
-			text += " With more than two groups: " + e.Note + "."
-		}
-		b.WriteString(Wrap(text, width, "  ", "  "))
+	if r.EffectiveSampleSize != nil {
+		b.WriteString(Wrap(effectiveSentence(r), width, "  ", "  "))
 		b.WriteString("\n")
 	}
 	a := r.Autocorrelation
-	fmt.Fprintf(b, "  Spatial check: Moran's I, %s %s weights\n", r.Weights.Scaling, r.Weights.Kind)
-	fmt.Fprintf(b, "  (%s areas, %s neighbour pairs, %s without neighbours%s)\n", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
-		numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
+	fmt.Fprintf(b, "  Spatial check: Moran's I, %s\n", spatialCheckWeights(r))
+	fmt.Fprintf(b, "  (%s)\n", spatialCheckGraph(r))
 	if a.Outcome.Variable != "" {
 		fmt.Fprintf(b, "  %-24s %10s %10s %10s\n", "variable", "Moran's I", "expected", "p-value")
 		for _, m := range append([]compare.VariableMoran{a.Outcome}, a.Group...) {
@@ -191,10 +213,48 @@ func compareChecks(b *strings.Builder, r *compare.Result) {
 	b.WriteString("\n")
 }
 
+// falsePositiveSentence says how the false-positive rates were measured.
+func falsePositiveSentence(r *compare.Result) string {
+	f := r.FalsePositiveRate
+	return fmt.Sprintf("False-positive check: on %s surrogate outcomes with the spatial pattern of %s and no link to %s, each label shuffle above (%s shuffles each) called the share under \"false positives\" significant at the %g level, with its 95%% interval; a sound test calls %g%%. %s",
+		numtext.Count(f.Surrogates), r.NullPattern(), r.Input.Group, numtext.Count(f.Permutations), f.Alpha, 100*f.Alpha, sarCheckText(r))
+}
+
+// effectiveSentence gives the modified t-test's effective sample size.
+func effectiveSentence(r *compare.Result) string {
+	e := r.EffectiveSampleSize
+	subject := r.Input.Group + "=" + e.Level
+	text := fmt.Sprintf("Effective sample size (modified t-test, Dutilleul 1993): the %s areas carry about %s areas' worth of independent information on %s and %s. Modified t = %s on %.1f degrees of freedom, %s; the ordinary t-test, which counts every area as independent, gives %s. This tests the difference in means.",
+		numtext.Count(e.Areas), numtext.Count(int(math.Round(e.EffectiveSampleSize))), r.Input.Outcome, subject, Number(e.T), e.DF, pEquals(e.PValue), pEquals(e.OrdinaryPValue))
+	if e.Capped {
+		text += " (The estimate reached the number of areas, so no reduction was applied.)"
+	}
+	if e.Note != "" {
+		text += " With more than two groups: " + e.Note + "."
+	}
+	return text
+}
+
+// spatialCheckWeights names the weights of the spatial check.
+func spatialCheckWeights(r *compare.Result) string {
+	return r.Weights.Scaling + " " + r.Weights.Kind + " weights"
+}
+
+// spatialCheckGraph sums up the graph of the spatial check.
+func spatialCheckGraph(r *compare.Result) string {
+	return fmt.Sprintf("%s areas, %s neighbour pairs, %s without neighbours%s", numtext.Count(r.Weights.Areas), numtext.Count(r.Weights.Pairs),
+		numtext.Count(r.Weights.Islands), idListOf(first(r.Weights.IslandIDs, 6), r.Weights.Islands))
+}
+
+// readSentence is the recommendation: the p-value to read and why.
+func readSentence(r *compare.Result) string {
+	return fmt.Sprintf("Read: %s, %s. %s", r.Recommended.Scheme, pEquals(r.Recommended.PValue), r.Recommended.Reason)
+}
+
 // compareAdvice writes the p-value to read, the warnings and the cautions.
 func compareAdvice(b *strings.Builder, r *compare.Result) {
 	if r.Recommended.Scheme != "" {
-		b.WriteString(Wrap(fmt.Sprintf("Read: %s, %s. %s", r.Recommended.Scheme, pEquals(r.Recommended.PValue), r.Recommended.Reason), width, "  → ", "    "))
+		b.WriteString(Wrap(readSentence(r), width, "  → ", "    "))
 		b.WriteString("\n")
 	}
 	if len(r.Warnings) > 0 {

@@ -13,6 +13,13 @@
 //   - WeightsText: the summary of a neighbour graph for `areatest weights`
 //     (a WeightsDocument).
 //   - JSON: any of these results as one indented JSON document.
+//   - HTML: any of these results as one self-contained page (an HTMLDoc:
+//     the result, the files read with their SHA-256, and the pictures,
+//     drawn by DrawPicture as SVG or, when heavy, PNG). The page is built
+//     with html/template from html/*.tmpl and html/page.css, embedded; the
+//     SVG is checked and rewritten by inlineSVG (svginline.go) before it
+//     goes in unescaped. htmlview.go holds the page's model, html_*.go fill
+//     it from each result with the text reports' own sentences.
 //
 // The JSON is the result structs' own: their field tags, in spatial/… and
 // weights/ or, for WeightsDocument, here, decide its names and shape, so the text report and the JSON are two views of one

@@ -44,8 +44,7 @@ func LocalText(w io.Writer, d *local.Result, top int) error {
 		}
 		b.WriteString("\n")
 	}
-	b.WriteString(Wrap(fmt.Sprintf("Each area's statistic is compared with %s arrangements in which the area keeps its own value and its neighbours' values are drawn from the other areas. Categories use the %s p-values at %g. With one test per area, some areas pass by chance: the adjusted p-values (%s) keep that in check.",
-		numtext.Count(s.Permutations), s.CategoriesFrom, s.Alpha, s.Adjustment), width, "  ", "  "))
+	b.WriteString(Wrap(localExplanation(d), width, "  ", "  "))
 	b.WriteString("\n")
 	writeWarnings(&b, d.Warnings)
 	writeCautions(&b, d.Cautions)
@@ -55,6 +54,14 @@ func LocalText(w io.Writer, d *local.Result, top int) error {
 	fmt.Fprintf(&b, "\nseed %d · areatest %s\n", s.Seed, d.Version)
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// localExplanation says how each area was tested and how to read the
+// categories.
+func localExplanation(d *local.Result) string {
+	s := d.Summary
+	return fmt.Sprintf("Each area's statistic is compared with %s arrangements in which the area keeps its own value and its neighbours' values are drawn from the other areas. Categories use the %s p-values at %g. With one test per area, some areas pass by chance: the adjusted p-values (%s) keep that in check.",
+		numtext.Count(s.Permutations), s.CategoriesFrom, s.Alpha, s.Adjustment)
 }
 
 // LocalCSV writes one row per area of the layer: id, value, lag,

@@ -30,7 +30,39 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	s := d.Weights
 	var b strings.Builder
 	fmt.Fprintf(&b, "areatest %s: neighbours in %s\n\n", d.Version, d.Input)
-	row := func(label, value string) { fmt.Fprintf(&b, "  %-13s %s\n", label, value) }
+	for _, f := range weightsFacts(d) {
+		fmt.Fprintf(&b, "  %-13s %s\n", f[0], f[1])
+	}
+	if len(s.Histogram) > 0 {
+		b.WriteString("\n  neighbours   areas\n")
+		bins, peak := histogramBins(s)
+		for _, bin := range bins {
+			bar := strings.Repeat("█", (bin[1]*40+peak-1)/peak)
+			fmt.Fprintf(&b, "  %10d %7s  %s\n", bin[0], numtext.Count(bin[1]), bar)
+		}
+	}
+	if len(s.Warnings) > 0 {
+		b.WriteString("\nWarnings\n")
+		for _, wn := range s.Warnings {
+			b.WriteString(Wrap(wn, width, "  ! ", "    "))
+		}
+	}
+	if d.ListProblems {
+		geometryProblems(&b, d.GeometryProblems)
+	}
+	if d.Written != "" {
+		fmt.Fprintf(&b, "\nedge list written to %s\n", d.Written)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// weightsFacts are the summary's lines, label and value: the rule, the
+// weights, the counts, islands, connectedness and symmetry.
+func weightsFacts(d *WeightsDocument) [][2]string {
+	s := d.Weights
+	var facts [][2]string
+	row := func(label, value string) { facts = append(facts, [2]string{label, value}) }
 	row("rule", s.Kind)
 	for _, set := range d.Settings {
 		row("", set)
@@ -62,34 +94,24 @@ func WeightsText(w io.Writer, d *WeightsDocument) error {
 	} else {
 		row("symmetric", "yes")
 	}
-	if len(s.Histogram) > 0 {
-		b.WriteString("\n  neighbours   areas\n")
-		peak := 0
-		for _, c := range s.Histogram {
-			peak = max(peak, c)
+	return facts
+}
+
+// histogramBins are the rows of the histogram of neighbour counts, count
+// of neighbours and of areas (empty rows left out of a long one), and the
+// largest count of areas (at least 1).
+func histogramBins(s weights.Summary) (bins [][2]int, peak int) {
+	peak = 1
+	for _, c := range s.Histogram {
+		peak = max(peak, c)
+	}
+	for k, c := range s.Histogram {
+		if c == 0 && len(s.Histogram) > 30 {
+			continue
 		}
-		for k, c := range s.Histogram {
-			if c == 0 && len(s.Histogram) > 30 {
-				continue
-			}
-			bar := strings.Repeat("█", (c*40+peak-1)/max(peak, 1))
-			fmt.Fprintf(&b, "  %10d %7s  %s\n", k, numtext.Count(c), bar)
-		}
+		bins = append(bins, [2]int{k, c})
 	}
-	if len(s.Warnings) > 0 {
-		b.WriteString("\nWarnings\n")
-		for _, wn := range s.Warnings {
-			b.WriteString(Wrap(wn, width, "  ! ", "    "))
-		}
-	}
-	if d.ListProblems {
-		geometryProblems(&b, d.GeometryProblems)
-	}
-	if d.Written != "" {
-		fmt.Fprintf(&b, "\nedge list written to %s\n", d.Written)
-	}
-	_, err := io.WriteString(w, b.String())
-	return err
+	return bins, peak
 }
 
 // geometryProblems lists every geometry problem, one sentence each.
