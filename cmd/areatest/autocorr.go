@@ -73,8 +73,14 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}
 	res.Version = Version
-	if err := pics.draw(&c, report.AutocorrPictures{Input: in, Options: opt, Result: res}); err != nil {
+	ap := report.AutocorrPictures{Input: in, Options: opt, Result: res}
+	if err := pics.draw(&c, ap); err != nil {
 		return err
+	}
+	pagePics := []pagePicture{{"Moran scatter", "Each area's standardised value against its neighbours' mean; the slope of the line is Moran's I.", ap.Scatter},
+		{"Moran's I under the shuffles", "Moran's I in each shuffle of the values over the areas, with the observed value marked.", ap.Histogram}}
+	if lags > 0 {
+		pagePics = append(pagePics, pagePicture{"Correlogram", "Moran's I at each lag, with the band of 95% of the shuffles' values and the value expected without clustering.", ap.Correlogram})
 	}
 	if res.IslandsLeftOut > 0 {
 		res.Warnings = slices.Insert(res.Warnings, len(res.Weights.Warnings), fmt.Sprintf(
@@ -83,7 +89,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.AutocorrText(w, res) },
-		"html": c.page(res, 0),
+		"html": c.page(res, 0, pagePics...),
 	})
 }
 

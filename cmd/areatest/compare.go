@@ -114,7 +114,7 @@ func (c *compareFlags) check() error {
 // --plot; the comparison keeps its null values only when they are to be
 // drawn.
 func (c *compareFlags) checkPictures() (err error) {
-	if c.plot != "" {
+	if c.plot != "" || c.report != "" {
 		c.opt.KeepNull = true
 	}
 	if err := c.wantPicture("--plot", c.plot); err != nil {
@@ -175,7 +175,9 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.CompareText(w, res) },
-		"html": c.page(res, 0),
+		"html": c.page(res, 0,
+			pagePicture{"The null models", "Each null model's distribution of the statistic, the observed value marked, and below the share of true nulls each row called significant.", pics.Nulls},
+			pagePicture{"The groups and the outcome on the map", "Left the groups, right the outcome in classes; areas left out are hatched.", pics.Map}),
 	})
 }
 

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -13,6 +15,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/samples"
 )
 
@@ -38,6 +41,8 @@ func runDemo(args []string, _ io.Reader, stdout, stderr io.Writer) error {
 	}
 	warn(stderr, warnings...)
 	c.lay = lay
+	sum := sha256.Sum256(samples.RegionGeoJSON)
+	c.digests = []report.InputFile{{Role: "layer", Name: lay.Source, SHA256: hex.EncodeToString(sum[:])}}
 	return c.run(stdout, stderr)
 }
 

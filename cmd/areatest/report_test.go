@@ -32,9 +32,9 @@ func TestReportPages(t *testing.T) {
 		pictures, areaShapes int
 	}{
 		{"compare", append([]string{"compare", "-i", "region.geojson", "-y", "rate", "-g", "policy"}, smallCompare...),
-			[]string{"Does rate differ between the groups of policy?", "What to read", "Read: spectral surrogates", "false positives", "Effective sample size", "Spatial check", "An association between areas is not evidence"}, 0, 0},
+			[]string{"Does rate differ between the groups of policy?", "What to read", "Read: spectral surrogates", "false positives", "Effective sample size", "Spatial check", "An association between areas is not evidence", "The null models", "The groups and the outcome on the map"}, 2, 0},
 		{"autocorr", append([]string{"autocorr", "-i", "region.geojson", "--variables", "income,urban", "--events", "cases", "--population", "population", "--lags", "3"}, small...),
-			[]string{"Do these variables cluster in space?", "Correlogram of income", "urban: join counts", "EB scores", "order 3"}, 0, 0},
+			[]string{"Do these variables cluster in space?", "Correlogram of income", "urban: join counts", "EB scores", "order 3", "Moran scatter"}, 3, 0},
 		{"screen", append([]string{"screen", "-i", "region.geojson"}, small...),
 			[]string{"Which columns of region.geojson cluster in space?", "Columns ranked by Moran&#39;s I", "Not screened", "province: not numeric"}, 0, 0},
 		{"local", append([]string{"local", "-i", "region.geojson", "--variable", "rate"}, "-n", "999"),
