@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -16,6 +18,7 @@ import (
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
+	"github.com/areatest/areatest/spatial/rates"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -28,6 +31,12 @@ type localFlags struct {
 	mapFile, choropleth, scatter, histogram, area string
 	alpha                                         float64
 	top                                           int
+	// A rate from counts: analysed as its empirical-Bayes scores, mapped
+	// raw or smoothed.
+	events, population, smooth string
+	unstableBelow              float64
+	mapped                     []float64 // set by input when counts are given
+	mappedName                 string
 	// Set by check.
 	kind      local.Kind
 	opt       local.Options
@@ -36,6 +45,10 @@ type localFlags struct {
 
 func (c *localFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&c.variable, "variable", "", "numeric column to analyse")
+	fs.StringVar(&c.events, "events", "", "instead of --variable: column of event counts, analysed as the rate events/population by its empirical-Bayes standardised scores (Assunção & Reis 1999)")
+	fs.StringVar(&c.population, "population", "", "with --events: column of populations at risk")
+	fs.StringVar(&c.smooth, "smooth", "raw", "with --events: the rate --choropleth maps: raw, global (empirical-Bayes smoothed towards the map's rate, Marshall 1991) or spatial (towards each area's neighbourhood)")
+	fs.Float64Var(&c.unstableBelow, "unstable-below", rates.DefaultUnstable, "with --events: flag rates resting on fewer events than this as unstable")
 	fs.StringVar(&c.against, "against", "", "with --statistic cross-moran: the column whose neighbours' values are compared")
 	fs.StringVar(&c.statistic, "statistic", "moran", "moran, cross-moran, geary, gi or gi-star")
 	fs.StringVar(&c.adjust, "adjust", "bh", "adjustment across areas: bh (Benjamini–Hochberg), by, holm, bonferroni or none")
@@ -57,8 +70,18 @@ func (c *localFlags) register(fs *pflag.FlagSet) {
 // the tests (the alternative comes with the shared flags) and the class
 // rule of the choropleth.
 func (c *localFlags) check() (err error) {
-	if c.variable == "" {
-		return usagef("--variable is required (see areatest local --help)")
+	switch {
+	case c.variable == "" && c.events == "":
+		return usagef("--variable is required, or --events with --population (see areatest local --help)")
+	case c.variable != "" && c.events != "":
+		return usagef("give --variable, or --events with --population, not both")
+	case (c.events == "") != (c.population == ""):
+		return usagef("--events and --population go together")
+	case c.events == "" && (c.weights.changed("smooth") || c.weights.changed("unstable-below")):
+		return usagef("--smooth and --unstable-below go with --events")
+	}
+	if _, err := choice.Parse("--smooth", c.smooth, choice.Name[string]{Name: "raw"}, choice.Name[string]{Name: "global"}, choice.Name[string]{Name: "spatial"}); err != nil {
+		return usagef("%v", err)
 	}
 	if c.kind, err = local.ParseKind(c.statistic); err != nil {
 		return usagef("--statistic: %v", err)
@@ -150,7 +173,13 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
+	if w := c.unstableWarning(); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
 	pics := report.LocalPictures{Layer: c.lay, Result: res, Classes: c.classRule}
+	if c.mapped != nil {
+		pics.Mapped, pics.MappedName = c.mapped, c.mappedName
+	}
 	c.write(pics)
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
@@ -163,6 +192,9 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 func (c *localFlags) input() (local.Input, error) {
 	in := local.Input{File: c.lay.Source, IDs: c.lay.IDs, Variable: c.variable, Against: c.against,
 		Graph: c.graph, Scaling: c.scaling, KeepIslands: c.keepIslands, NullOf: c.area}
+	if c.events != "" {
+		return in, c.rateInput(&in)
+	}
 	col, err := c.lay.NumericColumn(c.variable, "the variable")
 	if err != nil {
 		return in, err
@@ -185,11 +217,11 @@ func (c *localFlags) write(pics report.LocalPictures) {
 	table := func(w io.Writer, _ figure.Format) error {
 		switch strings.ToLower(filepath.Ext(c.out)) {
 		case ".csv":
-			return report.LocalCSV(w, res)
+			return report.LocalCSV(w, res, c.rateColumns()...)
 		case ".gpkg":
-			return gpkg.Write(w, pics.Layer, report.LocalColumns(res), "")
+			return gpkg.Write(w, pics.Layer, append(report.LocalColumns(res), c.rateColumns()...), "")
 		}
-		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
+		return geojson.Write(w, pics.Layer, append(report.LocalColumns(res), c.rateColumns()...))
 	}
 	draw := map[string]func(io.Writer, figure.Format) error{
 		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
@@ -231,4 +263,121 @@ func localPagePictures(p report.LocalPictures) []pagePicture {
 		pics = append(pics, pagePicture{"Moran scatter", "Each analysed area's standardised value against its neighbours' mean; the slope of the line is the global Moran's I.", p.Scatter})
 	}
 	return pics
+}
+
+// rateInput makes the analysed variable of --events/--population: the
+// empirical-Bayes standardised rates of the areas with both counts (each
+// area's counts checked, an error naming the first that makes no rate),
+// and the rate --smooth asks the choropleth to map.
+func (c *localFlags) rateInput(in *local.Input) error {
+	lay := c.lay
+	ev, err := lay.NumericColumn(c.events, "the event count")
+	if err != nil {
+		return err
+	}
+	pop, err := lay.NumericColumn(c.population, "the population")
+	if err != nil {
+		return err
+	}
+	keep := weights.Present(lay.Len(), ev.Missing, pop.Missing)
+	e, p, ids := make([]float64, len(keep)), make([]float64, len(keep)), make([]string, len(keep))
+	for k, i := range keep {
+		e[k], p[k], ids[k] = ev.Num[i], pop.Num[i], lay.IDs[i]
+	}
+	if err := rates.Validate(e, p, true, ids); err != nil {
+		return fmt.Errorf("%s: %w", lay.Source, err)
+	}
+	eb, err := rates.EBStandardise(e, p)
+	if err != nil {
+		return fmt.Errorf("%s: %w", lay.Source, err)
+	}
+	mapped, err := c.smoothed(e, p, keep, eb.Rates)
+	if err != nil {
+		return err
+	}
+	n := lay.Len()
+	in.Variable = c.events + " per " + c.population + " (empirical-Bayes standardised)"
+	in.Values, in.Missing = make([]float64, n), make([]bool, n)
+	c.mapped = make([]float64, n)
+	for i := range in.Missing {
+		in.Missing[i], c.mapped[i] = true, math.NaN()
+	}
+	for k, i := range keep {
+		in.Values[i], in.Missing[i], c.mapped[i] = eb.Scores[k], false, mapped[k]*100000
+	}
+	c.mappedName = fmt.Sprintf("%s rate of %s per 100,000 %s", map[string]string{"raw": "raw", "global": "smoothed (global empirical-Bayes)", "spatial": "smoothed (spatial empirical-Bayes)"}[c.smoothRule()], c.events, c.population)
+	return nil
+}
+
+// smoothRule is --smooth read (checked by check).
+func (c *localFlags) smoothRule() string {
+	rule, _ := choice.Parse("--smooth", c.smooth, choice.Name[string]{Name: "raw", Value: "raw"}, choice.Name[string]{Name: "global", Value: "global"}, choice.Name[string]{Name: "spatial", Value: "spatial"})
+	return rule
+}
+
+// smoothed gives the rates of the areas keep (with counts e over p) the
+// choropleth maps: raw, or smoothed by empirical Bayes towards the map's
+// rate or each area's neighbourhood (rates.GlobalEB, rates.SpatialEB on
+// the neighbour graph among those areas).
+func (c *localFlags) smoothed(e, p []float64, keep []int, raw []float64) ([]float64, error) {
+	switch c.smoothRule() {
+	case "global":
+		return rates.GlobalEB(e, p)
+	case "spatial":
+		s, _, err := rates.SpatialEB(e, p, c.graph.Subset(keep))
+		return s, err
+	}
+	return raw, nil
+}
+
+// unstableWarning counts the analysed areas whose rate rests on fewer than
+// --unstable-below events, for the result's warnings ("" when none).
+func (c *localFlags) unstableWarning() string {
+	if c.events == "" {
+		return ""
+	}
+	ev, _ := c.lay.NumericColumn(c.events, "the event count")
+	pop, _ := c.lay.NumericColumn(c.population, "the population")
+	var ids []string
+	count, total := 0, 0
+	for i := range c.lay.IDs {
+		if ev.Missing[i] || pop.Missing[i] {
+			continue
+		}
+		total++
+		if ev.Num[i] < c.unstableBelow {
+			if count++; len(ids) < 5 {
+				ids = append(ids, c.lay.IDs[i])
+			}
+		}
+	}
+	if count == 0 {
+		return ""
+	}
+	more := ""
+	if count > len(ids) {
+		more = fmt.Sprintf(" and %d more", count-len(ids))
+	}
+	return fmt.Sprintf("%d of %d areas have fewer than %g events (%s%s): their rates are unstable; the empirical-Bayes scores weigh them by their populations, and --smooth maps them smoothed.",
+		count, total, c.unstableBelow, strings.Join(ids, ", "), more)
+}
+
+// rateColumns are the per-area columns of a rate from counts for --out:
+// the rate mapped (per 100,000; raw or smoothed as --smooth says) and
+// whether it rests on fewer than --unstable-below events; none without
+// --events.
+func (c *localFlags) rateColumns() []*layer.Column {
+	if c.events == "" {
+		return nil
+	}
+	n := c.lay.Len()
+	ev, _ := c.lay.NumericColumn(c.events, "the event count")
+	rate := &layer.Column{Name: "rate_per_100000", Kind: layer.Number, Num: c.mapped, Missing: make([]bool, n)}
+	unstable := &layer.Column{Name: "unstable_rate", Kind: layer.Text, Str: make([]string, n), Missing: make([]bool, n)}
+	for i := range n {
+		rate.Missing[i] = math.IsNaN(c.mapped[i])
+		unstable.Missing[i] = rate.Missing[i]
+		unstable.Str[i] = strconv.FormatBool(!unstable.Missing[i] && ev.Num[i] < c.unstableBelow)
+	}
+	return []*layer.Column{rate, unstable}
 }

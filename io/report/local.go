@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
@@ -65,23 +66,33 @@ func localExplanation(d *local.Result) string {
 }
 
 // LocalCSV writes one row per area of the layer: id, value, lag,
-// statistic, expected, sd, z, p, adjusted p and category. Areas that were
-// not analysed have empty statistics.
-func LocalCSV(w io.Writer, d *local.Result) error {
+// statistic, expected, sd, z, p, adjusted p and category, then the extra
+// columns (one value per area, as text). Areas that were not analysed have
+// empty statistics.
+func LocalCSV(w io.Writer, d *local.Result, extra ...*layer.Column) error {
 	cw := csv.NewWriter(w)
-	cw.Write([]string{"id", "value", "lag", "statistic", "expected", "sd", "z", "p", "p_adjusted", "category", "neighbours", "exact"})
+	head := []string{"id", "value", "lag", "statistic", "expected", "sd", "z", "p", "p_adjusted", "category", "neighbours", "exact"}
+	for _, c := range extra {
+		head = append(head, c.Name)
+	}
+	cw.Write(head)
 	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
-	for _, a := range d.Areas {
+	for i, a := range d.Areas {
+		var row []string
 		if !a.Analysed {
 			value := ""
 			if a.Value != nil {
 				value = f(*a.Value)
 			}
-			cw.Write([]string{a.ID, value, "", "", "", "", "", "", "", a.Category, "", ""})
-			continue
+			row = []string{a.ID, value, "", "", "", "", "", "", "", a.Category, "", ""}
+		} else {
+			row = []string{a.ID, f(*a.Value), f(a.Lag), f(a.Statistic), f(a.Expected), f(a.SD), f(a.Z), f(a.P), f(a.AdjustedP),
+				a.Category, strconv.Itoa(a.Neighbours), strconv.FormatBool(a.Exact)}
 		}
-		cw.Write([]string{a.ID, f(*a.Value), f(a.Lag), f(a.Statistic), f(a.Expected), f(a.SD), f(a.Z), f(a.P), f(a.AdjustedP),
-			a.Category, strconv.Itoa(a.Neighbours), strconv.FormatBool(a.Exact)})
+		for _, c := range extra {
+			row = append(row, c.Label(i))
+		}
+		cw.Write(row)
 	}
 	cw.Flush()
 	return cw.Error()
@@ -122,6 +133,11 @@ type LocalPictures struct {
 	Result *local.Result
 	// Classes is the class rule of the choropleth.
 	Classes figure.Classes
+	// Mapped, when set, replaces the analysed values in the choropleth
+	// (a rate smoothed for the map), one per area, NaN where missing;
+	// MappedName names it.
+	Mapped     []float64
+	MappedName string
 }
 
 // classNames name the class rules in the choropleth's subtitle.
@@ -161,8 +177,15 @@ func (p LocalPictures) Choropleth(w io.Writer, f figure.Format) error {
 			values[i] = *a.Value
 		}
 	}
-	opt := p.mapOptions(r.Variable, classNames[p.Classes]+" classes")
-	return figure.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, r.Variable, opt)
+	name := r.Variable
+	if p.Mapped != nil {
+		name = p.MappedName
+		for i, v := range p.Mapped {
+			values[i], missing[i] = v, math.IsNaN(v)
+		}
+	}
+	opt := p.mapOptions(name, classNames[p.Classes]+" classes")
+	return figure.Choropleth(w, f, p.Layer.Geoms, values, missing, p.Classes, 5, name, opt)
 }
 
 // Scatter draws the Moran scatter of the analysed areas: the standardised

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"sort"
+	"strings"
 
 	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/rates"
@@ -325,6 +326,18 @@ func (in *Input) rate(opt Options, res *Result) (*Rate, error) {
 	}
 	if len(rt.AboveOne) > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d area(s) have more %s than %s (e.g. %s); that is fine for repeated events or person-time, but check the columns.", len(rt.AboveOne), in.Events.Name, in.Population.Name, rt.AboveOne[0]))
+	}
+	if unstable := rates.Unstable(ev, rates.DefaultUnstable); len(unstable) > 0 {
+		ids := make([]string, 0, 5)
+		for _, k := range unstable[:min(5, len(unstable))] {
+			ids = append(ids, in.IDs[r.Areas[k]])
+		}
+		more := ""
+		if len(unstable) > len(ids) {
+			more = fmt.Sprintf(" and %d more", len(unstable)-len(ids))
+		}
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %d areas have fewer than %d %s (%s%s): their rates are unstable, and a few chance events move them widely.",
+			len(unstable), len(ev), rates.DefaultUnstable, in.Events.Name, strings.Join(ids, ", "), more))
 	}
 	if rt.Largest > 20*rt.Smallest {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("Populations range from %.0f to %.0f: raw rates of the smallest areas swing widely by chance, so read the empirical-Bayes Moran's I rather than the raw one.", rt.Smallest, rt.Largest))
