@@ -70,6 +70,17 @@ func BenchmarkCompareAllSchemes3000(b *testing.B) {
 	benchRun(b, []string{"-y", "rate", "-g", "policy", "--workers", "2"})
 }
 
+// Target (issue 14): compare with counts on 3,000 areas, every scheme as
+// in BenchmarkCompareAllSchemes3000, within 1.2× its time.
+func BenchmarkCompareRates3000(b *testing.B) {
+	benchRun(b, []string{"--events", "cases", "--population", "population", "-g", "policy", "--workers", "2"})
+}
+
+// The free shuffle alone with counts, against BenchmarkCompareWhole3000.
+func BenchmarkCompareRatesWhole3000(b *testing.B) {
+	benchRun(b, []string{"--events", "cases", "--population", "population", "-g", "policy", "--zones", "none", "--surrogates", "0", "--false-positive-check", "0", "--workers", "2"})
+}
+
 // Reading and contiguity alone, for the breakdown of the whole run.
 func BenchmarkReadAndQueen3000(b *testing.B) {
 	data := benchLayer(b, 3000)
