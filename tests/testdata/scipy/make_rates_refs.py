@@ -39,39 +39,17 @@ import csv
 import json
 import os
 import platform
-from collections import defaultdict
 
 import numpy as np
+
+import linked_states
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 DATA = os.path.dirname(HERE)
 OUT = os.path.join(HERE, "rates_refs.json")
 
-with open(os.path.join(DATA, "us-states.geojson")) as fh:
-    features = json.load(fh)["features"]
-
-owners = defaultdict(set)
-for idx, feat in enumerate(features):
-    geom = feat["geometry"]
-    polygons = geom["coordinates"] if geom["type"] == "MultiPolygon" else [geom["coordinates"]]
-    for polygon in polygons:
-        for ring in polygon:
-            for point in ring:
-                owners[tuple(point)].add(idx)
-links = set()
-for group in owners.values():
-    for a in group:
-        for b in group:
-            if a < b:
-                links.add((a, b))
-linked = sorted({i for pair in links for i in pair})
-assert len(linked) == 49, len(linked)
-where = {feat: k for k, feat in enumerate(linked)}
+features, links, linked, where, C, ids = linked_states.load()
 n = len(linked)
-C = np.zeros((n, n))
-for a, b in links:
-    C[where[a], where[b]] = C[where[b], where[a]] = 1.0
-ids = [features[i]["id"] for i in linked]
 lon = np.array([features[i]["properties"]["centroid_lon"] for i in linked])
 
 pop, eng = {}, {}

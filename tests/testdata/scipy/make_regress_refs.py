@@ -61,9 +61,10 @@ import json
 import math
 import os
 import platform
-from collections import defaultdict
 
 import numpy as np
+
+import linked_states
 import scipy
 import statsmodels
 import statsmodels.api as sm
@@ -76,33 +77,9 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 DATA = os.path.dirname(HERE)
 OUT = os.path.join(HERE, "regress_refs.json")
 
-with open(os.path.join(DATA, "us-states.geojson")) as fh:
-    features = json.load(fh)["features"]
-
-owners = defaultdict(set)
-for idx, feat in enumerate(features):
-    geom = feat["geometry"]
-    polygons = geom["coordinates"] if geom["type"] == "MultiPolygon" else [geom["coordinates"]]
-    for polygon in polygons:
-        for ring in polygon:
-            for point in ring:
-                owners[tuple(point)].add(idx)
-links = set()
-for group in owners.values():
-    for a in group:
-        for b in group:
-            if a < b:
-                links.add((a, b))
-assert len(links) == 109, len(links)
-linked = sorted({i for pair in links for i in pair})
-assert len(linked) == 49, len(linked)
-where = {feat: k for k, feat in enumerate(linked)}
+features, links, linked, where, C, ids = linked_states.load()
 n = len(linked)
-C = np.zeros((n, n))
-for a, b in links:
-    C[where[a], where[b]] = C[where[b], where[a]] = 1.0
 W = C / C.sum(axis=1)[:, None]
-ids = [features[i]["id"] for i in linked]
 
 
 def centroid(geom):
