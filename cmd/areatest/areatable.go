@@ -2,8 +2,11 @@ package main
 
 import (
 	"io"
+
 	"path/filepath"
 	"strings"
+
+	"github.com/areatest/areatest/io/figure"
 
 	"github.com/areatest/areatest/io/geojson"
 	"github.com/areatest/areatest/io/gpkg"
@@ -46,4 +49,20 @@ func writeAreaTable(w io.Writer, path string, lay *layer.Layer, csv func(io.Writ
 		return gpkg.Write(w, lay, cols(), "")
 	}
 	return geojson.Write(w, lay, cols())
+}
+
+// renderFiles gives each planned file whose flag draw names its renderer,
+// called with the format of the file's extension (none for a table), and
+// returns the paths of those files, for the report's list of what it
+// wrote; the other files (--output) are rendered by emit.
+func (c *sharedFlags) renderFiles(draw map[string]func(io.Writer, figure.Format) error) []string {
+	var written []string
+	for _, f := range c.files {
+		if d, ok := draw[f.flag]; ok {
+			format, _ := figure.FormatFromPath(f.path) // checked with the flags
+			f.file.SetRender(func(w io.Writer) error { return d(w, format) })
+			written = append(written, f.path)
+		}
+	}
+	return written
 }

@@ -180,15 +180,7 @@ func (c *localFlags) write(pics report.LocalPictures) {
 	}
 	draw := map[string]func(io.Writer, figure.Format) error{
 		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
-	for _, f := range c.files {
-		d, ok := draw[f.flag]
-		if !ok {
-			continue // --output: the report, rendered by emit
-		}
-		format, _ := figure.FormatFromPath(f.path) // checked by checkFiles; none for the table
-		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
-		res.Written = append(res.Written, f.path)
-	}
+	res.Written = append(res.Written, c.renderFiles(draw)...)
 }
 
 // crsLabel names a coordinate system for a message: " (EPSG:5070)", " (a

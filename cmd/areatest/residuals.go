@@ -178,11 +178,5 @@ func (c *residualsFlags) write(pics report.ResidualPictures) {
 			func() []*layer.Column { return report.ResidualColumns(res, len(c.lay.IDs)) })
 	}
 	draw := map[string]func(io.Writer, figure.Format) error{"--out": table, "--map": pics.Map, "--local": pics.LocalMap}
-	for _, f := range c.files {
-		if d, ok := draw[f.flag]; ok {
-			format, _ := figure.FormatFromPath(f.path) // checked by check; none for the table
-			f.file.SetRender(func(w io.Writer) error { return d(w, format) })
-			res.Written = append(res.Written, f.path)
-		}
-	}
+	res.Written = append(res.Written, c.renderFiles(draw)...)
 }

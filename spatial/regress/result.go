@@ -21,8 +21,8 @@ type Result struct {
 	Weights weights.Summary `json:"weights"`
 	// IslandsLeftOut counts the areas with data left out for having no
 	// neighbour among them; IslandsKept those kept with a zero spatial lag.
-	IslandsLeftOut int `json:"islands_left_out"`
-	IslandsKept    int `json:"islands_kept"`
+	IslandsLeftOut int           `json:"islands_left_out"`
+	IslandsKept    int           `json:"islands_kept"`
 	Fit            *Fit          `json:"fit"`
 	Moran          ResidualMoran `json:"residual_moran"`
 	// LM holds the Lagrange multiplier tests; nil, with LMNotComputed
