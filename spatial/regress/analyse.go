@@ -124,7 +124,9 @@ func columnNames(in Input) []string {
 // left out (an exclusion of their own) or kept.
 func (res *Result) islands(in Input, keep []int, r *weights.Restricted) {
 	if in.KeepIslands {
-		res.IslandsKept = r.Summary.Islands
+		if res.IslandsKept = r.Summary.Islands; res.IslandsKept > 0 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%d area(s) have no neighbour among the areas with data and are kept with a zero spatial lag: they count in the fit and in the spread of the residuals, but add nothing to the spatial tests' cross-products.", res.IslandsKept))
+		}
 		return
 	}
 	used := make(map[int]bool, len(r.Areas))
