@@ -34,7 +34,9 @@ func TestResidualsTextBranches(t *testing.T) {
 			[]string{"exact (Imhof 1961): 0.0234"}, []string{"computed up to"}},
 		{"exact and tiny", func(r *regress.Result) { r.Moran.Exact, r.Moran.ExactP = true, 3e-13 },
 			[]string{"exact (Imhof 1961): below 1e-10"}, nil},
-		{"no LM tests", func(r *regress.Result) { r.LM, r.Reading = nil, "The Lagrange multiplier tests are not computed: because." },
+		{"no LM tests", func(r *regress.Result) {
+			r.LM, r.Reading = nil, "The Lagrange multiplier tests are not computed: because."
+		},
 			[]string{"→ The Lagrange multiplier tests are not computed: because."}, []string{"Lagrange multiplier test statistic"}},
 		{"draws and files", func(r *regress.Result) {
 			r.Draws = &regress.Draws{Seed: 7, Permutations: 999, For: "a map"}
