@@ -4,11 +4,15 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"path/filepath"
+	"strings"
 
 	"github.com/spf13/pflag"
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/figure"
+	"github.com/areatest/areatest/io/geojson"
+	"github.com/areatest/areatest/io/gpkg"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
@@ -175,12 +179,25 @@ func (c *localFlags) input() (local.Input, error) {
 func (c *localFlags) write(pics report.LocalPictures) {
 	res := pics.Result
 	table := func(w io.Writer, _ figure.Format) error {
-		return writeAreaTable(w, c.out, pics.Layer, func(w io.Writer) error { return report.LocalCSV(w, res) },
-			func() []*layer.Column { return report.LocalColumns(res) })
+		switch strings.ToLower(filepath.Ext(c.out)) {
+		case ".csv":
+			return report.LocalCSV(w, res)
+		case ".gpkg":
+			return gpkg.Write(w, pics.Layer, report.LocalColumns(res), "")
+		}
+		return geojson.Write(w, pics.Layer, report.LocalColumns(res))
 	}
 	draw := map[string]func(io.Writer, figure.Format) error{
 		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
-	res.Written = append(res.Written, c.renderFiles(draw)...)
+	for _, f := range c.files {
+		d, ok := draw[f.flag]
+		if !ok {
+			continue // --output: the report, rendered by emit
+		}
+		format, _ := figure.FormatFromPath(f.path) // checked by checkFiles; none for the table
+		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
+		res.Written = append(res.Written, f.path)
+	}
 }
 
 // crsLabel names a coordinate system for a message: " (EPSG:5070)", " (a
