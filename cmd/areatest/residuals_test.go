@@ -268,3 +268,22 @@ func TestResidualsPictures(t *testing.T) {
 		t.Error("the --local map differs between --workers 1 and 3")
 	}
 }
+
+// The whole residuals run, in process, from reading the GeoJSON of n
+// invented districts (queen contiguity) to the text report: at 3,000
+// areas without the exact p-value (above regress.ExactLimit), at 1,500
+// with it.
+func BenchmarkResiduals3000(b *testing.B) { benchResiduals(b, 3000) }
+func BenchmarkResiduals1500(b *testing.B) { benchResiduals(b, 1500) }
+
+func benchResiduals(b *testing.B, n int) {
+	data := benchLayer(b, n)
+	args := []string{"residuals", "-i", "-", "-y", "rate", "--covariates", "income,urban,province"}
+	b.ResetTimer()
+	for range b.N {
+		var stderr bytes.Buffer
+		if code := run(args, bytes.NewReader(data), io.Discard, &stderr); code != 0 {
+			b.Fatalf("exit %d: %s", code, stderr.String())
+		}
+	}
+}
