@@ -109,7 +109,7 @@ func (c *localFlags) check() (err error) {
 // kind is read from the extension); only the report of --output goes to
 // standard output.
 func (c *localFlags) checkFiles() error {
-	switch ext := strings.ToLower(filepath.Ext(c.out)); {
+	switch {
 	case (c.kind == local.CrossMoran) != (c.against != ""):
 		return usagef("--against goes with --statistic cross-moran, and that statistic needs it")
 	case !(c.alpha > 0 && c.alpha < 1):
@@ -118,10 +118,9 @@ func (c *localFlags) checkFiles() error {
 		return usagef("--scatter draws the Moran scatter, for --statistic moran or cross-moran")
 	case (c.histogram == "") != (c.area == ""):
 		return usagef("--histogram and --area go together")
-	case c.out == "-":
-		return usagef("--out writes a file, not standard output: give a name ending in .csv, .gpkg or .geojson")
-	case c.out != "" && ext != ".csv" && ext != ".geojson" && ext != ".json" && ext != ".gpkg":
-		return usagef("--out must end in .csv, .gpkg or .geojson, not %q", ext)
+	}
+	if err := checkAreaTable("--out", c.out); err != nil {
+		return err
 	}
 	c.wantOutput("--out", c.out)
 	for _, p := range []struct{ flag, path string }{{"--map", c.mapFile}, {"--choropleth", c.choropleth}, {"--scatter", c.scatter}, {"--histogram", c.histogram}} {
@@ -151,9 +150,8 @@ func runLocal(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := c.prepare("local", stdin, stderr, shuffle.ParseLocalAlternative); err != nil {
 		return err
 	}
-	if ext := strings.ToLower(filepath.Ext(c.out)); (ext == ".geojson" || ext == ".json") && c.lay.CRS.Projected {
-		return usagef("--out %s: GeoJSON holds longitude/latitude by its standard (RFC 7946), and %s is in a projected coordinate system%s; write a .gpkg, which keeps it, or a .csv",
-			c.out, c.lay.Source, crsLabel(c.lay.CRS))
+	if err := checkAreaTableCRS("--out", c.out, c.lay); err != nil {
+		return err
 	}
 	if (c.kind == local.Gi || c.kind == local.GiStar) && !c.weights.scalingGiven() {
 		// Getis–Ord statistics are defined on binary weights (Ord & Getis
