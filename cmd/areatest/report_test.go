@@ -41,6 +41,8 @@ func TestReportPages(t *testing.T) {
 			[]string{"Where does rate cluster?", "Areas in each category", "The strongest areas", "high-high", "Moran scatter"}, 3, 200},
 		{"local geary", append([]string{"local", "-i", "region.geojson", "--variable", "income", "--statistic", "geary"}, small...),
 			[]string{"local Geary"}, 2, 200},
+		{"residuals", []string{"residuals", "-i", "region.geojson", "--outcome", "rate", "--covariates", "income,urban"},
+			[]string{"What does the model of rate leave in space?", "Least-squares coefficients", "Lagrange multiplier tests", "urban=urban", "The residuals on the map"}, 1, 200},
 		{"weights", []string{"weights", "-i", "region.geojson"},
 			[]string{"Neighbours in region.geojson", "Areas by their number of neighbours", `<span style="width: 100%">`, "apart from the islands"}, 0, 0},
 	}

@@ -113,7 +113,18 @@ func runResiduals(args []string, stdin io.Reader, stdout, stderr io.Writer) erro
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"text": func(w io.Writer) error { return report.ResidualsText(w, res) },
+		"html": c.page(res, 0, c.pagePictures(pics)...),
 	})
+}
+
+// pagePictures are the pictures of the page of --report: the residuals on
+// the map, and their local Moran categories when --local asked for them.
+func (c *residualsFlags) pagePictures(pics report.ResidualPictures) []pagePicture {
+	out := []pagePicture{{"The residuals on the map", "Each area's residual of the least-squares fit, in classes.", pics.Map}}
+	if pics.Local != nil {
+		out = append(out, pagePicture{"Local Moran categories of the residuals", "Where the residuals cluster, tested area by area.", pics.LocalMap})
+	}
+	return out
 }
 
 // columns gathers the model's columns from the layer: the outcome must be

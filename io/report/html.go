@@ -14,6 +14,7 @@ import (
 	"github.com/areatest/areatest/spatial/clustering"
 	"github.com/areatest/areatest/spatial/compare"
 	"github.com/areatest/areatest/spatial/local"
+	"github.com/areatest/areatest/spatial/regress"
 )
 
 // The page is html/template's work from templates embedded in the binary
@@ -136,6 +137,8 @@ func buildPage(doc HTMLDoc) (*page, error) {
 		pg = localPage(r, doc.Top)
 	case *WeightsDocument:
 		pg = weightsPage(r)
+	case *regress.Result:
+		pg = residualsPage(r)
 	default:
 		return nil, fmt.Errorf("report page: no page for a %T", doc.Result)
 	}
