@@ -65,7 +65,7 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []GeometryP
 	var problems []GeometryProblem
 	var err error
 	if !s.PointBased() {
-		g, problems, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids})
+		g, problems, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids, Projected: s.Projected})
 		if err != nil {
 			return nil, nil, err
 		}
@@ -125,13 +125,13 @@ func (s Spec) orders(g *Graph) (*Graph, error) {
 // distances between them are measured in, as the spec's point-based rules
 // use them: the one place that chooses both.
 func (s Spec) Locate(geoms []orb.MultiPolygon) ([]orb.Point, Metric, error) {
-	pts, err := RepresentativePoints(geoms, s.Points)
-	if err != nil {
-		return nil, 0, err
-	}
 	metric := DetectMetric(geoms)
 	if s.Planar || s.Projected {
 		metric = Planar
+	}
+	pts, err := representativePoints(geoms, s.Points, metric == Geographic)
+	if err != nil {
+		return nil, 0, err
 	}
 	return pts, metric, nil
 }
