@@ -6,6 +6,8 @@ import (
 	"io"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
+
 	"github.com/paulmach/orb"
 )
 
@@ -198,7 +200,7 @@ func (s Spec) Describe(geoms []orb.MultiPolygon) string {
 	if !s.Projected && DetectMetric(geoms) == Geographic {
 		units = "degrees"
 	}
-	return fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, units, note)
+	return fmt.Sprintf("boundary points within %s %s count as shared%s", numtext.Length(snap), units, note)
 }
 
 // Restricted is a graph cut down to the areas a statistic uses.

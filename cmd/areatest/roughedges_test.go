@@ -2,9 +2,15 @@ package main
 
 import (
 	"fmt"
+	"os"
+	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/tests/testkit"
 )
 
 // A contrast level that is not in the data lists every level of the group
@@ -34,4 +40,68 @@ func TestScreenNamesSkippedColumns(t *testing.T) {
 	failsWith(t, runIn("", "screen", "-i", "words.geojson", "-n", "9"),
 		"words.geojson: no numeric column could be screened; 3 skipped:",
 		`"name" (not numeric)`, `"kind" (not numeric)`, `"depth" (not numeric: it holds numbers except for 1 of`, `"about 3" in area "D005"`)
+}
+
+// The islands warning names the flags of the remedy that fits the rule:
+// the snap distance or --islands keep for contiguity, the band for a
+// distance band, the bandwidth for a kernel; never another rule's flag.
+func TestIslandAdviceNamesTheFlags(t *testing.T) {
+	states := testkit.Testdata(t, "us-states.geojson") // 7 of 56 areas have no neighbour
+	tests := []struct {
+		rule      []string
+		want, not []string
+	}{
+		{nil, []string{"(--snap)", "(--knn K)", "(--islands keep)"}, []string{"--band", "--bandwidth"}},
+		{[]string{"--band", "300km"}, []string{"(--band)", "(--knn K)", "(--islands keep)"}, []string{"--snap", "--bandwidth"}},
+		{[]string{"--kernel", "triangular", "--bandwidth", "300km"}, []string{"(--bandwidth)", "(--adaptive K)"}, []string{"--snap", "(--band)"}},
+	}
+	for _, tc := range tests {
+		t.Run(strings.Join(tc.rule, " "), func(t *testing.T) {
+			o := runCLI(t, "", append([]string{"weights", "-i", states}, tc.rule...)...)
+			if o.code != 0 {
+				t.Fatalf("exit %d: %s", o.code, o.stderr)
+			}
+			text := strings.Join(strings.Fields(o.stdout), " ") // undo the wrapping
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("no %q in %s", w, text)
+				}
+			}
+			for _, w := range tc.not {
+				if strings.Contains(text, w) {
+					t.Errorf("%q in %s", w, text)
+				}
+			}
+		})
+	}
+}
+
+// The snap distance prints one way (3 significant digits) in the rule's
+// description and in the geometry problems of the same run.
+func TestSnapDistanceOneFormat(t *testing.T) {
+	dir := t.TempDir()
+	layer := filepath.Join(dir, "sliver.geojson")
+	os.WriteFile(layer, []byte(`{"type":"FeatureCollection","features":[
+{"type":"Feature","id":"a","properties":{"v":1},"geometry":{"type":"MultiPolygon","coordinates":[[[[0,0],[1,0],[1,1],[0,1],[0,0]]],[[[3,3],[3.5,3],[4,3],[3,3]]]]}},
+{"type":"Feature","id":"b","properties":{"v":2},"geometry":{"type":"Polygon","coordinates":[[[1,0],[2,0],[2,1],[1,1],[1,0]]]}}]}`), 0o644)
+	for _, snap := range []string{"0.000123456", "7.38014772241653e-07"} {
+		o := runCLI(t, "", "weights", "-i", layer, "--snap", snap, "--list-geometry-problems")
+		want := numtext.Length(mustFloat(t, snap))
+		text := strings.Join(strings.Fields(o.stdout), " ")
+		if o.code != 0 || !strings.Contains(text, "within "+want+" degrees") || !strings.Contains(text, "the snap distance "+want+")") {
+			t.Errorf("--snap %s: exit %d, want %s in both places:\n%s", snap, o.code, want, o.stdout)
+		}
+		if strings.Contains(o.stdout+o.stderr, snap) {
+			t.Errorf("--snap %s printed in full", snap)
+		}
+	}
+}
+
+func mustFloat(t *testing.T, s string) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return v
 }

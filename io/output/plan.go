@@ -118,6 +118,9 @@ func (p *Plan) Add(path string) (*File, error) {
 	return f, nil
 }
 
+// Stdout reports whether the output goes to standard output.
+func (f *File) Stdout() bool { return f.stdout }
+
 // SetRender sets how the file is rendered when the plan is committed.
 func (f *File) SetRender(render func(io.Writer) error) { f.render = render }
 
