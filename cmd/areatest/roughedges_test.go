@@ -105,3 +105,41 @@ func mustFloat(t *testing.T, s string) float64 {
 	}
 	return v
 }
+
+// local with too few shuffles for the adjustment across areas says so,
+// with the smallest reachable adjusted p-value and the shuffles needed
+// (worked out by hand for the sample: 196 areas, 26 at the two-sided floor
+// 2/100 with 99 shuffles: BH reaches 0.02·196/26 = 0.151 at best and needs
+// B + 1 ≥ 2·196/(0.05·26) = 301.5, so 301 shuffles; Bonferroni needs
+// B + 1 ≥ 2·196/0.05 = 7,840). Enough shuffles, or no adjustment: no such
+// warning.
+func TestTooFewShufflesForTheAdjustment(t *testing.T) {
+	sampleDir(t)
+	tests := []struct {
+		args []string
+		want []string // nil: no such warning
+	}{
+		{[]string{"-n", "99"}, []string{"No area survives the benjamini-hochberg adjustment across 196 areas, though 45 pass at 0.05",
+			"no two-sided p-value is below 0.02", "26 area(s) are at that value", "196/26 at best", "can reach is 0.151", "at least 301 shuffles"}},
+		{[]string{"-n", "99", "--adjust", "bonferroni"}, []string{"can reach is 1,", "at least 7,839 shuffles"}},
+		{[]string{"-n", "99", "--adjust", "none"}, nil},
+		{[]string{"-n", "999"}, nil},
+	}
+	for _, tc := range tests {
+		t.Run(strings.Join(tc.args, " "), func(t *testing.T) {
+			o := runCLI(t, "", append([]string{"local", "-i", "region.geojson", "--variable", "rate"}, tc.args...)...)
+			text := strings.Join(strings.Fields(o.stdout), " ")
+			if o.code != 0 {
+				t.Fatalf("exit %d: %s", o.code, o.stderr)
+			}
+			if tc.want == nil && strings.Contains(text, "No area survives") {
+				t.Errorf("unexpected warning: %s", text)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("no %q in %s", w, text)
+				}
+			}
+		})
+	}
+}
