@@ -143,3 +143,21 @@ func TestTooFewShufflesForTheAdjustment(t *testing.T) {
 		})
 	}
 }
+
+// The report's warnings are in the report in every format; they also go to
+// stderr unless the text report itself is on stdout, so that they are seen
+// once when the report goes to a file.
+func TestWarningsOnStderrWhenTheReportGoesToAFile(t *testing.T) {
+	sampleDir(t)
+	base := []string{"local", "-i", "region.geojson", "--variable", "rate", "-n", "99"}
+	const w = `2 area(s) have no value and are drawn as "no data".`
+	screen := runCLI(t, "", base...)
+	if screen.code != 0 || !strings.Contains(screen.stdout, w) || strings.Contains(screen.stderr, "warning:") {
+		t.Errorf("text on stdout: exit %d, stderr %q", screen.code, screen.stderr)
+	}
+	file := runCLI(t, "", append(base, "-o", "report.txt")...)
+	b, _ := os.ReadFile("report.txt")
+	if file.code != 0 || !strings.Contains(string(b), w) || !strings.Contains(file.stderr, "areatest: warning: "+w) {
+		t.Errorf("text to a file: exit %d, stderr %q", file.code, file.stderr)
+	}
+}
