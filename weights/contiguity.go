@@ -46,6 +46,9 @@ type ContiguityOptions struct {
 	// IDs, when not nil, names the areas (one per geometry) in errors and
 	// warnings; without it areas are named by their 0-based index.
 	IDs []string
+	// Projected says the coordinates are not longitude/latitude even where
+	// they fall in its range, so longitudes +180 and −180 are not one line.
+	Projected bool
 }
 
 // RookMinShared is the shortest stretch, in multiples of the snap distance,
@@ -89,6 +92,12 @@ func DefaultSnap(geoms []orb.MultiPolygon) float64 { return contig.DefaultSnap(g
 //     vertices. The stretch is looked for one pair of sides at a time, so a
 //     border made only of sides shorter than RookMinShared·Snap is missed.
 //
+// On a longitude/latitude layer (DetectMetric says Geographic and
+// opt.Projected is false), boundaries on longitude +180 and on −180 are the
+// same line on the globe: areas split there, as RFC 7946 asks, are linked
+// across it by the same rules (within Snap in latitude for Queen, a shared
+// stretch longer than RookMinShared·Snap for Rook).
+//
 // All rings count, holes included: an area filling another's hole is its
 // neighbour. Cost grows as n log n in the number of boundary segments: a
 // uniform grid over the segments, with cells about the median segment length,
@@ -129,6 +138,13 @@ func BuildContiguity(geoms []orb.MultiPolygon, opt ContiguityOptions) (*Graph, [
 	pairs, problems, err := contig.Find(geoms, contig.Options{Rook: opt.Rule == Rook, Snap: opt.Snap, IDs: opt.IDs})
 	if err != nil {
 		return nil, nil, err
+	}
+	if !opt.Projected && DetectMetric(geoms) == Geographic {
+		snap := opt.Snap
+		if snap == 0 {
+			snap = DefaultSnap(geoms)
+		}
+		pairs = append(pairs, meridianLinks(geoms, snap, opt.Rule == Rook)...)
 	}
 	g, err := FromLinks(len(geoms), pairs, opt.Rule.String()+" contiguity")
 	if err != nil {

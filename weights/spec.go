@@ -6,6 +6,8 @@ import (
 	"io"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
+
 	"github.com/paulmach/orb"
 )
 
@@ -65,7 +67,7 @@ func (s Spec) Build(geoms []orb.MultiPolygon, ids []string) (*Graph, []GeometryP
 	var problems []GeometryProblem
 	var err error
 	if !s.PointBased() {
-		g, problems, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids})
+		g, problems, err = BuildContiguity(geoms, ContiguityOptions{Rule: s.Rule, Snap: s.Snap, IDs: ids, Projected: s.Projected})
 		if err != nil {
 			return nil, nil, err
 		}
@@ -125,13 +127,13 @@ func (s Spec) orders(g *Graph) (*Graph, error) {
 // distances between them are measured in, as the spec's point-based rules
 // use them: the one place that chooses both.
 func (s Spec) Locate(geoms []orb.MultiPolygon) ([]orb.Point, Metric, error) {
-	pts, err := RepresentativePoints(geoms, s.Points)
-	if err != nil {
-		return nil, 0, err
-	}
 	metric := DetectMetric(geoms)
 	if s.Planar || s.Projected {
 		metric = Planar
+	}
+	pts, err := representativePoints(geoms, s.Points, metric == Geographic)
+	if err != nil {
+		return nil, 0, err
 	}
 	return pts, metric, nil
 }
@@ -198,7 +200,7 @@ func (s Spec) Describe(geoms []orb.MultiPolygon) string {
 	if !s.Projected && DetectMetric(geoms) == Geographic {
 		units = "degrees"
 	}
-	return fmt.Sprintf("boundary points within %.3g %s count as shared%s", snap, units, note)
+	return fmt.Sprintf("boundary points within %s %s count as shared%s", numtext.Length(snap), units, note)
 }
 
 // Restricted is a graph cut down to the areas a statistic uses.

@@ -85,9 +85,9 @@ func Summarise(g *Graph, ids []string) Summary {
 
 	switch {
 	case s.Islands == n:
-		s.Warnings = append(s.Warnings, "No area has a neighbour: every area is an island, so no spatial statistic can be computed. Widen the distance band or choose another neighbour rule.")
+		s.Warnings = append(s.Warnings, "No area has a neighbour: every area is an island, so no spatial statistic can be computed. "+islandRemedy(g.Kind, true))
 	case s.Islands*10 > n:
-		s.Warnings = append(s.Warnings, fmt.Sprintf("%d of %d areas (%.0f%%) have no neighbour; spatial statistics would rest on the few linked areas. Widen the distance band or choose another neighbour rule.", s.Islands, n, 100*float64(s.Islands)/float64(n)))
+		s.Warnings = append(s.Warnings, fmt.Sprintf("%d of %d areas (%.0f%%) have no neighbour; spatial statistics would rest on the few linked areas. %s", s.Islands, n, 100*float64(s.Islands)/float64(n), islandRemedy(g.Kind, false)))
 	}
 	if big := s.Components - s.Islands; big > 1 {
 		s.Warnings = append(s.Warnings, fmt.Sprintf("The graph falls into %d separate groups of linked areas (sizes %s); spatial patterns cannot be compared across groups that are not linked.", big, sizes(s.ComponentSizes)))

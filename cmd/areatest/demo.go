@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 
 	"github.com/spf13/pflag"
 
@@ -93,7 +94,9 @@ func holdsSample(path string) (bool, error) {
 	info, err := os.Stat(path)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
-		return false, nil
+		return false, nil // a missing folder is the output plan's to name
+	case errors.Is(err, syscall.ENOTDIR):
+		return false, fmt.Errorf("--write: %s is not a folder", filepath.Dir(path))
 	case err != nil:
 		return false, fmt.Errorf("%s: %w", path, err)
 	}

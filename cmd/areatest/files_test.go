@@ -124,8 +124,8 @@ func TestNoFileFromAFailedRun(t *testing.T) {
 		want string
 		args []string
 	}{
-		{1, "--map: nodir/m.svg: cannot write there: directory nodir does not exist", localRun("--out", "r.csv", "--map", "nodir/m.svg")},
-		{1, "plain is not a directory", localRun("--out", "r.csv", "--scatter", "plain/s.svg")},
+		{1, "--map: nodir/m.svg: cannot write there: the folder nodir does not exist", localRun("--out", "r.csv", "--map", "nodir/m.svg")},
+		{1, "plain is not a folder", localRun("--out", "r.csv", "--scatter", "plain/s.svg")},
 		{2, "--scatter draws the Moran scatter", localRun("--statistic", "geary", "--out", "r.geojson", "--map", "m.svg", "--scatter", "s.svg")},
 		// A data error after the outputs were planned.
 		{1, "--area", localRun("--out", "r.csv", "--map", "m.svg", "--histogram", "h.svg", "--area", "NOPE")},
@@ -222,7 +222,9 @@ func TestDemoWriteReplacesNothing(t *testing.T) {
 	if b, _ := os.ReadFile("mine/region.geojson"); string(b) != "my own data" {
 		t.Error("demo --write replaced a file")
 	}
-	wantRefused(t, 1, "directory nowhere does not exist", []string{"demo", "--write", "nowhere"})
+	wantRefused(t, 1, "the folder nowhere does not exist", []string{"demo", "--write", "nowhere"})
+	os.WriteFile("plain", []byte("a file"), 0o644)
+	wantRefused(t, 1, "--write: plain is not a folder", []string{"demo", "--write", "plain"})
 	wantRefused(t, 2, "--format, --permutations would have no effect", []string{"demo", "--write", "new", "--format", "json", "-n", "9"})
 	wantRefused(t, 2, "--write needs a directory", []string{"demo", "--write", ""})
 }

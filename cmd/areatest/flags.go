@@ -270,10 +270,13 @@ func readLayer(path string, stdin io.Reader, opt input.Options) (lay *layer.Laye
 
 // emit writes the result in the chosen format, by render, to --output,
 // together with the run's other planned outputs (the page of --report by
-// render["html"], see page); the text report shows its warnings itself,
-// the other formats leave them to stderr.
+// render["html"], see page). The report carries its warnings in every
+// format; they also go to stderr, one line each, unless the text report
+// itself is on stdout — so that whoever runs the command sees them once
+// whether the report goes to the screen, to a file or into a program.
 func (c *sharedFlags) emit(stdout, stderr io.Writer, warnings []string, render map[string]func(io.Writer) error) error {
-	if c.format != "text" {
+	nameFlags(warnings)
+	if c.format != "text" || !c.fileOf("--output").Stdout() {
 		warn(stderr, warnings...)
 	}
 	r := render[c.format]

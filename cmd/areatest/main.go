@@ -22,6 +22,16 @@ func (e *usageError) Error() string { return e.msg }
 
 func usagef(format string, a ...any) error { return &usageError{fmt.Sprintf(format, a...)} }
 
+// helpRequest is what parsing returns when -h or --help was given: the
+// command's help text, which run writes to stdout with exit 0 — help asked
+// for is the command's output, not a complaint.
+type helpRequest struct{ text string }
+
+func (h *helpRequest) Error() string { return "help requested" }
+
+// Unwrap makes a help request read as pflag.ErrHelp to errors.Is.
+func (h *helpRequest) Unwrap() error { return pflag.ErrHelp }
+
 // commands are the subcommands by name, each in a file of its own.
 var commands = map[string]func(args []string, stdin io.Reader, stdout, stderr io.Writer) error{
 	"compare": runCompare, "demo": runDemo, "autocorr": runAutocorr, "screen": runScreen, "local": runLocal, "weights": runWeights,
@@ -53,8 +63,12 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err = usagef("unknown command %q (commands: compare, autocorr, screen, local, residuals, weights, demo; see areatest --help)", args[0])
 	}
 	var ue *usageError
+	var hr *helpRequest
 	switch {
 	case err == nil:
+		return 0
+	case errors.As(err, &hr):
+		fmt.Fprint(stdout, hr.text)
 		return 0
 	case errors.Is(err, pflag.ErrHelp):
 		return 0
@@ -90,25 +104,27 @@ func note(w io.Writer, msg string) {
 }
 
 // newFlags makes the flag set of a command, which reports errors instead of
-// exiting and shows the command's help text (help/NAME.txt).
+// exiting; its help text (help/NAME.txt and the flags) comes back from
+// parseFlags as a helpRequest.
 func newFlags(name string, stderr io.Writer) *pflag.FlagSet {
-	usage := help(name)
 	fs := pflag.NewFlagSet(name, pflag.ContinueOnError)
 	fs.SetOutput(stderr)
 	fs.SortFlags = false
-	fs.Usage = func() {
-		fmt.Fprint(stderr, usage)
-		fmt.Fprintln(stderr, "\nFlags:")
-		fmt.Fprint(stderr, fs.FlagUsages())
-	}
+	fs.Usage = func() {} // the text goes to stdout through run, not here
 	return fs
 }
 
-// parseFlags parses args, turning flag errors into usage errors.
+// commandHelp is the full help of a command: its text and its flags.
+func commandHelp(fs *pflag.FlagSet) string {
+	return help(fs.Name()) + "\nFlags:\n" + fs.FlagUsages()
+}
+
+// parseFlags parses args, turning flag errors into usage errors and -h or
+// --help into a helpRequest.
 func parseFlags(fs *pflag.FlagSet, args []string) error {
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, pflag.ErrHelp) {
-			return err
+			return &helpRequest{commandHelp(fs)}
 		}
 		return usagef("%v (see areatest %s --help)", err, fs.Name())
 	}

@@ -62,8 +62,8 @@ func TestScalingFlag(t *testing.T) {
 // --help offers --scaling and no longer shows --transform.
 func TestScalingInHelp(t *testing.T) {
 	r := runIn("", "weights", "--help")
-	if !strings.Contains(r.stderr, "--scaling") || strings.Contains(r.stderr, "--transform") {
-		t.Errorf("help: %s", r.stderr)
+	if !strings.Contains(r.stdout, "--scaling") || strings.Contains(r.stdout, "--transform") {
+		t.Errorf("help: %s", r.stdout)
 	}
 }
 

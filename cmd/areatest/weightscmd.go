@@ -53,6 +53,7 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	}
 	doc := &report.WeightsDocument{Version: Version, Input: c.lay.Source, Weights: weights.Summarise(shown, c.lay.IDs),
 		GeometryProblems: c.weights.problems, ListProblems: list}
+	nameFlags(doc.Weights.Warnings)
 	doc.Settings = []string{"read from " + c.weights.file}
 	if c.weights.file == "" {
 		doc.Settings = []string{c.spec.Describe(c.lay.Geoms)}

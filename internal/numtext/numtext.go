@@ -21,3 +21,11 @@ func Count[T ~int | ~int32 | ~int64](n T) string {
 	}
 	return string(out)
 }
+
+// Length writes a small distance such as the snap distance of contiguity
+// with 3 significant digits (7.38e-07, 0.0125, 25): enough to tell two
+// tolerances apart, and one spelling wherever the same value is printed —
+// a warning and the summary of the same run must show the same number.
+func Length(v float64) string {
+	return strconv.FormatFloat(v, 'g', 3, 64)
+}

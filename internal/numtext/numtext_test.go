@@ -24,3 +24,21 @@ func TestCount(t *testing.T) {
 		t.Errorf("int32: %q", got)
 	}
 }
+
+// One format for lengths: 3 significant digits, as %.3g writes them.
+func TestLength(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{
+		{7.38014772241653e-07, "7.38e-07"},
+		{0.0125, "0.0125"},
+		{25, "25"},
+		{1234.5, "1.23e+03"},
+		{0, "0"},
+	} {
+		if got := Length(c.v); got != c.want {
+			t.Errorf("Length(%v) = %q, want %q", c.v, got, c.want)
+		}
+	}
+}

@@ -8,6 +8,8 @@ import (
 	"os"
 	"strings"
 
+	"github.com/areatest/areatest/internal/numtext"
+
 	"github.com/areatest/areatest/io/layer"
 )
 
@@ -75,6 +77,9 @@ type reader struct {
 	seekBase int64
 	bomLen   int64
 	head     string // first bytes of the input, to recognise non-JSON formats
+	// spaces counts the white space skipped before the first value by
+	// skipSpace (bomLen includes it).
+	spaces int64
 
 	feat     featureState
 	crs      string // name from a legacy "crs" member, "" if none
@@ -103,6 +108,14 @@ func newReader(r io.Reader, source string, opt Options) *reader {
 		h = h[3:]
 		rd.bomLen = 3
 	}
+	if err == nil && isSpace(h) {
+		// A long run of white space first: skip it here, in fixed chunks,
+		// because the JSON decoder would hold all of it in memory while it
+		// looks for the first value.
+		h, n, err = skipLeadingSpace(r, len(head))
+		rd.spaces = int64(n)
+		rd.bomLen += rd.spaces
+	}
 	rd.head = string(h)
 	rest := r
 	if err != nil {
@@ -127,6 +140,9 @@ func (e errReader) Read([]byte) (int, error) { return 0, e.err }
 func (rd *reader) run() (*layer.Layer, error) {
 	tok, err := rd.dec.Token()
 	if err == io.EOF {
+		if rd.spaces > 0 {
+			return nil, rd.fail(0, "", "the input holds only white space (%s bytes); expected a GeoJSON FeatureCollection", numtext.Count(rd.spaces))
+		}
 		return nil, rd.fail(0, "", "the input is empty; expected a GeoJSON FeatureCollection")
 	}
 	if err != nil {

@@ -66,7 +66,7 @@ func (p *Plan) place(stdout io.Writer, data [][]byte) (err error) {
 		}
 		_, statErr := os.Lstat(f.target)
 		if err = os.Rename(temps[i], f.target); err != nil {
-			return fmt.Errorf("%s: cannot write: %w", f.Path, err)
+			return fmt.Errorf("%s: cannot write: %w", f.Path, inFolder(filepath.Dir(f.target), err))
 		}
 		temps[i] = ""
 		if errors.Is(statErr, fs.ErrNotExist) {
@@ -84,7 +84,7 @@ func (p *Plan) place(stdout io.Writer, data [][]byte) (err error) {
 // stage writes data to a new temporary file beside f's target, with the
 // permissions the target will have, and returns its name.
 func stage(f *File, data []byte) (string, error) {
-	tmp, err := os.CreateTemp(filepath.Dir(f.target), tempPattern(f.target))
+	tmp, err := createTemp(f.target)
 	if err != nil {
 		return "", err
 	}
@@ -101,7 +101,7 @@ func stage(f *File, data []byte) (string, error) {
 	}
 	if err != nil {
 		os.Remove(tmp.Name())
-		return "", err
+		return "", inFolder(filepath.Dir(f.target), err)
 	}
 	return tmp.Name(), nil
 }

@@ -77,9 +77,9 @@ func (e *TargetError) Error() string {
 		return fmt.Sprintf("%s: refusing to overwrite the input file", e.Path)
 	case NoDirectory:
 		if errors.Is(e.Err, fs.ErrNotExist) {
-			return fmt.Sprintf("%s: cannot write there: directory %s does not exist", e.Path, e.Dir)
+			return fmt.Sprintf("%s: cannot write there: the folder %s does not exist", e.Path, e.Dir)
 		}
-		return fmt.Sprintf("%s: cannot write there: %s is not a directory", e.Path, e.Dir)
+		return fmt.Sprintf("%s: cannot write there: %s is not a folder", e.Path, e.Dir)
 	case Repeated:
 		return fmt.Sprintf("%s is the same file as %s, another output of this run", e.Path, e.EarlierPath)
 	}
@@ -117,6 +117,9 @@ func (p *Plan) Add(path string) (*File, error) {
 	p.files = append(p.files, f)
 	return f, nil
 }
+
+// Stdout reports whether the output goes to standard output.
+func (f *File) Stdout() bool { return f.stdout }
 
 // SetRender sets how the file is rendered when the plan is committed.
 func (f *File) SetRender(render func(io.Writer) error) { f.render = render }
@@ -210,13 +213,55 @@ func (f *File) writable() error {
 	if f.straight {
 		return nil
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(f.target), tempPattern(f.target))
+	tmp, err := createTemp(f.target)
 	if err != nil {
 		return fail(err)
 	}
 	tmp.Close()
 	return os.Remove(tmp.Name())
 }
+
+// createTemp makes a new temporary file beside target. Its errors name
+// target's folder and what went wrong there, never the temporary file:
+// that name means nothing to the reader (it is hidden, random and gone).
+func createTemp(target string) (*os.File, error) {
+	tmp, err := os.CreateTemp(filepath.Dir(target), tempPattern(target))
+	if err != nil {
+		return nil, inFolder(filepath.Dir(target), err)
+	}
+	return tmp, nil
+}
+
+// inFolder rewords an error met on a temporary file (creating, writing or
+// renaming it) in dir so that it names dir. The system's own error stays
+// wrapped for errors.Is.
+func inFolder(dir string, err error) error {
+	var pe *fs.PathError
+	var le *os.LinkError
+	switch {
+	case errors.As(err, &pe):
+		err = pe.Err
+	case errors.As(err, &le):
+		err = le.Err
+	}
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return &folderError{fmt.Sprintf("the folder %s does not exist", dir), err}
+	case errors.Is(err, fs.ErrPermission):
+		return &folderError{fmt.Sprintf("no permission to create files in the folder %s", dir), err}
+	}
+	return &folderError{fmt.Sprintf("in the folder %s: %v", dir, err), err}
+}
+
+// folderError is a problem with an output's folder, in words, with the
+// system's error kept for errors.Is but not repeated in the text.
+type folderError struct {
+	msg string
+	err error
+}
+
+func (e *folderError) Error() string { return e.msg }
+func (e *folderError) Unwrap() error { return e.err }
 
 // tempPattern names the temporary files beside target.
 func tempPattern(target string) string { return "." + filepath.Base(target) + ".tmp-*" }

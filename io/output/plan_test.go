@@ -63,8 +63,8 @@ func TestAddRefuses(t *testing.T) {
 		want    string
 	}{
 		{"a directory", "", dir, IsDirectory, "is a directory"},
-		{"missing directory", "", p("no/out.txt"), NoDirectory, "directory " + p("no") + " does not exist"},
-		{"directory is a file", "", p("plain/out.txt"), NoDirectory, "is not a directory"},
+		{"missing directory", "", p("no/out.txt"), NoDirectory, "the folder " + p("no") + " does not exist"},
+		{"directory is a file", "", p("plain/out.txt"), NoDirectory, "is not a folder"},
 		{"the input", "", in, IsInput, "refusing to overwrite the input"},
 		{"the input through a link", "", p("in-link"), IsInput, "refusing to overwrite the input"},
 		{"a link loop", "", p("loop"), NotWritable, "too many levels"},

@@ -111,7 +111,7 @@ func Screen(in ScreenInput, opt Options) (*ScreenResult, error) {
 		}
 	}
 	if len(res.Rows) == 0 {
-		return nil, fmt.Errorf("%s: no numeric column could be screened (%d skipped)", in.File, len(res.Skipped))
+		return nil, fmt.Errorf("%s: no numeric column could be screened; %s", in.File, skippedText(res.Skipped))
 	}
 	res.adjustAndRank(opt.Adjust)
 	return res, nil
@@ -271,4 +271,23 @@ func patternKey(missing []bool) string {
 		}
 	}
 	return b.String()
+}
+
+// skippedText names the skipped columns and why, for the error of a screen
+// with nothing left to screen: the reader needs to know which column to
+// fix (a number column with a few bad values) or that there is none.
+func skippedText(skipped []Skipped) string {
+	if len(skipped) == 0 {
+		return "the layer has no column besides the geometry"
+	}
+	const most = 12 // a wide table would bury the message
+	parts := make([]string, 0, min(len(skipped), most)+1)
+	for k, s := range skipped {
+		if k == most {
+			parts = append(parts, fmt.Sprintf("and %d more", len(skipped)-most))
+			break
+		}
+		parts = append(parts, fmt.Sprintf("%q (%s)", s.Name, s.Reason))
+	}
+	return fmt.Sprintf("%d skipped: %s", len(skipped), strings.Join(parts, ", "))
 }

@@ -161,6 +161,9 @@ func Analyse(kind Kind, in Input, opt Options) (*Result, error) {
 	res.place(in, keep, r.Areas, results)
 	res.countCategories()
 	res.warn(len(in.IDs)-len(keep), len(keep)-len(r.Used), opt)
+	if w := reachWarning(res, results, opt); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
 	return res, nil
 }
 

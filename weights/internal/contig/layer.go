@@ -5,6 +5,8 @@ import (
 	"math"
 	"slices"
 
+	"github.com/areatest/areatest/internal/numtext"
+
 	"github.com/paulmach/orb"
 )
 
@@ -268,8 +270,8 @@ func (l *layer) sliverProblems(crossed []bool, snap float64, names namer) []Prob
 			solid[s.area]++
 			continue
 		}
-		slivers = append(slivers, Problem{Sliver, int(s.area), fmt.Sprintf("%s: %s has no area (its mean width is at most the snap distance %g); it is left out of the neighbour search",
-			names.area(int(s.area)), ringName(int(s.part), int(s.hole)), snap)})
+		slivers = append(slivers, Problem{Sliver, int(s.area), fmt.Sprintf("%s: %s has no area (its mean width is at most the snap distance %s); it is left out of the neighbour search",
+			names.area(int(s.area)), ringName(int(s.part), int(s.hole)), numtext.Length(snap))})
 	}
 	for _, s := range l.slivers {
 		if solid[s.area] == 0 {

@@ -13,14 +13,25 @@ const block = 1024
 
 // Of returns one point per area: the area-weighted centroid, or with inside
 // a point inside the area (see weights.RepresentativePoints for the rule).
-// missing is the first area with no vertex at all, or −1 when there is none.
-func Of(geoms []orb.MultiPolygon, inside bool) (pts []orb.Point, missing int) {
+// With lonLat the coordinates are longitude/latitude, and an area whose
+// longitudes span more than 180° is taken to cross the antimeridian: its
+// point is computed on its unwrapped copy (see unwrap) and brought back to
+// [-180, 180). missing is the first area with no vertex at all, or −1 when
+// there is none.
+func Of(geoms []orb.MultiPolygon, inside, lonLat bool) (pts []orb.Point, missing int) {
 	pts = make([]orb.Point, len(geoms))
 	bad := make([]bool, len(geoms))
 	parallel.ForRanges(len(geoms), block, 0, func(lo, hi int) {
 		var sc scan
 		for i := lo; i < hi; i++ {
-			p, ok := sc.represent(geoms[i], inside)
+			mp, wrapped := geoms[i], lonLat && crossesAntimeridian(geoms[i])
+			if wrapped {
+				mp = unwrap(mp)
+			}
+			p, ok := sc.represent(mp, inside)
+			if wrapped {
+				p[0] = wrapLon(p[0])
+			}
 			pts[i], bad[i] = p, !ok
 		}
 	})

@@ -14,7 +14,7 @@ import (
 // of is Of for layers whose areas all have vertices.
 func of(t *testing.T, geoms []orb.MultiPolygon, inside bool) []orb.Point {
 	t.Helper()
-	pts, missing := Of(geoms, inside)
+	pts, missing := Of(geoms, inside, false)
 	if missing >= 0 {
 		t.Fatalf("area %d has no vertex", missing)
 	}
@@ -180,7 +180,7 @@ func onBoundary(mp orb.MultiPolygon, p orb.Point) bool {
 // An area whose rings enclose no area (all on a line) gets its
 // bounding-box centre; one without vertices is named.
 func TestDegenerateAreas(t *testing.T) {
-	if _, missing := Of([]orb.MultiPolygon{{{rect(0, 0, 1, 1)}}, {}}, false); missing != 1 {
+	if _, missing := Of([]orb.MultiPolygon{{{rect(0, 0, 1, 1)}}, {}}, false, false); missing != 1 {
 		t.Errorf("an empty geometry: missing %d, want 1", missing)
 	}
 	flat := orb.MultiPolygon{{{{0, 0}, {2, 0}, {4, 0}, {0, 0}}}}
@@ -201,7 +201,7 @@ func BenchmarkRepresentativePoints250000(b *testing.B) {
 	for _, inside := range []bool{false, true} {
 		b.Run(map[bool]string{false: "centroid", true: "inside"}[inside], func(b *testing.B) {
 			for b.Loop() {
-				if _, missing := Of(r.Geoms, inside); missing >= 0 {
+				if _, missing := Of(r.Geoms, inside, false); missing >= 0 {
 					b.Fatalf("area %d has no vertex", missing)
 				}
 			}
