@@ -70,8 +70,8 @@ func TestResidualsBadInputs(t *testing.T) {
 			}
 		}
 	}
-	if r := runIn("", "residuals", "--help"); r.code != 0 || !strings.Contains(r.stderr, "Examples:") || !strings.Contains(r.stderr, "--covariates") {
-		t.Errorf("--help: exit %d, %q", r.code, r.stderr)
+	if r := runIn("", "residuals", "--help"); r.code != 0 || !strings.Contains(r.stdout, "Examples:") || !strings.Contains(r.stdout, "--covariates") {
+		t.Errorf("--help: exit %d, %q", r.code, r.stdout)
 	}
 }
 
