@@ -49,7 +49,7 @@ func newCentredSym(g *weights.Graph) centredSym {
 			fill[j]++
 		}
 	}
-	c := centredSym{offsets: make([]int, n+1)}
+	c := centredSym{offsets: make([]int, n+1), neighbours: make([]int32, 0, 2*g.Links()), weights: make([]float64, 0, 2*g.Links())}
 	for i := 0; i < n; i++ {
 		nb, w := g.Row(i)
 		from, fw := inFrom[inCount[i]:inCount[i+1]], inW[inCount[i]:inCount[i+1]]
@@ -81,6 +81,12 @@ func (c centredSym) Len() int { return len(c.offsets) - 1 }
 
 // Apply sets y = M W* v.
 func (c centredSym) Apply(v, y []float64) {
+	c.gather(v, y)
+	centreInPlace(y)
+}
+
+// gather sets y = W* v.
+func (c centredSym) gather(v, y []float64) {
 	for i := range y {
 		var acc float64
 		a, b := c.offsets[i], c.offsets[i+1]
@@ -89,7 +95,6 @@ func (c centredSym) Apply(v, y []float64) {
 		}
 		y[i] = acc
 	}
-	centreInPlace(y)
 }
 
 func (c centredSym) Project(v []float64) { centreInPlace(v) }

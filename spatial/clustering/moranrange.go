@@ -13,10 +13,12 @@ import (
 // n^1.5 (its Lanczos iteration needs about 3.5√n products on square
 // lattices, whose extreme eigenvalues crowd together fastest), while the
 // rest of a run grows about as n, so past some size it would dominate the
-// run. Measured (BenchmarkBounds* in spatial/autocorr, BenchmarkAutocorr*
-// in cmd/areatest): at 20,000 areas it is at most 5% of a default run of
-// autocorr on a square grid and 2% on the generated region.
-const AutoRangeAreas = 20_000
+// run. The limit keeps it under a tenth of a default run (9,999 shuffles)
+// on the worst case, a square grid. Measured on a shared 2-core machine
+// (BenchmarkBoundsQueen* in spatial/autocorr, BenchmarkScaleAutocorr* in
+// cmd/areatest): 16 ms on 3,136 cells (5% of the run), 82 ms on 10,000
+// (8%), 255 ms on 19,881 (13%), 1.7 s on 85,264.
+const AutoRangeAreas = 10_000
 
 // rangeCache keeps the range of the last graph it was computed on, so that
 // variables analysed on the same areas share one computation.
