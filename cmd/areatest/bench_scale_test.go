@@ -18,9 +18,15 @@ import (
 // 3,000-area case. The large ones take a minute or more each; run them
 // once: go test ./cmd/areatest -run - -bench 'Scale' -benchtime 1x.
 
-func BenchmarkScaleAutocorrGrid3000(b *testing.B)  { benchScale(b, gridData(b, 55), autocorrArgs("value")) }
-func BenchmarkScaleAutocorrGrid20000(b *testing.B) { benchScale(b, gridData(b, 141), autocorrArgs("value")) }
-func BenchmarkScaleAutocorrGrid85000(b *testing.B) { benchScale(b, gridData(b, 292), autocorrArgs("value")) }
+func BenchmarkScaleAutocorrGrid3000(b *testing.B) {
+	benchScale(b, gridData(b, 55), autocorrArgs("value"))
+}
+func BenchmarkScaleAutocorrGrid20000(b *testing.B) {
+	benchScale(b, gridData(b, 141), autocorrArgs("value"))
+}
+func BenchmarkScaleAutocorrGrid85000(b *testing.B) {
+	benchScale(b, gridData(b, 292), autocorrArgs("value"))
+}
 
 // The same with the range of Moran's I asked for at any size.
 func BenchmarkScaleAutocorrRangeGrid85000(b *testing.B) {
@@ -93,12 +99,12 @@ var scaleLayers sync.Map
 
 // regionData is the generated region of n districts (benchLayer), made
 // once per process.
-func regionData(b *testing.B, n int) scaleLayer {
+func regionData(tb testing.TB, n int) scaleLayer {
 	key := "region" + strconv.Itoa(n)
 	if l, ok := scaleLayers.Load(key); ok {
 		return l.(scaleLayer)
 	}
-	l := scaleLayer{benchLayer(b, n), n}
+	l := scaleLayer{benchLayer(tb, n), n}
 	scaleLayers.Store(key, l)
 	return l
 }
@@ -107,7 +113,7 @@ func regionData(b *testing.B, n int) scaleLayer {
 // columns (a smooth surface with a little noise, a trend, noise alone and
 // a count), made once per process. Corners are computed from integer
 // positions, so neighbouring cells share them bit for bit.
-func gridData(b *testing.B, m int) scaleLayer {
+func gridData(tb testing.TB, m int) scaleLayer {
 	key := "grid" + strconv.Itoa(m)
 	if l, ok := scaleLayers.Load(key); ok {
 		return l.(scaleLayer)
