@@ -11,69 +11,48 @@ import (
 )
 
 // Whole runs of autocorr, screen and local at 3,000, 20,000 and 85,000
-// areas, on square grids of 0.01° cells (queen contiguity, as a fishnet)
-// and on the generated region, in process from reading the GeoJSON to
-// writing the text report, 999 shuffles and two workers. Target (issue 17):
-// the time per area (ns/area) at 20,000 and 85,000 within 1.5× of the
-// 3,000-area case. The large ones take a minute or more each; run them
-// once: go test ./cmd/areatest -run - -bench 'Scale' -benchtime 1x.
-
-func BenchmarkScaleAutocorrGrid3000(b *testing.B) {
-	benchScale(b, gridData(b, 55), autocorrArgs("value"))
-}
-func BenchmarkScaleAutocorrGrid20000(b *testing.B) {
-	benchScale(b, gridData(b, 141), autocorrArgs("value"))
-}
-func BenchmarkScaleAutocorrGrid85000(b *testing.B) {
-	benchScale(b, gridData(b, 292), autocorrArgs("value"))
-}
-
-// The same with the range of Moran's I asked for at any size.
-func BenchmarkScaleAutocorrRangeGrid85000(b *testing.B) {
-	benchScale(b, gridData(b, 292), append(autocorrArgs("value"), "--moran-range"))
-}
-
-func BenchmarkScaleAutocorrRegion3000(b *testing.B) {
-	benchScale(b, regionData(b, 3000), autocorrArgs("rate"))
-}
-func BenchmarkScaleAutocorrRegion20000(b *testing.B) {
-	benchScale(b, regionData(b, 20_000), autocorrArgs("rate"))
-}
-func BenchmarkScaleAutocorrRegion85000(b *testing.B) {
-	benchScale(b, regionData(b, 85_000), autocorrArgs("rate"))
-}
-
-func BenchmarkScaleScreenGrid3000(b *testing.B)    { benchScale(b, gridData(b, 55), screenArgs) }
-func BenchmarkScaleScreenGrid20000(b *testing.B)   { benchScale(b, gridData(b, 141), screenArgs) }
-func BenchmarkScaleScreenGrid85000(b *testing.B)   { benchScale(b, gridData(b, 292), screenArgs) }
-func BenchmarkScaleScreenRegion3000(b *testing.B)  { benchScale(b, regionData(b, 3000), screenArgs) }
-func BenchmarkScaleScreenRegion20000(b *testing.B) { benchScale(b, regionData(b, 20_000), screenArgs) }
-func BenchmarkScaleScreenRegion85000(b *testing.B) { benchScale(b, regionData(b, 85_000), screenArgs) }
-
-func BenchmarkScaleLocalGrid3000(b *testing.B)  { benchScale(b, gridData(b, 55), localArgs("value")) }
-func BenchmarkScaleLocalGrid20000(b *testing.B) { benchScale(b, gridData(b, 141), localArgs("value")) }
-func BenchmarkScaleLocalGrid85000(b *testing.B) { benchScale(b, gridData(b, 292), localArgs("value")) }
-func BenchmarkScaleLocalRegion3000(b *testing.B) {
-	benchScale(b, regionData(b, 3000), localArgs("rate"))
-}
-func BenchmarkScaleLocalRegion20000(b *testing.B) {
-	benchScale(b, regionData(b, 20_000), localArgs("rate"))
-}
-func BenchmarkScaleLocalRegion85000(b *testing.B) {
-	benchScale(b, regionData(b, 85_000), localArgs("rate"))
+// areas, on square grids of 0.01° cells (queen contiguity, as a fishnet;
+// 55², 141² and 292² cells) and on the generated region, in process from
+// reading the GeoJSON to writing the text report, 999 shuffles and two
+// workers. Target (issue 17): the time per area (ns/area) at 20,000 and
+// 85,000 within 1.5× of the 3,000-area case. autocorr-range asks for the
+// range of Moran's I at any size. The large ones take up to a minute each;
+// run them once: go test ./cmd/areatest -run - -bench Scale -benchtime 1x
+// (or -bench 'Scale/local/grid' and the like).
+func BenchmarkScale(b *testing.B) {
+	commands := []struct {
+		name            string
+		args            []string
+		gridVar, regVar string
+	}{
+		{"autocorr", []string{"autocorr", "--variables"}, "value", "rate"},
+		{"autocorr-range", []string{"autocorr", "--moran-range", "--variables"}, "value", "rate"},
+		{"screen", []string{"screen"}, "", ""},
+		{"local", []string{"local", "--variable"}, "value", "rate"},
+	}
+	for _, c := range commands {
+		for _, n := range []int{3000, 20_000, 85_000} {
+			for _, kind := range []string{"grid", "region"} {
+				b.Run(fmt.Sprintf("%s/%s/%d", c.name, kind, n), func(b *testing.B) {
+					layer, variable := scaleGrid(b, n), c.gridVar
+					if kind == "region" {
+						layer, variable = regionData(b, n), c.regVar
+					}
+					args := append([]string{}, c.args...)
+					if variable != "" {
+						args = append(args, variable)
+					}
+					benchScale(b, layer, append(args, "-i", "-", "-n", "999", "--workers", "2"))
+				})
+			}
+		}
+	}
 }
 
-const scaleShuffles = "999"
-
-func autocorrArgs(v string) []string {
-	return []string{"autocorr", "-i", "-", "--variables", v, "-n", scaleShuffles, "--workers", "2"}
+// scaleGrid is the square grid nearest n cells.
+func scaleGrid(tb testing.TB, n int) scaleLayer {
+	return gridData(tb, int(math.Round(math.Sqrt(float64(n)))))
 }
-
-func localArgs(v string) []string {
-	return []string{"local", "-i", "-", "--variable", v, "-n", scaleShuffles, "--workers", "2"}
-}
-
-var screenArgs = []string{"screen", "-i", "-", "-n", scaleShuffles, "--workers", "2"}
 
 // benchScale times one command on a layer and reports the time per area.
 func benchScale(b *testing.B, layer scaleLayer, args []string) {
