@@ -10,8 +10,8 @@ import (
 
 // AutoRangeAreas is the largest number of areas on which Autocorr computes
 // the range of Moran's I without Options.MoranRange. The range costs about
-// n^1.5 (its Lanczos iteration needs about 3.5√n products on square
-// lattices, whose extreme eigenvalues crowd together fastest), while the
+// n^1.5 (its Lanczos iteration needs about 3√n steps on square lattices,
+// whose extreme eigenvalues crowd together fastest), while the
 // rest of a run grows about as n, so past some size it would dominate the
 // run. The limit keeps it under a tenth of a default run (9,999 shuffles)
 // on the worst case, a square grid. Measured on a shared 2-core machine
