@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"github.com/areatest/areatest/internal/numtext"
 	"github.com/areatest/areatest/io/figure"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/progress"
@@ -22,6 +23,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	var lags int
 	var lagWidth float64
 	var lagWidthUnits *distanceFlag
+	var moranRange bool
 	fs := newFlags("autocorr", stderr)
 	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
 	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
@@ -29,6 +31,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
 	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
 	lagWidthUnits = distanceVar(fs, &lagWidth, "lag-width", "with --lags: distance classes of this width instead of neighbour orders"+distanceHelp)
+	fs.BoolVar(&moranRange, "moran-range", false, "compute the range of Moran's I at any size (unasked only up to "+numtext.Count(clustering.AutoRangeAreas)+" areas)")
 	var pics autocorrPictureFlags
 	pics.register(fs)
 	c.register(fs, "text", "json")
@@ -52,6 +55,7 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return err
 	}
 	in, opt := c.clustering()
+	opt.MoranRange, opt.RangeAdvice = moranRange, "ask for it with --moran-range"
 	if err := autocorrColumns(&in, c.lay, variables, against, events, population); err != nil {
 		return err
 	}

@@ -4,10 +4,12 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
 	"github.com/areatest/areatest/internal/numtext"
+	"github.com/areatest/areatest/spatial/autocorr"
 	"github.com/areatest/areatest/spatial/clustering"
 )
 
@@ -61,15 +63,46 @@ func statisticLine(b *strings.Builder, name string, s clustering.Statistic, with
 		Number(s.ZRandomisation), pn, PValue(s.PRandomisation), PValue(s.Permutation.PValue))
 }
 
-// rangeSentence reads Moran's I against the range it can take.
+// rangeSentence reads Moran's I against the range it can take, and says
+// how the range was found: a dense one is exact, a Lanczos one is stated
+// with its tolerance or as approximate.
 func rangeSentence(v clustering.Variable) string {
+	if v.Bounds == nil {
+		return "The range of Moran's I on these weights was not computed (" + v.RangeSkipped + ")."
+	}
 	share, towardsMax := v.RangeShare()
 	side := "minimum"
 	if towardsMax {
 		side = "maximum"
 	}
-	return fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984); %s is %.0f%% of the way from its expected value to the %s.",
-		Number(v.Bounds.Min), Number(v.Bounds.Max), Number(v.MoransI.Value), 100*share, side)
+	return fmt.Sprintf("Moran's I can range from %s to %s on these weights (de Jong et al. 1984%s); %s is %.0f%% of the way from its expected value to the %s.",
+		Number(v.Bounds.Min), Number(v.Bounds.Max), rangeMethod(*v.Bounds), Number(v.MoransI.Value), 100*share, side)
+}
+
+// rangeMethod is nothing for the exact dense range, else how near the
+// iteration came.
+func rangeMethod(b autocorr.Bounds) string {
+	switch {
+	case b.Method == "dense":
+		return ""
+	case b.Converged:
+		return "; found by iteration, each end exact to within " + roundUp(b.Tolerance)
+	}
+	return fmt.Sprintf("; approximate: the iteration stopped at %s steps, and the true range is at least this wide", numtext.Count(b.Iterations))
+}
+
+// roundUp writes x > 0 rounded up to one significant digit ("7e-07"), so a
+// stated tolerance is never below the one achieved.
+func roundUp(x float64) string {
+	if !(x > 0) {
+		return "0"
+	}
+	e := math.Floor(math.Log10(x))
+	m := math.Ceil(x / math.Pow(10, e) * (1 - 1e-12))
+	if m >= 10 {
+		m, e = 1, e+1
+	}
+	return strconv.FormatFloat(m*math.Pow(10, e), 'e', 0, 64)
 }
 
 func generalGSkipped(v clustering.Variable) string {

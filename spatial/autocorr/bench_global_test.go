@@ -97,20 +97,6 @@ func BenchmarkMoran250000x999(b *testing.B) {
 	benchRun(b, labels, f, 999)
 }
 
-// Target (issue 4): the bounds of Moran's I on 3,025 areas (55×55 queen
-// lattice, row-standardised, so the sparse Lanczos path) ≤ ~1 s.
-func BenchmarkBounds3000(b *testing.B) {
-	g := queenLattice(b, 55).RowStandardised()
-	b.ReportAllocs()
-	b.ResetTimer()
-	for range b.N {
-		r, err := MoranBounds(g)
-		if err != nil || !r.Converged {
-			b.Fatal(err, r)
-		}
-	}
-}
-
 func BenchmarkJoinsSame3000x9999(b *testing.B) {
 	g := queenLattice(b, 55)
 	cat := benchCategories(benchColumn(55))

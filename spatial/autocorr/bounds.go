@@ -5,12 +5,8 @@ import (
 	"math"
 	"sort"
 
-	"gonum.org/v1/gonum/blas"
-	"gonum.org/v1/gonum/blas/blas64"
-	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 
-	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -26,9 +22,15 @@ type Bounds struct {
 	// Iterations is the number of Lanczos steps; 0 for dense.
 	Iterations int `json:"iterations"`
 	// Converged is false when the Lanczos iteration stopped at its step
-	// limit first: Min and Max are then inside the true range (Ritz values
-	// never overshoot), so the range is at least this wide.
+	// limit before Tolerance reached the tolerance asked for. Min and Max
+	// are values of I that real variables attain either way (see
+	// lanczosBounds), so the true range is at least this wide.
 	Converged bool `json:"converged"`
+	// Tolerance, for the Lanczos path, bounds the distance (in units of I)
+	// from Min and from Max to an eigenvalue of the centred weights, from
+	// the residuals of the variables that attain them; 0 for dense, which
+	// is exact to rounding.
+	Tolerance float64 `json:"tolerance,omitempty"`
 }
 
 // DenseBoundsLimit is the largest number of areas for which MoranBounds
@@ -36,8 +38,25 @@ type Bounds struct {
 // iteration finds the two extreme ones.
 const DenseBoundsLimit = 500
 
+// DefaultBoundsTolerance is the tolerance MoranBounds asks of the Lanczos
+// path, relative to the larger of |Min| and |Max|: six digits, two more
+// than any report prints.
+const DefaultBoundsTolerance = 1e-6
+
 // boundsPurpose separates the start vector's stream from the shuffles.
 const boundsPurpose = 0xb0d5
+
+// BoundsOptions tune MoranBoundsWith; the zero value is MoranBounds.
+type BoundsOptions struct {
+	// Sparse takes the Lanczos path at any size (for checks against the
+	// dense one).
+	Sparse bool
+	// Tolerance is relative to max(|Min|, |Max|); 0 means
+	// DefaultBoundsTolerance.
+	Tolerance float64
+	// MaxIterations caps the Lanczos steps; 0 means lanczosStepLimit.
+	MaxIterations int
+}
 
 // MoranBounds returns the smallest and largest values of Moran's I on g.
 // For a centred z, I = (n/S0) zᵀWz / zᵀz, and zᵀWz = zᵀW*z with W* =
@@ -50,10 +69,20 @@ const boundsPurpose = 0xb0d5
 //	I_min = (n/S0) λ_min,  I_max = (n/S0) λ_max.
 //
 // Either bound is attained by a variable proportional to its eigenvector.
+//
+// Why W* and not the similar symmetric matrix D^{1/2} W D^{-1/2} of a
+// row-standardised W = D⁻¹B: that matrix has the eigenvalues of W, which
+// are the extremes of zᵀBz / zᵀDz, a different quotient; I divides by zᵀz.
+//
 // Up to DenseBoundsLimit areas every eigenvalue is found (gonum's EigenSym);
-// above it, by Lanczos with full reorthogonalisation from a fixed start
-// vector, so the result is the same on every run.
+// above it, the two extremes by Lanczos from a fixed start vector, so the
+// result is the same on every run and for any number of workers.
 func MoranBounds(g *weights.Graph) (Bounds, error) {
+	return MoranBoundsWith(g, BoundsOptions{})
+}
+
+// MoranBoundsWith is MoranBounds with its method and tolerance chosen.
+func MoranBoundsWith(g *weights.Graph, opt BoundsOptions) (Bounds, error) {
 	n := g.Len()
 	if n < 2 {
 		return Bounds{}, errors.New("the bounds of Moran's I need at least two areas")
@@ -62,26 +91,35 @@ func MoranBounds(g *weights.Graph) (Bounds, error) {
 	if s0 == 0 {
 		return Bounds{}, errNoLinks
 	}
-	var b Bounds
-	if n <= DenseBoundsLimit {
+	scale := float64(n) / s0
+	if n <= DenseBoundsLimit && !opt.Sparse {
 		lo, hi, err := denseBounds(g)
 		if err != nil {
 			return Bounds{}, err
 		}
-		b = Bounds{Min: lo, Max: hi, Method: "dense", Converged: true}
-	} else {
-		lo, hi, iters, ok := lanczosBounds(g, 1, 1e-11, lanczosStepLimit(n))
-		b = Bounds{Min: lo, Max: hi, Method: "lanczos", Iterations: iters, Converged: ok}
+		return Bounds{Min: scale * lo, Max: scale * hi, Method: "dense", Converged: true}, nil
 	}
-	scale := float64(n) / s0
-	b.Min *= scale
-	b.Max *= scale
-	return b, nil
+	tol := opt.Tolerance
+	if !(tol > 0) {
+		tol = DefaultBoundsTolerance
+	}
+	steps := opt.MaxIterations
+	if steps <= 0 {
+		steps = lanczosStepLimit(n)
+	}
+	e := lanczosBounds(newCentredSym(g), 1, tol, steps)
+	return Bounds{Min: scale * e.lo, Max: scale * e.hi, Method: "lanczos", Iterations: e.steps,
+		Converged: e.converged, Tolerance: scale * math.Max(e.rlo, e.rhi)}, nil
 }
 
-// lanczosStepLimit bounds the stored Lanczos vectors at about 256 MB.
+// lanczosStepLimit caps the Lanczos steps. Without a stored basis a step
+// costs two products (one per pass) and a few vector operations, so the
+// cap is about time, not memory: 5,000 steps are several seconds on 100,000
+// areas, while square lattices, whose extreme gaps shrink fastest, need
+// 2.5√n to 3.6√n steps (measured from 3,136 to 85,264 cells; 737 at the
+// largest) and the generated region fewer.
 func lanczosStepLimit(n int) int {
-	return max(2, min(n-1, 2000, 32_000_000/n))
+	return max(2, min(n-1, 5000))
 }
 
 // denseBounds returns the extreme eigenvalues of M W* M on the subspace
@@ -128,99 +166,6 @@ func denseBounds(g *weights.Graph) (lo, hi float64, err error) {
 	return rest[0], rest[len(rest)-1], nil
 }
 
-// centreInPlace subtracts the mean: M v.
-func centreInPlace(v []float64) {
-	var s float64
-	for _, x := range v {
-		s += x
-	}
-	s /= float64(len(v))
-	for i := range v {
-		v[i] -= s
-	}
-}
-
-// applySym sets y = W* v, W* = (W + Wᵀ)/2, in one pass over the links.
-func applySym(g *weights.Graph, v, y []float64) {
-	for i := range y {
-		y[i] = 0
-	}
-	for i := 0; i < g.Len(); i++ {
-		nb, w := g.Row(i)
-		vi := v[i]
-		var acc float64
-		for k, j := range nb {
-			h := w[k] / 2
-			acc += h * v[j]
-			y[j] += h * vi
-		}
-		y[i] += acc
-	}
-}
-
-// lanczosBounds runs the Lanczos iteration (Lanczos 1950, J. Res. Natl.
-// Bur. Stand. 45:255–282) on A = M W* M restricted to the subspace
-// orthogonal to 1, applied without forming A: every vector is kept centred,
-// so M v = v on the way in and M is one subtraction of the mean on the way
-// out. Each new vector is orthogonalised against all earlier ones, twice
-// (Kahan's "twice is enough" for Gram–Schmidt; Parlett 1980, The Symmetric
-// Eigenvalue Problem, ch. 6), which keeps the basis orthogonal so no
-// spurious copies of converged eigenvalues appear. Every few steps the extreme Ritz values of
-// the tridiagonal T_k are found by Sturm bisection, and their residual
-// norms β_k |s_k| (s the eigenvector of T_k) decide convergence: stop when
-// both are below tol · max|θ|. The start vector comes from a seeded stream.
-func lanczosBounds(g *weights.Graph, seed uint64, tol float64, maxIter int) (lo, hi float64, iters int, converged bool) {
-	n := g.Len()
-	maxIter = max(1, min(maxIter, n-1))
-	rng := shuffle.NewStream(seed, boundsPurpose, 0)
-	q := make([]float64, n)
-	for i := range q {
-		q[i] = rng.Float64() - 0.5
-	}
-	centreInPlace(q)
-	normalise(q)
-	basis := make([]float64, 0, n*min(maxIter, 64))
-	var alpha, beta []float64
-	w := make([]float64, n)
-	var scale float64 // running estimate of ‖A‖ for the breakdown test
-	for k := 0; k < maxIter; k++ {
-		basis = append(basis, q...)
-		applySym(g, q, w)
-		centreInPlace(w)
-		a := dot(q, w)
-		alpha = append(alpha, a)
-		for pass := 0; pass < 2; pass++ {
-			for j := 0; j <= k; j++ {
-				qj := basis[j*n : (j+1)*n]
-				axpy(-dot(qj, w), qj, w)
-			}
-			centreInPlace(w) // keep rounding from drifting back towards 1
-		}
-		b := math.Sqrt(dot(w, w))
-		scale = math.Max(scale, math.Abs(a)+b)
-		iters = k + 1
-		breakdown := b <= 1e-13*scale
-		if breakdown || k == maxIter-1 || (k >= 4 && k%5 == 4) {
-			lo, hi, rlo, rhi := extremeRitz(alpha, beta, b)
-			if breakdown {
-				return lo, hi, iters, true
-			}
-			top := math.Max(math.Abs(lo), math.Abs(hi))
-			if rlo <= tol*top && rhi <= tol*top {
-				return lo, hi, iters, true
-			}
-			if k == maxIter-1 {
-				return lo, hi, iters, false
-			}
-		}
-		beta = append(beta, b)
-		for i := range q {
-			q[i] = w[i] / b
-		}
-	}
-	return lo, hi, iters, false // not reached
-}
-
 func dot(a, b []float64) float64 {
 	var s float64
 	for i, v := range a {
@@ -252,99 +197,4 @@ func normalise(v []float64) {
 	for i := range v {
 		v[i] *= s
 	}
-}
-
-// extremeRitz returns the smallest and largest eigenvalues of the
-// tridiagonal matrix with diagonal alpha and off-diagonal beta, and the
-// residual norms next · |last component of their eigenvectors|.
-func extremeRitz(alpha, beta []float64, next float64) (lo, hi, rlo, rhi float64) {
-	k := len(alpha)
-	gl, gu := math.Inf(1), math.Inf(-1)
-	for i, a := range alpha {
-		r := 0.0
-		if i > 0 {
-			r += math.Abs(beta[i-1])
-		}
-		if i < k-1 {
-			r += math.Abs(beta[i])
-		}
-		gl, gu = math.Min(gl, a-r), math.Max(gu, a+r)
-	}
-	lo = bisect(alpha, beta, gl, gu, 1)
-	hi = bisect(alpha, beta, gl, gu, k)
-	rlo = next * math.Abs(lastComponent(alpha, beta, lo))
-	rhi = next * math.Abs(lastComponent(alpha, beta, hi))
-	return lo, hi, rlo, rhi
-}
-
-// sturm counts the eigenvalues of the tridiagonal matrix below x, from the
-// signs of the pivots of T − xI = LDLᵀ (Sturm sequence property).
-func sturm(alpha, beta []float64, x float64) int {
-	const tiny = 1e-300
-	count := 0
-	d := alpha[0] - x
-	for i := 0; ; i++ {
-		if d == 0 {
-			d = -tiny
-		}
-		if d < 0 {
-			count++
-		}
-		if i+1 == len(alpha) {
-			return count
-		}
-		d = alpha[i+1] - x - beta[i]*beta[i]/d
-	}
-}
-
-// bisect finds the m-th smallest eigenvalue (m from 1) in [lo, hi] to
-// rounding accuracy.
-func bisect(alpha, beta []float64, lo, hi float64, m int) float64 {
-	for it := 0; it < 200; it++ {
-		mid := lo + (hi-lo)/2
-		if mid <= lo || mid >= hi {
-			break
-		}
-		if sturm(alpha, beta, mid) >= m {
-			hi = mid
-		} else {
-			lo = mid
-		}
-	}
-	return hi
-}
-
-// lastComponent returns the last component of the unit eigenvector of the
-// tridiagonal matrix for its eigenvalue theta, by two steps of inverse
-// iteration (a tridiagonal solve with partial pivoting each).
-func lastComponent(alpha, beta []float64, theta float64) float64 {
-	k := len(alpha)
-	if k == 1 {
-		return 1
-	}
-	y := make([]float64, k)
-	for i := range y {
-		y[i] = 1 / math.Sqrt(float64(k))
-	}
-	d, dl, du := make([]float64, k), make([]float64, k-1), make([]float64, k-1)
-	shift := theta
-	for step := 0; step < 3; step++ {
-		for i := range d {
-			d[i] = alpha[i] - shift
-		}
-		copy(dl, beta)
-		copy(du, beta)
-		ok := lapack64.Gtsv(blas.NoTrans, lapack64.Tridiagonal{N: k, DL: dl, D: d, DU: du},
-			blas64.General{Rows: k, Cols: 1, Stride: 1, Data: y})
-		if !ok {
-			// θ is an eigenvalue to the last bit: move off it a little.
-			shift = theta + 1e-14*math.Max(math.Abs(theta), 1e-300)
-			for i := range y {
-				y[i] = 1 / math.Sqrt(float64(k))
-			}
-			continue
-		}
-		normalise(y)
-	}
-	return y[k-1]
 }

@@ -133,7 +133,7 @@ func (v *Variable) global(s *sample) error {
 		return err
 	}
 	v.MoransI = fromMoran(m, alt)
-	if v.Bounds, err = autocorr.MoranBounds(g); err != nil {
+	if err := v.moranRange(s); err != nil {
 		return err
 	}
 	gt, err := autocorr.RunGeary(x, g, planFor(opt, v.Name+": Geary's C", purpose+1, flip(alt)))

@@ -63,6 +63,12 @@ type Options struct {
 	Adjust shuffle.Adjustment
 	// Progress, when set, gives the progress callback of a named stage.
 	Progress func(stage string) func(done, total int)
+	// MoranRange computes the range of Moran's I at any size; without it
+	// Autocorr computes it up to AutoRangeAreas areas only.
+	MoranRange bool
+	// RangeAdvice ends the note on a range not computed: how to ask for
+	// it (the tool's words; the library names no flag).
+	RangeAdvice string
 }
 
 // Statistic is one global statistic with its moments and tests.
@@ -91,10 +97,12 @@ type Variable struct {
 	Missing int       `json:"missing"`
 	Islands int       `json:"islands_left_out"`
 	MoransI Statistic `json:"morans_i"`
-	// Bounds is the range Moran's I can take on these weights.
-	Bounds   autocorr.Bounds `json:"morans_i_range"`
-	GearysC  Statistic       `json:"gearys_c"`
-	GeneralG *Statistic      `json:"general_g,omitempty"`
+	// Bounds is the range Moran's I can take on these weights; nil when
+	// it was not computed (RangeSkipped says why).
+	Bounds       *autocorr.Bounds `json:"morans_i_range,omitempty"`
+	RangeSkipped string           `json:"morans_i_range_skipped,omitempty"`
+	GearysC      Statistic        `json:"gearys_c"`
+	GeneralG     *Statistic       `json:"general_g,omitempty"`
 	// GeneralGSkipped says why General G was not computed.
 	GeneralGSkipped string         `json:"general_g_skipped,omitempty"`
 	Bivariate       *Bivariate     `json:"bivariate,omitempty"`
@@ -158,6 +166,9 @@ type Result struct {
 	// them is the caller's to word, after the weights' warnings, since how
 	// to keep them is a setting of the caller's.
 	IslandsLeftOut int `json:"-"`
+	// ranges shares the range of Moran's I between variables on the same
+	// areas.
+	ranges rangeCache
 }
 
 // Cautions are printed with every clustering result.
@@ -255,10 +266,12 @@ func (r *Result) Shuffles() int {
 
 // RangeShare is how far Moran's I lies from its expected value towards the
 // bound of Bounds on its side, as a fraction; towardsMax says the side is
-// the maximum.
+// the maximum. It is 0 when the range was not computed.
 func (v *Variable) RangeShare() (share float64, towardsMax bool) {
 	i, e := v.MoransI.Value, v.MoransI.Expected
 	switch {
+	case v.Bounds == nil:
+		return 0, i >= e
 	case i >= e && v.Bounds.Max != e:
 		return (i - e) / (v.Bounds.Max - e), true
 	case i >= e:
