@@ -140,7 +140,7 @@ func (l *Ledger) open(purpose uint64, name string, blocks int) error {
 	l.mu.Lock()
 	defer l.mu.Unlock()
 	if st, ok := l.stages[purpose]; ok {
-		return fmt.Errorf("shuffle: stages %q and %q share purpose %d", st.Name, name, purpose)
+		return &ShardError{Stage: name, Purpose: purpose, Problem: fmt.Sprintf("shares its stream with the stage %q", st.Name)}
 	}
 	l.stages[purpose] = &StageRecord{Purpose: purpose, Name: name, Blocks: blocks}
 	return nil
@@ -172,19 +172,19 @@ func (l *Ledger) complete(purpose uint64, name string, blocks int, shape func(in
 	st, ok := l.stages[purpose]
 	switch {
 	case !ok:
-		return &ReplayError{Stage: name, Problem: "is not in the parts"}
+		return &ShardError{Stage: name, Purpose: purpose, Problem: "is not in the parts"}
 	case st.Blocks != blocks || st.Name != name:
-		return &ReplayError{Stage: name, Problem: fmt.Sprintf("has %d blocks in the parts (as %q) and %d in this run", st.Blocks, st.Name, blocks)}
+		return &ShardError{Stage: name, Purpose: purpose, Problem: fmt.Sprintf("has %d blocks in the parts (as %q) and %d in this run", st.Blocks, st.Name, blocks)}
 	}
 	idx := st.index()
 	for b := range blocks {
 		i, ok := idx[b]
 		if !ok {
-			return &ReplayError{Stage: name, Problem: fmt.Sprintf("lacks block %d", b)}
+			return &ShardError{Stage: name, Purpose: purpose, Problem: fmt.Sprintf("lacks block %d", b)}
 		}
 		c, v := shape(b)
 		if t := st.Tallies[i]; t.Error == "" && (len(t.Counts) != c || len(t.Values) != v) {
-			return &ReplayError{Stage: name, Problem: fmt.Sprintf("block %d holds %d counts and %d values, not %d and %d", b, len(t.Counts), len(t.Values), c, v)}
+			return &ShardError{Stage: name, Purpose: purpose, Problem: fmt.Sprintf("block %d holds %d counts and %d values, not %d and %d", b, len(t.Counts), len(t.Values), c, v)}
 		}
 	}
 	return nil
@@ -197,14 +197,17 @@ func (l *Ledger) tally(purpose uint64, b int) Tally {
 	return st.Tallies[st.index()[b]].Tally
 }
 
-// ReplayError says that the parts do not hold what the replayed run
-// needs: parts of another run, or of another release.
-type ReplayError struct {
-	Stage, Problem string
+// ShardError says that the parts do not hold what the replayed run
+// needs (parts of another run, or of another release), or that two stages
+// of a part share a purpose.
+type ShardError struct {
+	Stage   string
+	Purpose uint64
+	Problem string
 }
 
-func (e *ReplayError) Error() string {
-	return fmt.Sprintf("shuffle: the stage %q %s", e.Stage, e.Problem)
+func (e *ShardError) Error() string {
+	return fmt.Sprintf("shuffle: the stage %q (stream %d) %s", e.Stage, e.Purpose, e.Problem)
 }
 
 // Combine joins the ledgers of parts 1..N (parts[k−1] is part k) into the
