@@ -142,7 +142,7 @@ func (l *Ledger) open(purpose uint64, name string, blocks int) error {
 	if st, ok := l.stages[purpose]; ok {
 		return &ShardError{Stage: name, Purpose: purpose, Problem: fmt.Sprintf("shares its stream with the stage %q", st.Name)}
 	}
-	l.stages[purpose] = &StageRecord{Purpose: purpose, Name: name, Blocks: blocks}
+	l.stages[purpose] = &StageRecord{Purpose: purpose, Name: name, Blocks: blocks, Tallies: []BlockTally{}}
 	return nil
 }
 
