@@ -5,7 +5,6 @@ import (
 	"testing"
 
 	"github.com/areatest/areatest/spatial/shuffle"
-	"github.com/areatest/areatest/weights"
 )
 
 // A comparison run in parts and replayed is the whole run, field for
@@ -13,20 +12,7 @@ import (
 // and the spatial check, with more parts than some stages have blocks;
 // the parts' worker counts do not matter.
 func TestShardedComparisonIsTheWholeRun(t *testing.T) {
-	m, _, lab := sarCheckLayer(t)
-	n := len(lab)
-	y := make([]float64, n)
-	rng := shuffle.NewStream(2, 0, 0)
-	if err := m.Simulate(&rng, y, m.NewScratch()); err != nil {
-		t.Fatal(err)
-	}
-	ids, group := make([]string, n), make([]string, n)
-	for i := range ids {
-		ids[i] = string(rune('a'+i%26)) + string(rune('a'+i/26))
-		group[i] = []string{"A", "B"}[lab[i]]
-	}
-	in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n),
-		GroupName: "g", Group: group, GroupMissing: make([]bool, n), Graph: weights.Lattice(12, 12, weights.Queen)}
+	in := sarRunInput(t)
 	opt := Options{Permutations: 2*shuffle.BlockSize + 99, Surrogates: 99, FalsePositives: 2*FPRBlock + 5, FalsePositiveShuffles: 39,
 		SARChecks: 3*SARBlock + 1, Alpha: 0.05, Seed: 4, Workers: 2}
 	whole, err := Run(in, opt)
