@@ -35,6 +35,8 @@ type compareFlags struct {
 	// The map of groups and outcome (compare only), and its class rule.
 	mapFile, mapClasses string
 	mapRule             figure.Classes
+	// shard is --shard (compare only).
+	shard shardFlags
 }
 
 func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
@@ -52,6 +54,7 @@ func (c *compareFlags) register(fs *pflag.FlagSet, withColumns bool) {
 		fs.StringSliceVar(&c.covariates, "covariates", nil, "numeric columns to adjust for: every shuffle tests the group effect adjusted for them (Freedman–Lane)")
 		fs.StringVar(&c.mapFile, "map", "", "two maps side by side (.svg or .png): the groups, and the outcome in 5 classes (see --classes); areas left out hatched")
 		fs.StringVar(&c.mapClasses, "classes", "quantile", "classes of the outcome in --map: quantile or natural (natural breaks, Fisher 1958)")
+		c.shard.register(fs)
 	}
 	fs.IntVar(&c.surrogates, "surrogates", 999, "spectral surrogates of the outcome for the spatially constrained p-value (0: none; at most "+numtext.Count(compare.MaxSurrogates)+")")
 	fs.IntVar(&c.fpChecks, "false-positive-check", 500, "surrogate outcomes on which to measure how often each label shuffle (free, --strata, --zones) cries wolf (0: none; at most "+numtext.Count(compare.MaxFalsePositiveChecks)+")")
@@ -101,12 +104,15 @@ func (c *compareFlags) check() error {
 	if err := c.checkPictures(); err != nil {
 		return err
 	}
+	if err := c.shard.check(&c.sharedFlags, map[string]string{"plot": c.plot, "map": c.mapFile}); err != nil {
+		return err
+	}
 	// The shared flags last: they end by checking the output files, after
 	// every usage error.
 	if err := c.sharedFlags.check(shuffle.ParseAlternative); err != nil {
 		return err
 	}
-	c.opt.Alternative = c.alt
+	c.opt.Alternative, c.opt.Shard = c.alt, c.shard.part
 	return nil
 }
 
@@ -140,6 +146,12 @@ func atMost(flag string, value, max int) error {
 }
 
 func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	return compareRun(args, stdin, stdout, stderr, nil)
+}
+
+// compareRun is compare, or, with replay, the merge of its parts: the
+// random stages fold replay's tallies instead of drawing.
+func compareRun(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error {
 	var c compareFlags
 	fs := newFlags("compare", stderr)
 	c.register(fs, true)
@@ -157,6 +169,9 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if err := c.check(); err != nil {
 		return err
 	}
+	if replay != nil {
+		c.opt.Shard = shuffle.NewReplay(replay)
+	}
 	if err := c.open(stdin, stderr); err != nil {
 		return err
 	}
@@ -168,6 +183,9 @@ func (c *compareFlags) run(stdout, stderr io.Writer) error {
 	res, err := c.compare(stderr)
 	if err != nil {
 		return err
+	}
+	if c.shard.part != nil {
+		return c.shard.writePart(&c.sharedFlags, "compare", stdout, stderr)
 	}
 	pics := report.ComparePictures{Layer: c.lay, Result: res, Classes: c.mapRule}
 	c.drawPicture("--plot", pics.Nulls)

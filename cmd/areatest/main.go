@@ -35,7 +35,7 @@ func (h *helpRequest) Unwrap() error { return pflag.ErrHelp }
 // commands are the subcommands by name, each in a file of its own.
 var commands = map[string]func(args []string, stdin io.Reader, stdout, stderr io.Writer) error{
 	"compare": runCompare, "demo": runDemo, "autocorr": runAutocorr, "screen": runScreen, "local": runLocal, "weights": runWeights,
-	"residuals": runResiduals,
+	"residuals": runResiduals, "merge": runMerge,
 }
 
 func main() {
@@ -60,7 +60,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	case ok:
 		err = cmd(args[1:], stdin, stdout, stderr)
 	default:
-		err = usagef("unknown command %q (commands: compare, autocorr, screen, local, residuals, weights, demo; see areatest --help)", args[0])
+		err = usagef("unknown command %q (commands: compare, autocorr, screen, local, residuals, weights, merge, demo; see areatest --help)", args[0])
 	}
 	var ue *usageError
 	var hr *helpRequest

@@ -55,6 +55,9 @@ type FPROptions struct {
 	// Progress, when set, is called after each block with the surrogates
 	// done and the total; it must be safe for concurrent use.
 	Progress func(done, total int)
+	// Shard, when set, runs one part of the blocks of surrogates or
+	// replays the parts' counts of rejections (see shuffle.Shard).
+	Shard *shuffle.Shard
 }
 
 // FalsePositiveRate is the measured share of true nulls that the free
@@ -125,6 +128,10 @@ func FalsePositivesOf(o *surrogate.Outcome, stat groups.Statistic, labels []int3
 func falsePositives(o *surrogate.Outcome, newTest func() (nullTest, error), schemes []CheckScheme, S, B int, alpha float64, opt FPROptions) ([]FalsePositiveRate, error) {
 	n := o.Len()
 	blocks := (S + FPRBlock - 1) / FPRBlock
+	shape := func(int) (int, int) { return len(schemes), 0 }
+	if err := opt.Shard.Stage(opt.Purpose, "false-positive check", blocks, shape); err != nil {
+		return nil, err
+	}
 	rejected := make([]atomic.Int64, len(schemes))
 	var done atomic.Int64
 	var failed firstError
@@ -134,12 +141,22 @@ func falsePositives(o *surrogate.Outcome, newTest func() (nullTest, error), sche
 		test, terr := newTest()
 		var rng shuffle.Stream
 		return func(b int) {
+			if opt.Shard.Replaying() {
+				for j, r := range opt.Shard.Recorded(opt.Purpose, b).Counts {
+					rejected[j].Add(r) // counts: the same total in any order
+				}
+				return
+			}
+			if !opt.Shard.Draws(b) {
+				return
+			}
 			if terr != nil {
 				failed.set(b, terr)
 				return
 			}
 			rng.Reset(opt.Seed, opt.Purpose, b)
 			lo, hi := b*FPRBlock, min((b+1)*FPRBlock, S)
+			mine := make([]int64, len(schemes)) // this block's rejections, for the ledger
 			for d := lo; d < hi; d++ {
 				draw(&rng, y)
 				if _, err := test.load(y); err != nil {
@@ -154,9 +171,11 @@ func falsePositives(o *surrogate.Outcome, newTest func() (nullTest, error), sche
 					}
 					if p <= alpha {
 						rejected[j].Add(1) // a count: the same total in any order
+						mine[j]++
 					}
 				}
 			}
+			opt.Shard.Record(opt.Purpose, b, shuffle.Tally{Counts: mine})
 			if opt.Progress != nil {
 				opt.Progress(int(done.Add(int64(hi-lo))), S)
 			}

@@ -108,6 +108,10 @@ type Options struct {
 	// nothing: their rows carry the rates. At most 8 bytes per draw and
 	// row; off, memory does not grow with the draws.
 	KeepNull bool
+	// Shard, when set, runs one part of every random stage's blocks or
+	// replays the parts (see shuffle.Shard); nil runs everything. It does
+	// not go with KeepNull.
+	Shard *shuffle.Shard
 	// Progress, when set, gives the progress callback for a named stage of
 	// the work (see shuffle.Plan.Progress).
 	Progress func(stage string) func(done, total int)

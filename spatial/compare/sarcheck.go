@@ -83,6 +83,9 @@ type SAROptions struct {
 	// Progress, when set, is called after each block with the outcomes
 	// done and the total; it must be safe for concurrent use.
 	Progress func(done, total int)
+	// Shard, when set, runs one part of the blocks of outcomes or replays
+	// the parts' p-values (see shuffle.Shard).
+	Shard *shuffle.Shard
 }
 
 // SARNullPValues simulates opt.Simulations outcomes from m (independent of
@@ -117,28 +120,41 @@ func sarNullPValues(m *sar.Model, basis *surrogate.Basis, newTest func() (nullTe
 		return nil, errors.New("compare: the SAR check needs at least one simulation and one surrogate")
 	}
 	p := make([]float64, S)
+	blocks := (S + SARBlock - 1) / SARBlock
+	shape := func(b int) (int, int) { return 0, min((b+1)*SARBlock, S) - b*SARBlock }
+	if err := opt.Shard.Stage(opt.Purpose, "SAR check", blocks, shape); err != nil {
+		return nil, err
+	}
 	var done atomic.Int64
 	var failed firstError
-	parallel.ForBlocks((S+SARBlock-1)/SARBlock, opt.Workers, func() func(int) {
+	parallel.ForBlocks(blocks, opt.Workers, func() func(int) {
 		test, terr := newTest()
 		w := newSARWorker(m, basis, test)
 		var rng shuffle.Stream
 		return func(b int) {
+			lo, hi := b*SARBlock, min((b+1)*SARBlock, S)
+			if replayed(opt.Shard, opt.Purpose, b, p[lo:hi], &failed) || !opt.Shard.Draws(b) {
+				return
+			}
+			fail := func(err error) {
+				failed.set(b, err)
+				opt.Shard.Record(opt.Purpose, b, shuffle.Tally{Error: err.Error()})
+			}
 			if terr != nil {
-				failed.set(b, terr)
+				fail(terr)
 				return
 			}
 			rng.Reset(opt.Seed, opt.Purpose, b)
-			lo, hi := b*SARBlock, min((b+1)*SARBlock, S)
 			for d := lo; d < hi; d++ {
 				v, err := w.test(&rng, shuffle.SurrogatePlan{Scheme: SpectralScheme, Draws: B, Seed: opt.Seed,
 					Purpose: innerPurpose(opt.Purpose, d), Workers: 1, Alternative: opt.Alternative})
 				if err != nil {
-					failed.set(b, err)
+					fail(err)
 					return
 				}
 				p[d] = v
 			}
+			opt.Shard.Record(opt.Purpose, b, shuffle.Tally{Values: slices.Clone(p[lo:hi])})
 			if opt.Progress != nil {
 				opt.Progress(int(done.Add(int64(hi-lo))), S)
 			}
@@ -281,7 +297,11 @@ func (c *comparison) sarCheck(t *tester, g *weights.Graph, basis *surrogate.Basi
 		alt = c.rates.scoreAlt(t.alt)
 	}
 	p, err := sarNullPValues(m, basis, t.spectralNull(c), SAROptions{Simulations: opt.SARChecks, Surrogates: B,
-		Alternative: alt, Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check")})
+		Alternative: alt, Seed: opt.Seed, Purpose: streamSARCheck, Workers: opt.Workers, Progress: opt.progress("SAR check"), Shard: opt.Shard})
+	var se *shuffle.ShardError
+	if errors.As(err, &se) {
+		return err // parts that do not fit this run: no warning, an error
+	}
 	if err != nil {
 		// A simulation that does not converge (ρ at the edge of its
 		// range) says the model does not suit these data: skip, as above.
@@ -293,4 +313,19 @@ func (c *comparison) sarCheck(t *tester, g *weights.Graph, basis *surrogate.Basi
 	res.SARCheck = &SARCheckInfo{Rho: m.Rho, RhoSE: m.RhoSE, AtBound: m.AtBound, LogDet: w.Method().String(),
 		Simulations: len(p), Surrogates: B}
 	return nil
+}
+
+// replayed copies block b's recorded p-values into p (or its recorded
+// error into failed) when s replays parts, and reports whether it did.
+func replayed(s *shuffle.Shard, purpose uint64, b int, p []float64, failed *firstError) bool {
+	if !s.Replaying() {
+		return false
+	}
+	t := s.Recorded(purpose, b)
+	if t.Error != "" {
+		failed.set(b, errors.New(t.Error))
+		return true
+	}
+	copy(p, t.Values)
+	return true
 }

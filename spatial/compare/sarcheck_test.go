@@ -122,7 +122,9 @@ func TestSARCheckSkippedOnAsymmetricWeights(t *testing.T) {
 
 // The whole comparison with the SAR check gives the same spectral rate,
 // calibrated p-value and fitted ρ for 1 and 3 workers.
-func TestSARCheckInRunIndependentOfWorkers(t *testing.T) {
+// sarRunInput is a comparison on the lattice of sarCheckLayer, its
+// outcome simulated from the SAR model: one on which the SAR check runs.
+func sarRunInput(t *testing.T) Input {
 	m, _, lab := sarCheckLayer(t)
 	n := len(lab)
 	y := make([]float64, n)
@@ -135,8 +137,12 @@ func TestSARCheckInRunIndependentOfWorkers(t *testing.T) {
 		ids[i] = string(rune('a'+i%26)) + string(rune('a'+i/26))
 		group[i] = []string{"A", "B"}[lab[i]]
 	}
-	in := Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n),
+	return Input{IDs: ids, OutcomeName: "y", Outcome: y, OutcomeMissing: make([]bool, n),
 		GroupName: "g", Group: group, GroupMissing: make([]bool, n), Graph: weights.Lattice(12, 12, weights.Queen)}
+}
+
+func TestSARCheckInRunIndependentOfWorkers(t *testing.T) {
+	in := sarRunInput(t)
 	var first *Result
 	for _, workers := range []int{1, 3} {
 		res, err := Run(in, Options{Permutations: 99, Surrogates: 99, FalsePositives: 20, FalsePositiveShuffles: 39,

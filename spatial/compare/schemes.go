@@ -107,7 +107,7 @@ type tester struct {
 // per tested area in layer order; nil for the free shuffle).
 func (t *tester) run(scheme string, strata []int32, purpose uint64, stage string) (shuffle.Result, error) {
 	plan := shuffle.Plan{Scheme: scheme, Permutations: t.opt.Permutations, ExactLimit: t.opt.ExactLimit,
-		Seed: t.opt.Seed, Purpose: purpose, Workers: t.opt.Workers, KeepNull: t.opt.KeepNull, Progress: t.opt.progress(stage)}
+		Seed: t.opt.Seed, Purpose: purpose, Workers: t.opt.Workers, KeepNull: t.opt.KeepNull, Progress: t.opt.progress(stage), Shard: t.opt.Shard}
 	if t.fl != nil {
 		plan.Labels, plan.Strata, plan.Alternative, plan.Scale = t.fl.Labels(), strata, t.flAlt, 1
 		plan.Scheme = scheme + ", adjusted for " + t.covName

@@ -57,7 +57,7 @@ func (c *comparison) spatialCheck(res *Result) error {
 func (c *comparison) morans(g *weights.Graph, linked []int, res *Result) error {
 	in, opt := c.in, c.opt
 	plan := shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
-		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided}
+		Seed: opt.Seed, Workers: opt.Workers, Alternative: shuffle.TwoSided, Shard: opt.Shard}
 	ys := make([]float64, len(linked))
 	for k, i := range linked {
 		ys[k] = c.spatialY()[i]

@@ -49,7 +49,7 @@ func (c *comparison) spectral(t *tester, res *Result) error {
 	if opt.FalsePositives > 0 {
 		alpha := cmp.Or(opt.Alpha, 0.05)
 		rates, err := falsePositives(o, t.null(c), c.checks, opt.FalsePositives, opt.checkShuffles(), alpha, FPROptions{
-			Seed: opt.Seed, Purpose: streamFalsePositives, Workers: opt.Workers, Progress: opt.progress("false-positive check")})
+			Seed: opt.Seed, Purpose: streamFalsePositives, Workers: opt.Workers, Progress: opt.progress("false-positive check"), Shard: opt.Shard})
 		if err != nil {
 			return err
 		}
@@ -70,7 +70,7 @@ func (c *comparison) spectral(t *tester, res *Result) error {
 func (c *comparison) surrogateTest(t *tester, o *surrogate.Outcome, res *Result) error {
 	opt := c.opt
 	plan := shuffle.SurrogatePlan{Scheme: SpectralScheme, Draws: opt.Surrogates, Seed: opt.Seed, Purpose: streamSurrogates,
-		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, KeepNull: opt.KeepNull, Progress: opt.progress("spectral surrogates")}
+		Workers: opt.Workers, Alternative: t.testAlt(), Scale: 1, KeepNull: opt.KeepNull, Progress: opt.progress("spectral surrogates"), Shard: opt.Shard}
 	var sp shuffle.Result
 	var err error
 	switch {

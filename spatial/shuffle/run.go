@@ -61,6 +61,9 @@ type Plan struct {
 	// worker goroutines and must be safe for concurrent use; it has no
 	// effect on the result.
 	Progress func(done, total int)
+	// Shard, when set, runs one part of the test's blocks or replays all
+	// parts' (see Shard); nil runs them all. It cannot keep the null.
+	Shard *Shard
 }
 
 // Result is the outcome of a permutation test.
@@ -145,6 +148,9 @@ func RunMany(p Plan, stats []Statistic, f ManyFactory) ([]Result, error) {
 	if err := CheckCount("permutations", p.Permutations, MaxPermutations); err != nil {
 		return nil, err
 	}
+	if err := checkShard(p.Shard, p.KeepNull); err != nil {
+		return nil, err
+	}
 	groups := strataMembers(n, p.Strata)
 	observed := make([]float64, k)
 	f()(p.Labels, observed)
@@ -169,12 +175,20 @@ func RunMany(p Plan, stats []Statistic, f ManyFactory) ([]Result, error) {
 	}
 	if limit > 0 {
 		if count, ok := arrangements(p.Labels, groups, limit); ok {
+			// One block: part 1 enumerates, the other parts skip it.
+			if err := p.Shard.Stage(p.Purpose, p.Scheme+" (exact)", 1, tallyShape(k)); err != nil {
+				return nil, err
+			}
 			enumerate(p, groups, f, c, count, stats, res)
 			return res, nil
 		}
 	}
 	if p.Permutations < 1 {
 		return nil, errors.New("shuffle: the number of permutations must be at least 1")
+	}
+	blocks := (p.Permutations + BlockSize - 1) / BlockSize
+	if err := p.Shard.Stage(p.Purpose, p.Scheme, blocks, tallyShape(k)); err != nil {
+		return nil, err
 	}
 	sample(p, groups, f, c, stats, res)
 	return res, nil
@@ -325,19 +339,38 @@ func enumerate(p Plan, groups [][]int32, f ManyFactory, c comparison, count int,
 			labels[u] = sub[j]
 		}
 	}
-	eval := f()
 	ts := make([]tally, k)
-	vals := make([]float64, k)
 	nulls := make([][]float64, k)
 	if p.KeepNull {
 		for s := range nulls {
 			nulls[s] = make([]float64, 0, count)
 		}
 	}
+	if p.Shard.take(p.Purpose, 0, ts) {
+		enumerateAll(groups, subs, labels, f(), c, ts, nulls, p.KeepNull)
+		p.Shard.keep(p.Purpose, 0, ts)
+	}
+	for s := range res {
+		r := &res[s]
+		r.Exact = true
+		r.Permutations = count
+		r.Null = nulls[s]
+		finishMoments(r, ts[s], count)
+		pg := float64(ts[s].atLeast) / float64(count)
+		pl := float64(ts[s].atMost) / float64(count)
+		r.PValue = combine(stats[s].Alternative, pg, pl)
+		r.Interval = [2]float64{r.PValue, r.PValue}
+	}
+}
+
+// enumerateAll steps through every arrangement from the sorted labels,
+// counting each into ts (and nulls when keep).
+func enumerateAll(groups [][]int32, subs [][]int32, labels []int32, eval ManyEvaluator, c comparison, ts []tally, nulls [][]float64, keep bool) {
+	vals := make([]float64, len(ts))
 	for {
 		eval(labels, vals)
 		c.add(ts, vals)
-		if p.KeepNull {
+		if keep {
 			for s, v := range vals {
 				nulls[s] = append(nulls[s], v)
 			}
@@ -353,19 +386,8 @@ func enumerate(p Plan, groups [][]int32, f ManyFactory, c comparison, count int,
 			}
 		}
 		if g == len(groups) {
-			break
+			return
 		}
-	}
-	for s := range res {
-		r := &res[s]
-		r.Exact = true
-		r.Permutations = count
-		r.Null = nulls[s]
-		finishMoments(r, ts[s], count)
-		pg := float64(ts[s].atLeast) / float64(count)
-		pl := float64(ts[s].atMost) / float64(count)
-		r.PValue = combine(stats[s].Alternative, pg, pl)
-		r.Interval = [2]float64{r.PValue, r.PValue}
 	}
 }
 
@@ -420,11 +442,14 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 		return func(b, slot int) {
 			// Every block starts from the observed arrangement, so its
 			// draws depend only on (seed, block).
-			copy(labels, p.Labels)
-			rng.Reset(p.Seed, p.Purpose, b)
 			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
 			ts := window[slot*k : (slot+1)*k]
 			clear(ts)
+			if !p.Shard.take(p.Purpose, b, ts) {
+				return
+			}
+			copy(labels, p.Labels)
+			rng.Reset(p.Seed, p.Purpose, b)
 			for d := lo; d < hi; d++ {
 				shuffleGroups(&rng, labels, groups)
 				eval(labels, vals)
@@ -435,6 +460,7 @@ func sample(p Plan, groups [][]int32, f ManyFactory, c comparison, stats []Stati
 					}
 				}
 			}
+			p.Shard.keep(p.Purpose, b, ts)
 			if p.Progress != nil {
 				p.Progress(int(done.Add(int64(hi-lo))), B)
 			}

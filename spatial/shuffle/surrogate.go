@@ -37,6 +37,9 @@ type SurrogatePlan struct {
 	// Progress, when set, is called after each block with the number of
 	// draws done and the total; it must be safe for concurrent use.
 	Progress func(done, total int)
+	// Shard, when set, runs one part of the blocks or replays all parts'
+	// (see Shard); nil runs them all.
+	Shard *Shard
 }
 
 // OutcomeDraw writes one surrogate outcome into out, drawing its randomness
@@ -75,8 +78,14 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 		scale = 1
 	}
 	tol := 1e-9 * math.Max(math.Abs(observed), scale)
+	if err := checkShard(p.Shard, p.KeepNull); err != nil {
+		return Result{}, err
+	}
 	B := p.Draws
 	blocks := (B + BlockSize - 1) / BlockSize
+	if err := p.Shard.Stage(p.Purpose, p.Scheme, blocks, tallyShape(1)); err != nil {
+		return Result{}, err
+	}
 	window := make([]tally, min(blocks, foldWindow))
 	var t tally
 	var null []float64
@@ -89,18 +98,22 @@ func RunSurrogates(p SurrogatePlan, observed float64, newDraw func() OutcomeDraw
 		y := make([]float64, n)
 		var rng Stream
 		return func(b, slot int) {
-			rng.Reset(p.Seed, p.Purpose, b)
 			lo, hi := b*BlockSize, min((b+1)*BlockSize, B)
-			bt := &window[slot]
-			*bt = tally{}
+			bt := window[slot : slot+1]
+			bt[0] = tally{}
+			if !p.Shard.take(p.Purpose, b, bt) {
+				return
+			}
+			rng.Reset(p.Seed, p.Purpose, b)
 			for d := lo; d < hi; d++ {
 				draw(&rng, y)
 				v := eval(y)
-				bt.add(v, observed, tol)
+				bt[0].add(v, observed, tol)
 				if null != nil {
 					null[d] = v
 				}
 			}
+			p.Shard.keep(p.Purpose, b, bt)
 			if p.Progress != nil {
 				p.Progress(int(done.Add(int64(hi-lo))), B)
 			}
