@@ -59,10 +59,8 @@ func (c *sharedFlags) digestInputs(fromStdin *stdinDigest) error {
 	if c.report == "" {
 		return nil
 	}
-	for _, in := range []struct{ role, path string }{{"layer", c.input}, {"table", c.table}, {"weights", c.weights.file}} {
+	for _, in := range c.inputFiles() {
 		switch {
-		case in.path == "":
-			continue
 		case in.path == "-" && fromStdin != nil && fromStdin.n > 0:
 			c.digests = append(c.digests, report.InputFile{Role: in.role, Name: "standard input", SHA256: hex.EncodeToString(fromStdin.h.Sum(nil))})
 		case in.path == "-":
@@ -76,6 +74,36 @@ func (c *sharedFlags) digestInputs(fromStdin *stdinDigest) error {
 		}
 	}
 	return nil
+}
+
+// inputFile is a file the run reads, and its role.
+type inputFile struct{ role, path string }
+
+// inputFiles are the files the run reads: the layer (with the companions
+// of a shapefile given by its .shp: .shx, .dbf, .prj, .cpg, those that
+// are there), the table and the edge list.
+func (c *sharedFlags) inputFiles() []inputFile {
+	var out []inputFile
+	for _, in := range []inputFile{{"layer", c.input}, {"table", c.table}, {"weights", c.weights.file}} {
+		if in.path == "" {
+			continue
+		}
+		out = append(out, in)
+		ext := filepath.Ext(in.path)
+		if in.role != "layer" || !strings.EqualFold(ext, ".shp") {
+			continue
+		}
+		stem := strings.TrimSuffix(in.path, ext)
+		for _, side := range []string{".shx", ".dbf", ".prj", ".cpg"} {
+			for _, p := range []string{stem + side, stem + strings.ToUpper(side)} {
+				if _, err := os.Stat(p); err == nil {
+					out = append(out, inputFile{"layer " + side[1:], p})
+					break
+				}
+			}
+		}
+	}
+	return out
 }
 
 // fileDigest is the hex SHA-256 of the file at path.

@@ -100,10 +100,7 @@ func settings(fs *pflag.FlagSet) []string {
 // partInputs are the files the run read, with their SHA-256.
 func (c *sharedFlags) partInputs() ([]partial.Input, error) {
 	var out []partial.Input
-	for _, in := range []struct{ role, path string }{{"layer", c.input}, {"table", c.table}, {"weights", c.weights.file}} {
-		if in.path == "" {
-			continue
-		}
+	for _, in := range c.inputFiles() {
 		sum, err := fileDigest(in.path)
 		if err != nil {
 			return nil, err

@@ -1,0 +1,30 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// A shapefile given by its .shp is read with its companions, so the
+// digests of --report and of a part (--shard) cover them too, whatever the
+// case of their extensions; a missing one is simply not listed.
+func TestInputFilesOfAShapefile(t *testing.T) {
+	dir := t.TempDir()
+	for _, name := range []string{"a.shp", "a.DBF", "a.shx", "a.prj", "t.csv"} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(name), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	c := sharedFlags{input: filepath.Join(dir, "a.shp"), table: filepath.Join(dir, "t.csv")}
+	got := c.inputFiles()
+	want := []inputFile{{"layer", "a.shp"}, {"layer shx", "a.shx"}, {"layer dbf", "a.DBF"}, {"layer prj", "a.prj"}, {"table", "t.csv"}}
+	if len(got) != len(want) {
+		t.Fatalf("%v", got)
+	}
+	for i, w := range want {
+		if got[i].role != w.role || filepath.Base(got[i].path) != w.path {
+			t.Errorf("file %d: %v, want %v", i, got[i], w)
+		}
+	}
+}
