@@ -229,6 +229,9 @@ func (o *Outcome) randomCoefficients(rng *shuffle.Stream, dst []float64) {
 // invariant under Ω up to the convergence tolerance, so h lies in it up to
 // that tolerance, and the last projection removes the rest.
 func (o *Outcome) residual(rng *shuffle.Stream, s *Scratch) float64 {
+	if o.b.info.Converged {
+		return o.residualByEigenpairs(rng, s)
+	}
 	b := o.b
 	L := len(b.linked)
 	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
@@ -260,6 +263,54 @@ func (o *Outcome) residual(rng *shuffle.Stream, s *Scratch) float64 {
 	}
 	// ‖g − V proj‖² = ‖g‖² − ‖proj‖², V having orthonormal columns.
 	n2 := dot(g, g) - dot(s.proj, s.proj)
+	if !(n2 > 0) {
+		return 0
+	}
+	return o.rnorm / math.Sqrt(n2)
+}
+
+// residualByEigenpairs is residual for a basis whose vectors are
+// eigenvectors of Ω to the basis's tolerance (Info.Converged): with
+// ΩV = VΛ, the projection of g off the stored vectors and of Ω applied
+// to it need not be formed. With p = Vᵀg, g_r = g − Vp and h = Ωg,
+//
+//	‖g_r‖² = ‖g‖² − ‖p‖²,          g_rᵀΩg_r = gᵀh − Σλp²,
+//	‖Ωg_r‖² = ‖h‖² − Σλ²p²,         (Ωg_r)ᵀΩ(Ωg_r) = hᵀΩh − Σλ³p²,
+//
+// and the residual direction g_r + γΩg_r is (g + γh) − V(p + γΛp): s.g
+// receives g + γh and s.proj p + γΛp, which Draw takes off through the
+// coefficients. One product with V instead of three (the one of Draw
+// aside), for the same direction up to the basis's residuals.
+func (o *Outcome) residualByEigenpairs(rng *shuffle.Stream, s *Scratch) float64 {
+	b := o.b
+	L := len(b.linked)
+	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
+	g, h, p := s.g, s.h, s.proj
+	rng.Normals(g)
+	centre(g)
+	blas64.Gemv(blas.Trans, 1, V, vec(g), 0, vec(p))
+	n2 := dot(g, g) - dot(p, p)
+	if b.resid == Matched {
+		b.op.apply(g, h)
+		centre(h)
+		var l1, l2, l3 float64
+		for k, pk := range p {
+			l := b.values[k]
+			w := l * pk * pk
+			l1, l2, l3 = l1+w, l2+l*w, l3+l*l*w
+		}
+		a := dot(g, h) - l1
+		bb := dot(h, h) - l2
+		c := b.op.quad(h) - l3
+		gamma := matchQuotient(n2, a, bb, c, o.rquot)
+		for i := range g {
+			g[i] += gamma * h[i]
+		}
+		for k := range p {
+			p[k] += gamma * b.values[k] * p[k]
+		}
+		n2 += 2*gamma*a + gamma*gamma*bb
+	}
 	if !(n2 > 0) {
 		return 0
 	}

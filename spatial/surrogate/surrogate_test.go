@@ -225,3 +225,50 @@ func TestMatchQuotient(t *testing.T) {
 		t.Errorf("out of reach: γ %v gives %v, want %v", gm, got, l1)
 	}
 }
+
+// The residual direction by the eigenpairs (residualByEigenpairs, used
+// when the basis converged) is the one the explicit projections give
+// (residual's other branch), up to the basis's residuals: the same
+// surrogates from the same streams, to 1e-6 of their spread, on the
+// sparse basis of a 3,000-area region, matched and white.
+func TestResidualByEigenpairsMatchesProjection(t *testing.T) {
+	g := regionGraph(t, 3000)
+	for _, treatment := range []Residual{Matched, White} {
+		b, err := NewBasis(g, Options{Residual: treatment})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !b.info.Converged || b.info.Complete {
+			t.Fatalf("the basis should be sparse and converged: %+v", b.info)
+		}
+		y, _ := benchColumns(g.Len())
+		o, err := b.Prepare(y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if o.rnorm == 0 {
+			t.Fatal("no residual part to draw")
+		}
+		fast, slow := make([]float64, g.Len()), make([]float64, g.Len())
+		s := b.NewScratch()
+		for d := range 20 {
+			rng := shuffle.NewStream(7, 3, d)
+			o.Draw(&rng, fast, s)
+			b.info.Converged = false
+			rng = shuffle.NewStream(7, 3, d)
+			o.Draw(&rng, slow, s)
+			b.info.Converged = true
+			var diff, spread float64
+			for i := range fast {
+				diff = math.Max(diff, math.Abs(fast[i]-slow[i]))
+				spread = math.Max(spread, math.Abs(slow[i]-o.mean))
+			}
+			if d == 0 {
+				t.Logf("%v: largest difference %.2g of the spread", treatment, diff/spread)
+			}
+			if diff > 1e-6*spread {
+				t.Fatalf("%v, draw %d: surrogates differ by %g (spread %g)", treatment, d, diff, spread)
+			}
+		}
+	}
+}
