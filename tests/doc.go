@@ -11,8 +11,17 @@
 // The outside checks of each package:
 //
 //   - spatial/autocorr: autocorr_states_test.go (global statistics, EB
-//     Moran, join counts, Gi*, correlogram on the states) and
-//     states_test.go (Moran's I against gonum);
+//     Moran, join counts, Gi*, correlogram on the states),
+//     states_test.go (Moran's I against gonum) and bounds_states_test.go
+//     (the range of Moran's I on the sparse path against numpy);
+//   - spatial/rates: rates_states_test.go (pooled rates, their ratio,
+//     global and spatial empirical-Bayes smoothing against numpy);
+//   - spatial/regress: regress_states_test.go (OLS and its diagnostics
+//     against statsmodels; residual Moran, exact p and LM tests against
+//     dense numpy);
+//   - io/input, io/gpkg, io/shapefile, io/geojson: formats_test.go (GDAL's
+//     copies of the states in every format and a projected system give the
+//     same areas, attributes, neighbours and Moran's I);
 //   - spatial/local: local_states_test.go;
 //   - spatial/surrogate: surrogate_states_test.go;
 //   - spatial/sar: sar_states_test.go (the maximum-likelihood fit against
@@ -24,7 +33,9 @@
 //   - spatial/groups: scipy_test.go;
 //   - weights: states_test.go and contiguity_test.go (contiguity of the
 //     states), effective_zones_test.go (zones of the states);
-//   - cmd/areatest: binary_test.go (the built binary).
+//   - cmd/areatest: binary_test.go (the built binary) and shards_test.go
+//     (four shard processes of the built binary and their merge against a
+//     single run).
 //
 // helpers_test.go loads the states layer and its queen graph for all of
 // them; what tests of any package share (golden files, dense matrices, SAR
