@@ -17,7 +17,13 @@ import (
 )
 
 func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	return autocorrRun(args, stdin, stdout, stderr, nil)
+}
+
+// autocorrRun is autocorr, or, with replay, the merge of its parts.
+func autocorrRun(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error {
 	var c sharedFlags
+	var shard shardFlags
 	var variables []string
 	var against, events, population string
 	var lags int
@@ -35,10 +41,18 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	var pics autocorrPictureFlags
 	pics.register(fs)
 	c.register(fs, "text", "json")
+	shard.register(fs)
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
+	if err := shard.check(&c, map[string]string{"scatter": pics.scatter, "histogram": pics.histogram, "correlogram": pics.correlogram}); err != nil {
+		return err
+	}
 	switch {
+	case shard.spec != "" && lags > 0:
+		// The orders of a correlogram share their shuffles (one stream),
+		// which a part's ledger cannot tell apart yet.
+		return usagef("--lags does not go with --shard in this version")
 	case len(variables) == 0 && events == "":
 		return usagef("give --variables, or --events with --population (see areatest autocorr --help)")
 	case (events == "") != (population == ""):
@@ -55,9 +69,17 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return err
 	}
 	in, opt := c.clustering()
-	opt.MoranRange, opt.RangeAdvice = moranRange, "ask for it with --moran-range"
+	opt.MoranRange, opt.RangeAdvice, opt.Shard = moranRange, "ask for it with --moran-range", shard.part
+	if replay != nil {
+		opt.Shard = shuffle.NewReplay(replay)
+	}
 	if err := autocorrColumns(&in, c.lay, variables, against, events, population); err != nil {
 		return err
+	}
+	if shard.spec != "" && len(in.Categorical) > 0 {
+		// The join counts of a text column test every category on the same
+		// shuffles (one stream), which a part's ledger cannot tell apart yet.
+		return usagef("--shard does not go with text columns (join counts of %q) in this version", in.Categorical[0].Name)
 	}
 	if err := lagWidthUnits.resolve(c.lay.CRS, &lagWidth); err != nil {
 		return err
@@ -77,6 +99,9 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}
 	res.Version = Version
+	if shard.part != nil {
+		return shard.writePart(&c, "autocorr", stdout, stderr)
+	}
 	ap := report.AutocorrPictures{Input: in, Options: opt, Result: res}
 	if err := pics.draw(&c, ap); err != nil {
 		return err

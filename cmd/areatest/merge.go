@@ -17,7 +17,9 @@ import (
 // mergeCommands are the commands whose parts merge folds, by name: each
 // runs with the parts' settings, its random stages replaying the parts.
 var mergeCommands = map[string]func(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error{
-	"compare": compareRun,
+	"compare":  compareRun,
+	"autocorr": autocorrRun,
+	"screen":   screenRun,
 }
 
 // mergeFlags are merge's own settings: where and how the result goes.

@@ -13,14 +13,24 @@ import (
 )
 
 func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	return screenRun(args, stdin, stdout, stderr, nil)
+}
+
+// screenRun is screen, or, with replay, the merge of its parts.
+func screenRun(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error {
 	var c sharedFlags
+	var shard shardFlags
 	var exclude []string
 	var adjust string
 	fs := newFlags("screen", stderr)
 	fs.StringSliceVar(&exclude, "exclude", nil, "columns to leave out, comma-separated")
 	fs.StringVar(&adjust, "adjust", "bh", "multiple-testing adjustment across columns: bh (Benjamini–Hochberg), holm, bonferroni, by (Benjamini–Yekutieli) or none")
 	c.register(fs, "text", "json", "csv")
+	shard.register(fs)
 	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if err := shard.check(&c, nil); err != nil {
 		return err
 	}
 	method, err := shuffle.ParseAdjustment(adjust)
@@ -31,7 +41,10 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	in, opt := c.clustering()
-	opt.Adjust = method
+	opt.Adjust, opt.Shard = method, shard.part
+	if replay != nil {
+		opt.Shard = shuffle.NewReplay(replay)
+	}
 	sin := clustering.ScreenInput{Input: in, IDColumn: c.lay.IDColumn, Excluded: exclude, TextReasons: map[string]string{}}
 	for _, col := range c.lay.Columns {
 		switch {
@@ -59,6 +72,9 @@ func runScreen(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	res.Version = Version
+	if shard.part != nil {
+		return shard.writePart(&c, "screen", stdout, stderr)
+	}
 	return c.emit(stdout, stderr, res.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, res) },
 		"csv":  func(w io.Writer) error { return report.ScreenCSV(w, res) },

@@ -153,3 +153,37 @@ func TestShardUsage(t *testing.T) {
 		t.Errorf("merge of nothing: %d %s", r.code, r.stderr)
 	}
 }
+
+// screen and autocorr split too: the merge of 1, 2 and 5 parts is the whole
+// run's text and JSON (autocorr with numeric variables, a rate and the
+// bivariate Moran's I); autocorr refuses --shard with --lags and with text
+// columns, whose tests share one stream in this version.
+func TestMergedPartsOfScreenAndAutocorr(t *testing.T) {
+	sampleDir(t)
+	for _, args := range [][]string{
+		{"screen", "-i", "region.geojson", "-n", "499"},
+		{"autocorr", "-i", "region.geojson", "--variables", "income,rate", "--events", "cases", "--population", "population", "--against", "income", "-n", "499"},
+	} {
+		for _, format := range []string{"text", "json"} {
+			whole := runIn("", append(args, "--format", format)...)
+			if whole.code != 0 {
+				t.Fatalf("%v: %s", args, whole.stderr)
+			}
+			for _, n := range []int{1, 2, 5} {
+				names := parts(t, args, n, 2)
+				r := runIn("", append([]string{"merge", "--format", format}, names...)...)
+				if r.code != 0 || r.stdout != whole.stdout {
+					t.Errorf("%s, %d parts, %s: exit %d %s; merge differs from the whole run", args[0], n, format, r.code, r.stderr)
+				}
+			}
+		}
+	}
+	for _, bad := range [][]string{
+		{"autocorr", "-i", "region.geojson", "--variables", "income", "--lags", "2"},
+		{"autocorr", "-i", "region.geojson", "--variables", "urban"},
+	} {
+		if r := runIn("", append(bad, "--shard", "1/2", "-o", "p.json")...); r.code != 2 {
+			t.Errorf("%v --shard: exit %d, %s", bad, r.code, r.stderr)
+		}
+	}
+}

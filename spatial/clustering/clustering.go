@@ -69,6 +69,9 @@ type Options struct {
 	// RangeAdvice ends the note on a range not computed: how to ask for
 	// it (the tool's words; the library names no flag).
 	RangeAdvice string
+	// Shard, when set, runs one part of every shuffle's blocks or replays
+	// the parts (see shuffle.Shard); nil runs everything.
+	Shard *shuffle.Shard
 }
 
 // Statistic is one global statistic with its moments and tests.
@@ -222,7 +225,7 @@ func (in *Input) restrict(keep []int) (*weights.Restricted, error) {
 
 func plan(opt Options, purpose uint64, alt shuffle.Alternative) shuffle.Plan {
 	return shuffle.Plan{Scheme: "free", Permutations: opt.Permutations, ExactLimit: opt.ExactLimit,
-		Seed: opt.Seed, Purpose: purpose, Workers: opt.Workers, Alternative: alt}
+		Seed: opt.Seed, Purpose: purpose, Workers: opt.Workers, Alternative: alt, Shard: opt.Shard}
 }
 
 // planFor is plan with the progress callback of a named stage.
