@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/stat/distuv"
-
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -89,8 +87,10 @@ func (f *Fit) Moran(g *weights.Graph, alt shuffle.Alternative) (ResidualMoran, e
 		return r, fmt.Errorf("regress: the residual Moran's I has no variance on this graph and design")
 	}
 	r.Z = (r.I - r.Mean) / math.Sqrt(r.Variance)
-	std := distuv.UnitNormal
-	r.P = sided(alt, std.Survival(r.Z), std.CDF(r.Z))
+	// The tails by the complementary error function, which keeps their
+	// digits far out (the normal's Survival underflows to 0 above z ≈ 8.3).
+	upper, lower := 0.5*math.Erfc(r.Z/math.Sqrt2), 0.5*math.Erfc(-r.Z/math.Sqrt2)
+	r.P = sided(alt, upper, lower)
 	if f.Areas <= ExactLimit {
 		upper, err := f.exactUpper(g, r.I*t.s0/n)
 		if err != nil {
