@@ -62,7 +62,9 @@ func runWeights(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		c.fileOf("--write").SetRender(func(w io.Writer) error { return weights.WriteEdgeList(w, shown, c.lay.IDs, write) })
 		doc.Written = write
 	}
-	return c.emit(stdout, stderr, nil, map[string]func(io.Writer) error{
+	// The summary's warnings are the report's: on stderr too when the
+	// report is not text on stdout, as for every command.
+	return c.emit(stdout, stderr, doc.Weights.Warnings, map[string]func(io.Writer) error{
 		"json": func(w io.Writer) error { return report.JSON(w, doc) },
 		"text": func(w io.Writer) error { return report.WeightsText(w, doc) },
 		"html": c.page(doc, 0),
