@@ -20,76 +20,72 @@ func runAutocorr(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	return autocorrRun(args, stdin, stdout, stderr, nil)
 }
 
-// autocorrRun is autocorr, or, with replay, the merge of its parts.
-func autocorrRun(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error {
-	var c sharedFlags
-	var shard shardFlags
-	var variables []string
-	var against, events, population string
-	var lags int
-	var lagWidth float64
-	var lagWidthUnits *distanceFlag
-	var moranRange bool
-	fs := newFlags("autocorr", stderr)
-	fs.StringSliceVar(&variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
-	fs.StringVar(&against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
-	fs.StringVar(&events, "events", "", "column of event counts: test the rate events/population")
-	fs.StringVar(&population, "population", "", "column of populations at risk, with --events")
-	fs.IntVar(&lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
-	lagWidthUnits = distanceVar(fs, &lagWidth, "lag-width", "with --lags: distance classes of this width instead of neighbour orders"+distanceHelp)
-	fs.BoolVar(&moranRange, "moran-range", false, "compute the range of Moran's I at any size (unasked only up to "+numtext.Count(clustering.AutoRangeAreas)+" areas)")
-	var pics autocorrPictureFlags
-	pics.register(fs)
-	c.register(fs, "text", "json")
-	shard.register(fs)
-	if err := parseFlags(fs, args); err != nil {
-		return err
-	}
-	if err := shard.check(&c, map[string]string{"scatter": pics.scatter, "histogram": pics.histogram, "correlogram": pics.correlogram}); err != nil {
+// autocorrFlags are the settings of `areatest autocorr`.
+type autocorrFlags struct {
+	sharedFlags
+	shard                       shardFlags
+	pics                        autocorrPictureFlags
+	variables                   []string
+	against, events, population string
+	lags                        int
+	lagWidth                    float64
+	lagWidthUnits               *distanceFlag
+	moranRange                  bool
+}
+
+func (c *autocorrFlags) register(fs *pflag.FlagSet) {
+	fs.StringSliceVar(&c.variables, "variables", nil, "columns to test, comma-separated (text columns get join counts)")
+	fs.StringVar(&c.against, "against", "", "also the bivariate Moran's I of each variable against the spatial lag of this column")
+	fs.StringVar(&c.events, "events", "", "column of event counts: test the rate events/population")
+	fs.StringVar(&c.population, "population", "", "column of populations at risk, with --events")
+	fs.IntVar(&c.lags, "lags", 0, "also a correlogram: Moran's I at neighbour orders 1..K (or K distance classes with --lag-width)")
+	c.lagWidthUnits = distanceVar(fs, &c.lagWidth, "lag-width", "with --lags: distance classes of this width instead of neighbour orders"+distanceHelp)
+	fs.BoolVar(&c.moranRange, "moran-range", false, "compute the range of Moran's I at any size (unasked only up to "+numtext.Count(clustering.AutoRangeAreas)+" areas)")
+	c.pics.register(fs)
+	c.sharedFlags.register(fs, "text", "json")
+	c.shard.register(fs)
+}
+
+// check checks autocorr's own flags, --shard and the pictures' files.
+func (c *autocorrFlags) check() error {
+	p := c.pics
+	if err := c.shard.check(&c.sharedFlags, map[string]string{"scatter": p.scatter, "histogram": p.histogram, "correlogram": p.correlogram}); err != nil {
 		return err
 	}
 	switch {
-	case shard.spec != "" && lags > 0:
+	case c.shard.spec != "" && c.lags > 0:
 		// The orders of a correlogram share their shuffles (one stream),
 		// which a part's ledger cannot tell apart yet.
 		return usagef("--lags does not go with --shard in this version")
-	case len(variables) == 0 && events == "":
+	case len(c.variables) == 0 && c.events == "":
 		return usagef("give --variables, or --events with --population (see areatest autocorr --help)")
-	case (events == "") != (population == ""):
+	case (c.events == "") != (c.population == ""):
 		return usagef("--events and --population go together")
-	case lags < 0:
+	case c.lags < 0:
 		return usagef("--lags must not be negative")
-	case lagWidth < 0 || (lagWidth > 0 && lags == 0):
+	case c.lagWidth < 0 || (c.lagWidth > 0 && c.lags == 0):
 		return usagef("--lag-width is a positive distance and goes with --lags")
 	}
-	if err := pics.check(&c, len(variables), lags); err != nil {
+	return c.pics.check(&c.sharedFlags, len(c.variables), c.lags)
+}
+
+// autocorrRun is autocorr, or, with replay, the merge of its parts.
+func autocorrRun(args []string, stdin io.Reader, stdout, stderr io.Writer, replay *shuffle.Ledger) error {
+	var c autocorrFlags
+	fs := newFlags("autocorr", stderr)
+	c.register(fs)
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if err := c.check(); err != nil {
 		return err
 	}
 	if err := c.prepare("autocorr", stdin, stderr, shuffle.ParseAlternative); err != nil {
 		return err
 	}
-	in, opt := c.clustering()
-	opt.MoranRange, opt.RangeAdvice, opt.Shard = moranRange, "ask for it with --moran-range", shard.part
-	if replay != nil {
-		opt.Shard = shuffle.NewReplay(replay)
-	}
-	if err := autocorrColumns(&in, c.lay, variables, against, events, population); err != nil {
+	in, opt, err := c.input(replay)
+	if err != nil {
 		return err
-	}
-	if shard.spec != "" && len(in.Categorical) > 0 {
-		// The join counts of a text column test every category on the same
-		// shuffles (one stream), which a part's ledger cannot tell apart yet.
-		return usagef("--shard does not go with text columns (join counts of %q) in this version", in.Categorical[0].Name)
-	}
-	if err := lagWidthUnits.resolve(c.lay.CRS, &lagWidth); err != nil {
-		return err
-	}
-	var err error
-	if in.Lags = lags; lagWidth > 0 {
-		in.Lags = 0
-		if in.DistanceClasses, err = c.spec.DistanceClasses(c.lay.Geoms, lagWidth, lags); err != nil {
-			return fmt.Errorf("%s: %w", c.lay.Source, err)
-		}
 	}
 	bar := progress.New(stderr)
 	opt.Progress = bar.Stage
@@ -99,16 +95,51 @@ func autocorrRun(args []string, stdin io.Reader, stdout, stderr io.Writer, repla
 		return fmt.Errorf("%s: %w", c.lay.Source, err)
 	}
 	res.Version = Version
-	if shard.part != nil {
-		return shard.writePart(&c, "autocorr", stdout, stderr)
+	if c.shard.part != nil {
+		return c.shard.writePart(&c.sharedFlags, "autocorr", stdout, stderr)
 	}
-	ap := report.AutocorrPictures{Input: in, Options: opt, Result: res}
-	if err := pics.draw(&c, ap); err != nil {
+	return c.write(report.AutocorrPictures{Input: in, Options: opt, Result: res}, stdout, stderr)
+}
+
+// input gathers the columns and options of the run from the layer read:
+// the variables, the correlogram's lags or distance classes, the shard.
+func (c *autocorrFlags) input(replay *shuffle.Ledger) (clustering.Input, clustering.Options, error) {
+	in, opt := c.clustering()
+	opt.MoranRange, opt.RangeAdvice, opt.Shard = c.moranRange, "ask for it with --moran-range", c.shard.part
+	if replay != nil {
+		opt.Shard = shuffle.NewReplay(replay)
+	}
+	if err := autocorrColumns(&in, c.lay, c.variables, c.against, c.events, c.population); err != nil {
+		return in, opt, err
+	}
+	if c.shard.spec != "" && len(in.Categorical) > 0 {
+		// The join counts of a text column test every category on the same
+		// shuffles (one stream), which a part's ledger cannot tell apart yet.
+		return in, opt, usagef("--shard does not go with text columns (join counts of %q) in this version", in.Categorical[0].Name)
+	}
+	if err := c.lagWidthUnits.resolve(c.lay.CRS, &c.lagWidth); err != nil {
+		return in, opt, err
+	}
+	if in.Lags = c.lags; c.lagWidth > 0 {
+		in.Lags = 0
+		var err error
+		if in.DistanceClasses, err = c.spec.DistanceClasses(c.lay.Geoms, c.lagWidth, c.lags); err != nil {
+			return in, opt, fmt.Errorf("%s: %w", c.lay.Source, err)
+		}
+	}
+	return in, opt, nil
+}
+
+// write draws the pictures asked for and writes the report, with the
+// islands left out said among the warnings.
+func (c *autocorrFlags) write(ap report.AutocorrPictures, stdout, stderr io.Writer) error {
+	res := ap.Result
+	if err := c.pics.draw(&c.sharedFlags, ap); err != nil {
 		return err
 	}
 	pagePics := []pagePicture{{"Moran scatter", "Each area's standardised value against its neighbours' mean; the slope of the line is Moran's I.", ap.Scatter},
 		{"Moran's I under the shuffles", "Moran's I in each shuffle of the values over the areas, with the observed value marked.", ap.Histogram}}
-	if lags > 0 {
+	if c.lags > 0 {
 		pagePics = append(pagePics, pagePicture{"Correlogram", "Moran's I at each lag, with the band of 95% of the shuffles' values and the value expected without clustering.", ap.Correlogram})
 	}
 	if res.IslandsLeftOut > 0 {
