@@ -295,7 +295,7 @@ func (r *rateNull) load(z []float64) ([]float64, error) {
 }
 
 func (r *rateNull) observed() float64 { return r.eval(r.labels) }
-func (r *rateNull) scale() float64    { return math.Max(math.Abs(r.observed()), 1e-300) }
+func (r *rateNull) scale() float64    { return rateScale(r.observed()) }
 
 func (r *rateNull) shuffled(strata []int32, B int, seed, purpose uint64) (float64, error) {
 	res, err := shuffle.Run(shuffle.Plan{Scheme: "check", Labels: r.labels, Strata: strata, Permutations: B, ExactLimit: -1,
@@ -307,7 +307,9 @@ func (r *rateNull) shuffled(strata []int32, B int, seed, purpose uint64) (float6
 }
 
 // onSurrogates evaluates the statistic of a surrogate of the scores: its
-// events, pooled by the fixed groups.
+// events, pooled by the fixed groups. The comparison itself does not draw
+// on it (its spectral row and SAR check test the scores, see
+// rateState.scoreStat); it completes the test for the checks' interface.
 func (r *rateNull) onSurrogates() shuffle.OutcomeEvaluator {
 	events := make([]float64, len(r.labels))
 	ev, pop := make([]float64, r.k), make([]float64, r.k)
