@@ -88,3 +88,17 @@ func TestNewCountsRefuses(t *testing.T) {
 		t.Error(err)
 	}
 }
+
+// The homogeneity X² against scipy: events 31, 21, 12 over 7,000, 6,500
+// and 2,500 people; scipy 1.10.1 (Debian) gives, by
+//
+//	b = 64/16000; scipy.stats.chisquare([31, 21, 12], [b*7000, b*6500, b*2500]).statistic
+//
+// 1.6829670329670332. Ratio and difference are checked against numpy in
+// tests/rates_states_test.go.
+func TestHomogeneityAgainstScipy(t *testing.T) {
+	got := RateHomogeneity.FromGroups([]float64{31, 21, 12}, []float64{7000, 6500, 2500})
+	if math.Abs(got-1.6829670329670332) > 1e-13 {
+		t.Errorf("X² = %.17g, scipy 1.6829670329670332", got)
+	}
+}
