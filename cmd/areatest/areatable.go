@@ -53,16 +53,21 @@ func writeAreaTable(w io.Writer, path string, lay *layer.Layer, csv func(io.Writ
 
 // renderFiles gives each planned file whose flag draw names its renderer,
 // called with the format of the file's extension (none for a table), and
-// returns the paths of those files, for the report's list of what it
-// wrote; the other files (--output) are rendered by emit.
+// returns the paths of those files, in the order they were asked for, for
+// the report's list of what it wrote. A flag named with a nil renderer
+// (--report) is listed but rendered by emit, as --output is.
 func (c *sharedFlags) renderFiles(draw map[string]func(io.Writer, figure.Format) error) []string {
 	var written []string
 	for _, f := range c.files {
-		if d, ok := draw[f.flag]; ok {
+		d, ok := draw[f.flag]
+		if !ok {
+			continue
+		}
+		if d != nil {
 			format, _ := figure.FormatFromPath(f.path) // checked with the flags
 			f.file.SetRender(func(w io.Writer) error { return d(w, format) })
-			written = append(written, f.path)
 		}
+		written = append(written, f.path)
 	}
 	return written
 }

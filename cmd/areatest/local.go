@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -13,8 +12,6 @@ import (
 
 	"github.com/areatest/areatest/internal/choice"
 	"github.com/areatest/areatest/io/figure"
-	"github.com/areatest/areatest/io/geojson"
-	"github.com/areatest/areatest/io/gpkg"
 	"github.com/areatest/areatest/io/layer"
 	"github.com/areatest/areatest/io/report"
 	"github.com/areatest/areatest/spatial/local"
@@ -213,28 +210,12 @@ func (c *localFlags) input() (local.Input, error) {
 func (c *localFlags) write(pics report.LocalPictures) {
 	res := pics.Result
 	table := func(w io.Writer, _ figure.Format) error {
-		switch strings.ToLower(filepath.Ext(c.out)) {
-		case ".csv":
-			return report.LocalCSV(w, res, c.rateColumns()...)
-		case ".gpkg":
-			return gpkg.Write(w, pics.Layer, append(report.LocalColumns(res), c.rateColumns()...), "")
-		}
-		return geojson.Write(w, pics.Layer, append(report.LocalColumns(res), c.rateColumns()...))
+		return writeAreaTable(w, c.out, pics.Layer, func(w io.Writer) error { return report.LocalCSV(w, res, c.rateColumns()...) },
+			func() []*layer.Column { return append(report.LocalColumns(res), c.rateColumns()...) })
 	}
-	draw := map[string]func(io.Writer, figure.Format) error{
-		"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth, "--scatter": pics.Scatter, "--histogram": pics.Histogram}
-	for _, f := range c.files {
-		d, ok := draw[f.flag]
-		if f.flag == "--report" {
-			res.Written = append(res.Written, f.path)
-		}
-		if !ok {
-			continue // --output and --report: rendered by emit
-		}
-		format, _ := figure.FormatFromPath(f.path) // checked by checkFiles; none for the table
-		f.file.SetRender(func(w io.Writer) error { return d(w, format) })
-		res.Written = append(res.Written, f.path)
-	}
+	draw := map[string]func(io.Writer, figure.Format) error{"--out": table, "--map": pics.Map, "--choropleth": pics.Choropleth,
+		"--scatter": pics.Scatter, "--histogram": pics.Histogram, "--report": nil}
+	res.Written = append(res.Written, c.renderFiles(draw)...)
 }
 
 // crsLabel names a coordinate system for a message: " (EPSG:5070)", " (a

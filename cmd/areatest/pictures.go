@@ -26,13 +26,7 @@ func (c *sharedFlags) wantPicture(flag, path string) error {
 // drawPicture gives the planned file of flag, if any, its renderer: draw
 // in the format of the file's extension.
 func (c *sharedFlags) drawPicture(flag string, draw func(io.Writer, figure.Format) error) {
-	for _, f := range c.files {
-		if f.flag != flag {
-			continue
-		}
-		format, _ := figure.FormatFromPath(f.path) // checked by wantPicture
-		f.file.SetRender(func(w io.Writer) error { return draw(w, format) })
-	}
+	c.renderFiles(map[string]func(io.Writer, figure.Format) error{flag: draw})
 }
 
 // parseClasses reads the class rule of a choropleth: quantile or natural.

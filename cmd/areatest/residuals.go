@@ -188,6 +188,6 @@ func (c *residualsFlags) write(pics report.ResidualPictures) {
 		return writeAreaTable(w, c.out, c.lay, func(w io.Writer) error { return report.ResidualsCSV(w, res, c.lay.IDs) },
 			func() []*layer.Column { return report.ResidualColumns(res, len(c.lay.IDs)) })
 	}
-	draw := map[string]func(io.Writer, figure.Format) error{"--out": table, "--map": pics.Map, "--local": pics.LocalMap}
+	draw := map[string]func(io.Writer, figure.Format) error{"--out": table, "--map": pics.Map, "--local": pics.LocalMap, "--report": nil}
 	res.Written = append(res.Written, c.renderFiles(draw)...)
 }
