@@ -7,6 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -166,20 +167,6 @@ func denseBounds(g *weights.Graph) (lo, hi float64, err error) {
 	return rest[0], rest[len(rest)-1], nil
 }
 
-func dot(a, b []float64) float64 {
-	var s float64
-	for i, v := range a {
-		s += v * b[i]
-	}
-	return s
-}
-
-func axpy(c float64, x, y []float64) {
-	for i, v := range x {
-		y[i] += c * v
-	}
-}
-
 // normalise scales v to unit length, dividing by its largest entry first so
 // that the huge vectors of inverse iteration cannot overflow the sum.
 func normalise(v []float64) {
@@ -193,7 +180,7 @@ func normalise(v []float64) {
 	for i := range v {
 		v[i] /= m
 	}
-	s := 1 / math.Sqrt(dot(v, v))
+	s := 1 / math.Sqrt(vec.Dot(v, v))
 	for i := range v {
 		v[i] *= s
 	}

@@ -3,6 +3,7 @@ package autocorr
 import (
 	"math"
 
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/spatial/shuffle"
 	"github.com/areatest/areatest/weights"
 )
@@ -82,7 +83,7 @@ func (c centredSym) Len() int { return len(c.offsets) - 1 }
 // Apply sets y = M W* v.
 func (c centredSym) Apply(v, y []float64) {
 	c.gather(v, y)
-	centreInPlace(y)
+	vec.Centre(y)
 }
 
 // gather sets y = W* v.
@@ -97,19 +98,7 @@ func (c centredSym) gather(v, y []float64) {
 	}
 }
 
-func (c centredSym) Project(v []float64) { centreInPlace(v) }
-
-// centreInPlace subtracts the mean: M v.
-func centreInPlace(v []float64) {
-	var s float64
-	for _, x := range v {
-		s += x
-	}
-	s /= float64(len(v))
-	for i := range v {
-		v[i] -= s
-	}
-}
+func (c centredSym) Project(v []float64) { vec.Centre(v) }
 
 // extremes is what lanczosBounds finds: the Rayleigh quotients lo and hi
 // of two explicit vectors, their residual norms ‖Ay − ρy‖ (for unit y),
@@ -187,8 +176,8 @@ func ritzPair(op symOperator, q0 []float64, run *lanczos) extremes {
 	ylo, yhi := make([]float64, n), make([]float64, n)
 	again := newLanczos(op, q0)
 	for j := 0; j < k; j++ {
-		axpy(slo[j], again.q, ylo)
-		axpy(shi[j], again.q, yhi)
+		vec.Axpy(slo[j], again.q, ylo)
+		vec.Axpy(shi[j], again.q, yhi)
 		if j+1 < k {
 			again.step()
 		}
@@ -205,7 +194,7 @@ func rayleigh(op symOperator, y, work []float64) (rho, res float64) {
 	op.Project(y)
 	normalise(y)
 	op.Apply(y, work)
-	rho = dot(y, work)
-	axpy(-rho, y, work)
-	return rho, math.Sqrt(dot(work, work))
+	rho = vec.Dot(y, work)
+	vec.Axpy(-rho, y, work)
+	return rho, math.Sqrt(vec.Dot(work, work))
 }

@@ -3,6 +3,7 @@ package autocorr
 import (
 	"math"
 
+	"github.com/areatest/areatest/internal/vec"
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/lapack/lapack64"
@@ -39,12 +40,12 @@ func newLanczos(op symOperator, q0 []float64) *lanczos {
 func (l *lanczos) advance(prevBeta float64) {
 	l.op.Apply(l.q, l.w)
 	if prevBeta != 0 {
-		axpy(-prevBeta, l.qPrev, l.w)
+		vec.Axpy(-prevBeta, l.qPrev, l.w)
 	}
-	a := dot(l.q, l.w)
-	axpy(-a, l.q, l.w)
+	a := vec.Dot(l.q, l.w)
+	vec.Axpy(-a, l.q, l.w)
 	l.op.Project(l.w)
-	b := math.Sqrt(dot(l.w, l.w))
+	b := math.Sqrt(vec.Dot(l.w, l.w))
 	l.alpha, l.beta = append(l.alpha, a), append(l.beta, b)
 	l.scale = math.Max(l.scale, math.Abs(a)+b)
 }

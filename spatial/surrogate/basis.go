@@ -7,6 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -282,13 +283,13 @@ func (b *Basis) dense() error {
 		u[i] = inv
 	}
 	u[L-1] += 1
-	beta := 2 / dot(u, u)
+	beta := 2 / vec.Dot(u, u)
 	// H A H = A − u wᵀ − w uᵀ with p = β A u, w = p − (β uᵀp/2) u.
 	p := make([]float64, L)
 	for i := 0; i < L; i++ {
-		p[i] = beta * dot(a[i*L:(i+1)*L], u)
+		p[i] = beta * vec.Dot(a[i*L:(i+1)*L], u)
 	}
-	kk := beta * dot(u, p) / 2
+	kk := beta * vec.Dot(u, p) / 2
 	for i := range p {
 		p[i] -= kk * u[i]
 	}

@@ -5,6 +5,7 @@ import (
 	"runtime"
 
 	"github.com/areatest/areatest/internal/parallel"
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/weights"
 )
 
@@ -136,27 +137,11 @@ func (op *symOp) applyBlock(x, y []float64, p int, sign float64) {
 				yi[c] = 0
 			}
 			for k := op.off[i]; k < op.off[i+1]; k++ {
-				axpyUnrolled(sign*op.w[k], x[int(op.nb[k])*p:int(op.nb[k]+1)*p], yi)
+				vec.Axpy(sign*op.w[k], x[int(op.nb[k])*p:int(op.nb[k]+1)*p], yi)
 			}
 		}
 	})
 	centreColumns(y, op.n, p)
-}
-
-// axpyUnrolled sets y += a·x.
-func axpyUnrolled(a float64, x, y []float64) {
-	n := len(y)
-	x = x[:n]
-	i := 0
-	for ; i+4 <= n; i += 4 {
-		y[i] += a * x[i]
-		y[i+1] += a * x[i+1]
-		y[i+2] += a * x[i+2]
-		y[i+3] += a * x[i+3]
-	}
-	for ; i < n; i++ {
-		y[i] += a * x[i]
-	}
 }
 
 // centreColumns subtracts from each column of the n×p row-major block its
@@ -190,26 +175,4 @@ func parallelRows(n, perRow int, f func(lo, hi int)) {
 		return
 	}
 	parallel.ForRanges(n, (n+workers-1)/workers, workers, f)
-}
-
-func dot(a, b []float64) float64 {
-	var s float64
-	b = b[:len(a)]
-	for i, v := range a {
-		s += v * b[i]
-	}
-	return s
-}
-
-// centre subtracts the mean of v and returns it.
-func centre(v []float64) float64 {
-	var s float64
-	for _, x := range v {
-		s += x
-	}
-	s /= float64(len(v))
-	for i := range v {
-		v[i] -= s
-	}
-	return s
 }

@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/lapack"
 	"gonum.org/v1/gonum/lapack/lapack64"
 
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -263,7 +264,7 @@ func spectrumBounds(op *symOp, seed uint64) (lo, hi float64) {
 	rng := shuffle.NewStream(seed, basisPurpose, 2)
 	q := make([]float64, n)
 	rng.Normals(q)
-	centre(q)
+	vec.Centre(q)
 	scaleTo(q, 1)
 	basis := make([]float64, 0, n*steps)
 	alpha := make([]float64, 0, steps)
@@ -272,19 +273,19 @@ func spectrumBounds(op *symOp, seed uint64) (lo, hi float64) {
 	for k := 0; k < steps; k++ {
 		basis = append(basis, q...)
 		op.apply(q, w)
-		centre(w)
-		alpha = append(alpha, dot(q, w))
+		vec.Centre(w)
+		alpha = append(alpha, vec.Dot(q, w))
 		for pass := 0; pass < 2; pass++ {
 			for j := 0; j <= k; j++ {
 				qj := basis[j*n : (j+1)*n]
-				c := dot(qj, w)
+				c := vec.Dot(qj, w)
 				for i := range w {
 					w[i] -= c * qj[i]
 				}
 			}
-			centre(w)
+			vec.Centre(w)
 		}
-		bk := math.Sqrt(dot(w, w))
+		bk := math.Sqrt(vec.Dot(w, w))
 		if bk <= 1e-12*(math.Abs(alpha[k])+1e-300) || k == steps-1 {
 			beta = append(beta, bk)
 			break
@@ -320,7 +321,7 @@ func spectrumBounds(op *symOp, seed uint64) (lo, hi float64) {
 
 // scaleTo scales v to length l (leaves a zero vector alone).
 func scaleTo(v []float64, l float64) {
-	s := math.Sqrt(dot(v, v))
+	s := math.Sqrt(vec.Dot(v, v))
 	if s == 0 {
 		return
 	}

@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 
+	"github.com/areatest/areatest/internal/vec"
 	"github.com/areatest/areatest/spatial/shuffle"
 )
 
@@ -69,19 +70,19 @@ func (b *Basis) prepareInto(y []float64, o *Outcome, z []float64) error {
 	for k, i := range b.linked {
 		z[k] = y[i]
 	}
-	o.mean = centre(z)
-	o.norm = math.Sqrt(dot(z, z))
+	o.mean = vec.Centre(z)
+	o.norm = math.Sqrt(vec.Dot(z, z))
 	for k, i := range b.islands {
 		o.island[k] = y[i]
 	}
 	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
-	blas64.Gemv(blas.Trans, 1, V, vec(z), 0, vec(o.coef))
+	blas64.Gemv(blas.Trans, 1, V, blasVec(z), 0, blasVec(o.coef))
 	o.rnorm, o.rquot = 0, 0
 	if b.m < L-1 {
 		// r = z − V c: what the stored vectors leave of the outcome.
-		blas64.Gemv(blas.NoTrans, -1, V, vec(o.coef), 1, vec(z))
-		centre(z)
-		rr := dot(z, z)
+		blas64.Gemv(blas.NoTrans, -1, V, blasVec(o.coef), 1, blasVec(z))
+		vec.Centre(z)
+		rr := vec.Dot(z, z)
 		if rr > 1e-28*o.norm*o.norm {
 			o.rnorm = math.Sqrt(rr)
 			o.rquot = b.op.quad(z) / rr
@@ -160,16 +161,16 @@ func (o *Outcome) Draw(rng *shuffle.Stream, out []float64, s *Scratch) {
 		for k, p := range s.proj {
 			s.coef[k] -= f * p
 		}
-		blas64.Gemv(blas.NoTrans, 1, V, vec(s.coef), 0, vec(s.lin))
+		blas64.Gemv(blas.NoTrans, 1, V, blasVec(s.coef), 0, blasVec(s.lin))
 		for i, v := range s.g {
 			s.lin[i] += f * v
 		}
 	} else {
-		blas64.Gemv(blas.NoTrans, 1, V, vec(s.coef), 0, vec(s.lin))
+		blas64.Gemv(blas.NoTrans, 1, V, blasVec(s.coef), 0, blasVec(s.lin))
 	}
-	centre(s.lin)
+	vec.Centre(s.lin)
 	f := 1.0
-	if n := math.Sqrt(dot(s.lin, s.lin)); n > 0 {
+	if n := math.Sqrt(vec.Dot(s.lin, s.lin)); n > 0 {
 		f = o.norm / n
 	}
 	for k, i := range b.linked {
@@ -213,7 +214,7 @@ func (o *Outcome) randomCoefficients(rng *shuffle.Stream, dst []float64) {
 		// Gaussian), with the group's share of the variance.
 		seg := dst[a:e]
 		rng.Normals(seg)
-		want := math.Sqrt(dot(o.coef[a:e], o.coef[a:e]))
+		want := math.Sqrt(vec.Dot(o.coef[a:e], o.coef[a:e]))
 		scaleTo(seg, want)
 	}
 }
@@ -237,32 +238,32 @@ func (o *Outcome) residual(rng *shuffle.Stream, s *Scratch) float64 {
 	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
 	g, h := s.g, s.h
 	rng.Normals(g)
-	centre(g)
-	blas64.Gemv(blas.Trans, 1, V, vec(g), 0, vec(s.proj))
-	blas64.Gemv(blas.NoTrans, -1, V, vec(s.proj), 1, vec(g))
+	vec.Centre(g)
+	blas64.Gemv(blas.Trans, 1, V, blasVec(g), 0, blasVec(s.proj))
+	blas64.Gemv(blas.NoTrans, -1, V, blasVec(s.proj), 1, blasVec(g))
 	if b.resid == Matched {
 		b.op.apply(g, h)
-		centre(h)
+		vec.Centre(h)
 		// For g in the residual subspace R and h = P W* g (P the
 		// projection on R):
 		//   gᵀW*g = gᵀh = a,  gᵀW*h = hᵀh = bb,  hᵀW*h = c,
 		// so the quotient of g + γh is (a + 2γbb + γ²c)/(gg + 2γa + γ²bb).
-		gg := dot(g, g)
-		a := dot(g, h)
-		bb := dot(h, h)
+		gg := vec.Dot(g, g)
+		a := vec.Dot(g, h)
+		bb := vec.Dot(h, h)
 		c := b.op.quad(h)
 		gamma := matchQuotient(gg, a, bb, c, o.rquot)
 		for i := range g {
 			g[i] += gamma * h[i]
 		}
-		blas64.Gemv(blas.Trans, 1, V, vec(g), 0, vec(s.proj))
+		blas64.Gemv(blas.Trans, 1, V, blasVec(g), 0, blasVec(s.proj))
 	} else {
 		for k := range s.proj {
 			s.proj[k] = 0
 		}
 	}
 	// ‖g − V proj‖² = ‖g‖² − ‖proj‖², V having orthonormal columns.
-	n2 := dot(g, g) - dot(s.proj, s.proj)
+	n2 := vec.Dot(g, g) - vec.Dot(s.proj, s.proj)
 	if !(n2 > 0) {
 		return 0
 	}
@@ -287,20 +288,20 @@ func (o *Outcome) residualByEigenpairs(rng *shuffle.Stream, s *Scratch) float64 
 	V := blas64.General{Rows: L, Cols: b.m, Stride: b.m, Data: b.vecs}
 	g, h, p := s.g, s.h, s.proj
 	rng.Normals(g)
-	centre(g)
-	blas64.Gemv(blas.Trans, 1, V, vec(g), 0, vec(p))
-	n2 := dot(g, g) - dot(p, p)
+	vec.Centre(g)
+	blas64.Gemv(blas.Trans, 1, V, blasVec(g), 0, blasVec(p))
+	n2 := vec.Dot(g, g) - vec.Dot(p, p)
 	if b.resid == Matched {
 		b.op.apply(g, h)
-		centre(h)
+		vec.Centre(h)
 		var l1, l2, l3 float64
 		for k, pk := range p {
 			l := b.values[k]
 			w := l * pk * pk
 			l1, l2, l3 = l1+w, l2+l*w, l3+l*l*w
 		}
-		a := dot(g, h) - l1
-		bb := dot(h, h) - l2
+		a := vec.Dot(g, h) - l1
+		bb := vec.Dot(h, h) - l2
 		c := b.op.quad(h) - l3
 		gamma := matchQuotient(n2, a, bb, c, o.rquot)
 		for i := range g {
@@ -390,4 +391,4 @@ func (o *Outcome) NewDraw() shuffle.OutcomeDraw {
 	return func(rng *shuffle.Stream, out []float64) { o.Draw(rng, out, s) }
 }
 
-func vec(v []float64) blas64.Vector { return blas64.Vector{N: len(v), Inc: 1, Data: v} }
+func blasVec(v []float64) blas64.Vector { return blas64.Vector{N: len(v), Inc: 1, Data: v} }
